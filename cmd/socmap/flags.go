@@ -1,0 +1,260 @@
+package main
+
+import (
+	"math"
+
+	"github.com/spf13/pflag"
+
+	"socmap/dispersion"
+)
+
+// qflag registers a quantity flag of the given kind with an optional default text.
+func qflag(fs *pflag.FlagSet, name string, k Kind, def, usage string) *quantity {
+	q := &quantity{kind: k}
+	if def != "" {
+		if err := q.Set(def); err != nil {
+			panic(err)
+		}
+	}
+	fs.Var(q, name, usage)
+	return q
+}
+
+// require returns a usage error if a quantity flag has no value.
+func require(q *quantity, name, example string) error {
+	if q.text == "" {
+		return usagef("--%s is required (e.g. --%s %q)", name, name, example)
+	}
+	return nil
+}
+
+// atomFlags select the atom and the two pseudo-spin sublevels.
+type atomFlags struct {
+	atom, up, down string
+}
+
+func (a *atomFlags) add(fs *pflag.FlagSet) {
+	fs.StringVar(&a.atom, "atom", "", "atom: Na23, Rb87, K39, K41, Li7")
+	fs.StringVar(&a.up, "up", "", `pseudo-spin ↑ sublevel "F,mF", e.g. "1,0"`)
+	fs.StringVar(&a.down, "down", "", `pseudo-spin ↓ sublevel "F,mF", e.g. "1,-1"`)
+}
+
+func (a *atomFlags) species() (dispersion.Species, error) {
+	if a.atom == "" {
+		return dispersion.Species{}, usagef("--atom is required; allowed: Na23, Rb87, K39, K41, Li7")
+	}
+	sp, err := dispersion.LookupSpecies(a.atom)
+	if err != nil {
+		return sp, usagef("--atom %q: %v", a.atom, err)
+	}
+	return sp, nil
+}
+
+func (a *atomFlags) levels(sp dispersion.Species) (up, down dispersion.Sublevel, err error) {
+	for _, x := range []struct {
+		name, val string
+		dst       *dispersion.Sublevel
+	}{{"up", a.up, &up}, {"down", a.down, &down}} {
+		if x.val == "" {
+			return up, down, usagef(`--%s is required ("F,mF", e.g. "1,0")`, x.name)
+		}
+		l, err := dispersion.ParseSublevel(x.val)
+		if err != nil {
+			return up, down, usagef("--%s %q: %v", x.name, x.val, err)
+		}
+		if err := sp.Validate(l); err != nil {
+			return up, down, usagef("--%s %q: %v", x.name, x.val, err)
+		}
+		*x.dst = l
+	}
+	if up == down {
+		return up, down, usagef("--up and --down are the same sublevel %q", a.up)
+	}
+	return up, down, nil
+}
+
+// shakeFlags are the settings of the gradient-shaking + RF-pulse scheme.
+type shakeFlags struct {
+	atomFlags
+	bias, gradient, shake, phase, width, rabi, detuning *quantity
+	waveform, pulse                                     string
+}
+
+func (s *shakeFlags) add(fs *pflag.FlagSet) {
+	s.atomFlags.add(fs)
+	s.bias = qflag(fs, "bias", KindField, "", `bias field B0, e.g. "11.4 G"`)
+	s.gradient = qflag(fs, "gradient", KindGradient, "", `gradient amplitude b′, e.g. "100 G/cm"`)
+	s.shake = qflag(fs, "shake", KindFrequency, "", `shaking frequency ω/2π, e.g. "5 kHz"`)
+	fs.StringVar(&s.waveform, "waveform", "sine", "shaking waveform: sine, square")
+	s.phase = qflag(fs, "phase", KindAngle, "0 deg", `pulse phase θ in the shaking cycle, e.g. "0 deg"`)
+	fs.StringVar(&s.pulse, "pulse", "delta", "pulse shape: delta, rect, gauss, continuous")
+	s.width = qflag(fs, "pulse-width", KindTime, "", `pulse width (rect: duration, gauss: FWHM), e.g. "5 us"`)
+	s.rabi = qflag(fs, "rabi", KindFrequency, "0 Hz", `cycle-averaged Rabi frequency Ω/2π, e.g. "500 Hz"`)
+	s.detuning = qflag(fs, "detuning", KindFrequency, "0 Hz", `RF detuning f_RF − f_0, e.g. "-200 Hz"`)
+}
+
+func (s *shakeFlags) build() (dispersion.Shake, error) {
+	var p dispersion.Shake
+	sp, err := s.species()
+	if err != nil {
+		return p, err
+	}
+	up, down, err := s.levels(sp)
+	if err != nil {
+		return p, err
+	}
+	for _, r := range []struct {
+		q        *quantity
+		n, eg    string
+		positive bool
+	}{{s.bias, "bias", "11.4 G", true}, {s.gradient, "gradient", "100 G/cm", false}, {s.shake, "shake", "5 kHz", true}} {
+		if err := require(r.q, r.n, r.eg); err != nil {
+			return p, err
+		}
+		if r.positive && !(r.q.v > 0) {
+			return p, usagef("--%s %q: must be positive", r.n, r.q.text)
+		}
+	}
+	if s.rabi.v < 0 {
+		return p, usagef("--rabi %q: must be ≥ 0", s.rabi.text)
+	}
+	wf, err := dispersion.ParseWaveform(s.waveform)
+	if err != nil {
+		return p, usagef("--waveform %q: allowed: sine, square", s.waveform)
+	}
+	ps, err := dispersion.ParsePulseShape(s.pulse)
+	if err != nil {
+		return p, usagef("--pulse %q: allowed: delta, rect, gauss, continuous", s.pulse)
+	}
+	if ps == dispersion.PulseRect || ps == dispersion.PulseGauss {
+		if err := require(s.width, "pulse-width", "5 us"); err != nil {
+			return p, err
+		}
+		if !(s.width.v > 0) {
+			return p, usagef("--pulse-width %q: must be positive", s.width.text)
+		}
+		if ps == dispersion.PulseRect && s.width.v > 1/s.shake.v {
+			return p, usagef("--pulse-width %q: longer than the shaking period %.4g us", s.width.text, 1e6/s.shake.v)
+		}
+	}
+	return dispersion.Shake{Species: sp, Up: up, Down: down, Bias: s.bias.v, Gradient: s.gradient.v,
+		ShakeHz: s.shake.v, Waveform: wf, Phase: s.phase.v, Pulse: ps, PulseWidth: s.width.v,
+		RabiHz: s.rabi.v, DetuningHz: s.detuning.v}, nil
+}
+
+// ramanFlags are the settings of the two-beam Raman scheme.
+type ramanFlags struct {
+	atom, prefix                      string
+	wavelength, angle, rabi, detuning *quantity
+}
+
+// add registers the Raman flags; prefix ("" or "raman-") names the Rabi and
+// detuning flags, so that a command holding both schemes keeps them apart.
+func (r *ramanFlags) add(fs *pflag.FlagSet, withAtom bool, prefix string) {
+	r.prefix = prefix
+	if withAtom {
+		fs.StringVar(&r.atom, "atom", "", "atom: Na23, Rb87, K39, K41, Li7")
+	}
+	r.wavelength = qflag(fs, "wavelength", KindLength, "", `Raman beam wavelength, e.g. "790 nm"`)
+	r.angle = qflag(fs, "angle", KindAngle, "180 deg", `full crossing angle of the beams, e.g. "90 deg"`)
+	r.rabi = qflag(fs, prefix+"rabi", KindFrequency, "0 Hz", `two-photon Rabi frequency Ω/2π, e.g. "10 kHz"`)
+	r.detuning = qflag(fs, prefix+"detuning", KindFrequency, "0 Hz", `two-photon detuning δ/2π, e.g. "0 Hz"`)
+}
+
+func (r *ramanFlags) build(atom string) (dispersion.Raman, error) {
+	var p dispersion.Raman
+	if atom == "" {
+		return p, usagef("--atom is required; allowed: Na23, Rb87, K39, K41, Li7")
+	}
+	sp, err := dispersion.LookupSpecies(atom)
+	if err != nil {
+		return p, usagef("--atom %q: %v", atom, err)
+	}
+	if err := require(r.wavelength, "wavelength", "790 nm"); err != nil {
+		return p, err
+	}
+	if !(r.wavelength.v > 0) {
+		return p, usagef("--wavelength %q: must be positive", r.wavelength.text)
+	}
+	if !(r.angle.v > 0) || r.angle.v > math.Pi+1e-12 {
+		return p, usagef("--angle %q: must be in (0, 180] deg", r.angle.text)
+	}
+	if r.rabi.v < 0 {
+		return p, usagef("--%srabi %q: must be ≥ 0", r.prefix, r.rabi.text)
+	}
+	return dispersion.Raman{Species: sp, Wavelength: r.wavelength.v, Angle: math.Min(r.angle.v, math.Pi), RabiHz: r.rabi.v, DetuningHz: r.detuning.v}, nil
+}
+
+// modelFlags choose the effective model: from the shaking scheme, from a
+// Raman scheme, or given directly as Ω/E_R and δ/E_R.
+type modelFlags struct {
+	scheme           string
+	shake            shakeFlags
+	raman            ramanFlags
+	omegaER, deltaER *quantity
+}
+
+func (m *modelFlags) add(fs *pflag.FlagSet) {
+	fs.StringVar(&m.scheme, "scheme", "", "where the effective model comes from: shake, raman, direct (default: direct when --omega-er is given)")
+	m.shake.add(fs)
+	m.raman.add(fs, false, "raman-")
+	m.omegaER = qflag(fs, "omega-er", KindNumber, "", "coupling ħΩ/E_R of a directly given effective model")
+	m.deltaER = qflag(fs, "delta-er", KindNumber, "0", "detuning ħδ/E_R of a directly given effective model")
+}
+
+// modelChoice is the effective model and, when it came from a scheme, the scheme's result.
+type modelChoice struct {
+	Scheme string
+	Model  dispersion.Model // Mass, KR, ER are zero for a direct model
+	Shake  *dispersion.ShakeResult
+	Raman  *dispersion.RamanResult
+	Atom   *dispersion.Species
+}
+
+func (m *modelFlags) build() (modelChoice, error) {
+	var c modelChoice
+	s := m.scheme
+	if s == "" {
+		if m.omegaER.text == "" {
+			return c, usagef("--scheme is required (shake, raman) unless --omega-er is given")
+		}
+		s = "direct"
+	}
+	c.Scheme = s
+	switch s {
+	case "direct":
+		if err := require(m.omegaER, "omega-er", "2.0"); err != nil {
+			return c, err
+		}
+		if m.omegaER.v < 0 {
+			return c, usagef("--omega-er %q: must be ≥ 0", m.omegaER.text)
+		}
+		c.Model = dispersion.Model{OmegaOverER: m.omegaER.v, DeltaOverER: m.deltaER.v}
+	case "shake":
+		p, err := m.shake.build()
+		if err != nil {
+			return c, err
+		}
+		r, err := p.Evaluate()
+		if err != nil {
+			return c, usagef("%v", err)
+		}
+		if r.Model.ER == 0 {
+			return c, usagef("the shaking settings give no recoil (k_t = 0): no spin–orbit coupling to model")
+		}
+		c.Model, c.Shake, c.Atom = r.Model, &r, &p.Species
+	case "raman":
+		p, err := m.raman.build(m.shake.atom)
+		if err != nil {
+			return c, err
+		}
+		r, err := p.Evaluate()
+		if err != nil {
+			return c, usagef("%v", err)
+		}
+		c.Model, c.Raman, c.Atom = r.Model, &r, &p.Species
+	default:
+		return c, usagef("--scheme %q: allowed: shake, raman, direct", m.scheme)
+	}
+	return c, nil
+}

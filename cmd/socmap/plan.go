@@ -1,0 +1,122 @@
+package main
+
+import (
+	"fmt"
+	"os"
+	"sort"
+	"strings"
+
+	"github.com/BurntSushi/toml"
+	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
+)
+
+// A plan file is TOML. Every key is the name of a command-line flag (without
+// the dashes) and holds the same text the flag would take; tables only group
+// keys for the reader and do not change their meaning:
+//
+//	[atom]
+//	atom = "Na23"
+//	up   = "1,0"
+//	down = "1,1"
+//	[shake]
+//	bias     = "11.4 G"
+//	gradient = "100 G/cm"
+//
+// A key that no socmap command knows is an error; a key that the running
+// command does not use is ignored (one plan serves every command). Flags given
+// on the command line override the plan.
+
+// planSettings flattens a decoded plan into key → text.
+func planSettings(data map[string]any, prefix string, out map[string]string) error {
+	for k, v := range data {
+		switch t := v.(type) {
+		case map[string]any:
+			if err := planSettings(t, k, out); err != nil {
+				return err
+			}
+		case []any:
+			parts := make([]string, len(t))
+			for i, e := range t {
+				parts[i] = fmt.Sprint(e)
+			}
+			out[k] = strings.Join(parts, ",")
+		default:
+			if _, dup := out[k]; dup {
+				return fmt.Errorf("key %q appears twice", k)
+			}
+			out[k] = fmt.Sprint(v)
+		}
+	}
+	return nil
+}
+
+func readPlanText(text, name string) (map[string]string, error) {
+	var data map[string]any
+	if _, err := toml.Decode(text, &data); err != nil {
+		return nil, usagef("--plan %s: not valid TOML: %v", name, strings.ReplaceAll(err.Error(), "\n", " "))
+	}
+	out := map[string]string{}
+	if err := planSettings(data, "", out); err != nil {
+		return nil, usagef("--plan %s: %v", name, err)
+	}
+	return out, nil
+}
+
+// applyPlan sets every flag of cmd that the plan names and the command line did not.
+func applyPlan(cmd *cobra.Command) error {
+	if g.plan == "" {
+		return nil
+	}
+	b, err := os.ReadFile(g.plan)
+	if err != nil {
+		return usagef("--plan %q: cannot read: %v", g.plan, err)
+	}
+	return applyPlanText(cmd, string(b), g.plan)
+}
+
+func applyPlanText(cmd *cobra.Command, text, name string) error {
+	g.planText = text
+	settings, err := readPlanText(text, name)
+	if err != nil {
+		return err
+	}
+	known := flagNames(cmd.Root(), nil)
+	keys := make([]string, 0, len(settings))
+	for k := range settings {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	for _, k := range keys {
+		if !known[k] || k == "plan" {
+			return usagef("--plan %s: unknown key %q (keys are flag names, e.g. gradient, shake, atom)", name, k)
+		}
+		f := cmd.Flags().Lookup(k)
+		if f == nil || f.Changed {
+			continue
+		}
+		if err := cmd.Flags().Set(k, settings[k]); err != nil {
+			return usagef("--plan %s: %s = %q: %v", name, k, settings[k], err)
+		}
+		f.Changed = true
+	}
+	return nil
+}
+
+// effectivePlan renders the settings of cmd (every flag it has, with its value)
+// as TOML, for result files: running the command with this plan repeats it.
+func effectivePlan(cmd *cobra.Command) string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "# socmap %s %s: effective settings\n", version, cmd.CommandPath())
+	cmd.Flags().VisitAll(func(f *pflag.Flag) {
+		switch f.Name {
+		case "plan", "json", "quiet", "force", "help", "version", "out":
+			return
+		}
+		if f.Value.String() == "" {
+			return
+		}
+		fmt.Fprintf(&b, "%s = %q\n", f.Name, f.Value.String())
+	})
+	return b.String()
+}

@@ -1,0 +1,72 @@
+package main
+
+import (
+	"encoding/json"
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"socmap/dispersion"
+	"socmap/output"
+)
+
+// checkOuts validates --out paths before any work: allowed extensions, and
+// (without --force) no existing file.
+func checkOuts(outs []string, exts ...string) error {
+	for _, o := range outs {
+		ext := strings.ToLower(filepath.Ext(o))
+		ok := false
+		for _, e := range exts {
+			ok = ok || ext == e
+		}
+		if !ok {
+			return usagef("--out %q: allowed file types: %s", o, strings.Join(exts, ", "))
+		}
+		if !g.force {
+			if _, err := os.Stat(o); err == nil {
+				return usagef("--out %q: file exists (use --force to overwrite)", o)
+			}
+		}
+		dir := filepath.Dir(o)
+		if st, err := os.Stat(dir); err != nil || !st.IsDir() {
+			return usagef("--out %q: directory %q does not exist", o, dir)
+		}
+	}
+	return nil
+}
+
+// runInfo describes this run for result files.
+func runInfo(cmd *cobra.Command, kind string) output.RunInfo {
+	plan := effectivePlan(cmd)
+	if g.planText != "" {
+		plan += "\n# plan file " + g.plan + " as read:\n" + g.planText
+	}
+	return output.RunInfo{Version: version, CommandLine: strings.Join(os.Args, " "), Plan: plan, Kind: kind}
+}
+
+// writeResult writes doc as JSON, or the HDF5 result through fill, to path
+// (by its extension). Files appear only when complete.
+func writeResult(cmd *cobra.Command, path, kind string, doc map[string]any, fill func(w *output.Writer)) error {
+	switch strings.ToLower(filepath.Ext(path)) {
+	case ".json":
+		return output.WriteFileAtomic(path, g.force, func(w io.Writer) error {
+			enc := json.NewEncoder(w)
+			enc.SetIndent("", "  ")
+			return enc.Encode(doc)
+		})
+	case ".h5":
+		return output.CreateH5(path, g.force, runInfo(cmd, kind), fill)
+	}
+	return usagef("--out %q: unknown file type", path)
+}
+
+func shakeH5(p dispersion.Shake, r dispersion.ShakeResult) func(w *output.Writer) {
+	return func(w *output.Writer) { w.WriteShake(p, r) }
+}
+
+func ramanH5(p dispersion.Raman, r dispersion.RamanResult) func(w *output.Writer) {
+	return func(w *output.Writer) { w.WriteRaman(p, r) }
+}

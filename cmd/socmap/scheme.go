@@ -1,0 +1,274 @@
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"socmap/dispersion"
+	"socmap/output"
+)
+
+// Safety cautions shown with scheme outputs (common practice, no source).
+var (
+	cautionCoils = "Gradient coils: tens to hundreds of amperes switched at kHz rates store energy and " +
+		"produce voltage transients; use rated drivers, interlocks and coil cooling. RF amplifiers: never run " +
+		"them unloaded, and keep antennas clear of people. Follow your local rules and your lab's safety officer."
+	cautionLasers = "Raman beams are class 3B/4 lasers: wear the specified eyewear, enclose the beam paths and " +
+		"follow your local laser rules and your lab's laser safety officer."
+)
+
+func newSchemeCmd() *cobra.Command {
+	c := &cobra.Command{
+		Use:   "scheme",
+		Short: "effective parameters of a coupling scheme (shake, raman)",
+	}
+	c.AddCommand(newShakeCmd(), newRamanCmd())
+	return c
+}
+
+func writeJSON(w io.Writer, v any) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(v)
+}
+
+func newShakeCmd() *cobra.Command {
+	var f shakeFlags
+	var outs []string
+	c := &cobra.Command{
+		Use:   "shake",
+		Short: "effective parameters of magnetic-gradient shaking with phase-locked RF pulses",
+		Long: `Effective spin–orbit-coupling parameters of an oscillating magnetic-field
+gradient with RF pulses locked to it: the recoil k_t = 2k_R of an RF spin flip,
+E_R, Ω/E_R, δ/E_R (with the micromotion shift), micromotion, Doppler
+coefficient, RF recoil enhancement and the validity of the cycle average.`,
+		Example: `  socmap scheme shake --atom Na23 --up 1,0 --down 1,1 --bias "11.4 G" \
+      --gradient "100 G/cm" --shake "5 kHz" --phase "0 deg" --rabi "300 Hz"`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			p, err := f.build()
+			if err != nil {
+				return err
+			}
+			if err := checkOuts(outs, ".h5", ".json"); err != nil {
+				return err
+			}
+			r, err := p.Evaluate()
+			if err != nil {
+				return usagef("%v", err)
+			}
+			info, _ := dispersion.Bands{Omega: r.Model.OmegaOverER, Delta: r.Model.DeltaOverER}.Analyze()
+			doc := shakeJSON(p, r, info)
+			for _, o := range outs {
+				if err := writeResult(cmd, o, "scheme-shake", doc, shakeH5(p, r)); err != nil {
+					return err
+				}
+			}
+			if g.json {
+				return writeJSON(cmd.OutOrStdout(), doc)
+			}
+			return shakeTable(p, r, info).Write(cmd.OutOrStdout())
+		},
+	}
+	f.add(c.Flags())
+	c.Flags().StringSliceVar(&outs, "out", nil, "write the result to FILE.h5 or FILE.json (repeatable)")
+	return c
+}
+
+func shakeJSON(p dispersion.Shake, r dispersion.ShakeResult, info dispersion.BandInfo) map[string]any {
+	n := output.JSONNum
+	w := r.Warnings
+	if w == nil {
+		w = []string{}
+	}
+	return map[string]any{
+		"scheme": "shake", "atom": p.Species.Name, "up": p.Up.String(), "down": p.Down.String(),
+		"bias_T": p.Bias, "gradient_T_per_m": p.Gradient, "shake_hz": p.ShakeHz, "waveform": p.Waveform.Name(),
+		"phase_rad": p.Phase, "pulse": p.Pulse.String(), "pulse_width_s": p.PulseWidth,
+		"moment_up_J_per_T": r.MomentUp, "moment_down_J_per_T": r.MomentDown,
+		"delta_force_N": r.DeltaForce, "rf_hz": r.RFHz,
+		"k_t_per_m": r.KtMean, "k_t_delta_pulse_per_m": r.KtDelta, "k_t_max_per_m": r.KtMax,
+		"k_spread_rms_per_m": r.KtSpread, "k_R_per_m": r.Model.KR, "E_R_hz": r.Model.ERHz(),
+		"omega_hz": p.RabiHz, "omega_over_ER": n(r.Model.OmegaOverER), "delta_hz": r.DeltaHz,
+		"delta_over_ER": n(r.Model.DeltaOverER), "rf_detuning_hz": p.DetuningHz,
+		"k_rf_per_m": r.KRF, "enhancement": r.Enhancement, "doppler_hz_per_mm_s": r.DopplerHzPerMmS,
+		"pulse_area_rad": r.PulseArea, "peak_rabi_hz": n(r.PeakRabiHz),
+		"micromotion_kinetic_up_hz": r.MicroKinUpHz, "micromotion_kinetic_down_hz": r.MicroKinDownHz,
+		"micromotion_shift_hz": r.MicroShiftHz, "rf_detuning_for_zero_delta_hz": r.ZeroDeltaDetuningHz, "micromotion_amplitude_up_m": r.MicroAmpUp,
+		"micromotion_amplitude_down_m": r.MicroAmpDown, "quadratic_zeeman_hz": n(r.QuadZeemanHz),
+		"neighbour_transition_detuning_hz": n(r.NeighbourHz),
+		"minima":                           minimaJSON(info), "barrier_over_ER": info.Barrier,
+		"warnings": w, "cautions": []string{cautionCoils},
+		"note": "two-level model of the pair; couplings to the other sublevels are not included",
+	}
+}
+
+func minimaJSON(info dispersion.BandInfo) []map[string]any {
+	out := []map[string]any{}
+	for _, m := range info.Minima {
+		out = append(out, map[string]any{"k_over_kR": m.K, "E_over_ER": m.E, "sz": m.SigmaZ, "mass_over_m": m.MassRel})
+	}
+	return out
+}
+
+func deg(rad float64) float64 { return rad * 180 / math.Pi }
+
+func shakeTable(p dispersion.Shake, r dispersion.ShakeResult, info dispersion.BandInfo) *output.Table {
+	N := output.Num
+	t := &output.Table{Title: fmt.Sprintf("Gradient shaking + RF pulses: %s, ↑ = %v, ↓ = %v, B0 = %s G",
+		p.Species.Name, p.Up, p.Down, N(p.Bias/dispersion.Gauss, 4))}
+	t.Section("Transition")
+	t.Row("RF frequency f0 = |E↓ − E↑|/h", N(r.RFHz/1e6, 6), "MHz")
+	t.Row("moments μ↑, μ↓", N(r.MomentUp/dispersion.BohrMagneton, 4)+", "+N(r.MomentDown/dispersion.BohrMagneton, 4), "μ_B")
+	if !math.IsNaN(r.QuadZeemanHz) {
+		t.Row("quadratic Zeeman q/h", N(r.QuadZeemanHz, 4), "Hz")
+	}
+	if !math.IsNaN(r.NeighbourHz) {
+		t.Row("nearest other RF transition", N(r.NeighbourHz/1e3, 4), "kHz away")
+	}
+	t.Section("Drive")
+	t.Row("gradient amplitude b′", N(p.Gradient*100, 4), "G/cm")
+	t.Row("differential force ΔF", N(r.DeltaForce, 4), "N")
+	t.Row("shaking", N(p.ShakeHz/1e3, 4)+" kHz "+p.Waveform.Name(), "")
+	pulse := p.Pulse.String()
+	if p.Pulse == dispersion.PulseRect || p.Pulse == dispersion.PulseGauss {
+		pulse += fmt.Sprintf(", width %s µs", N(p.PulseWidth*1e6, 3))
+	}
+	t.Row("pulses", pulse+fmt.Sprintf(" at θ = %s°", N(deg(p.Phase), 4)), "")
+	t.Section("Recoil of one spin flip ↑→↓")
+	t.RowNote("k_t", N(r.KtMean, 4), "1/m", fmt.Sprintf("(largest over θ: %s 1/m)", N(r.KtMax, 4)))
+	t.Row("rms spread over the pulse", N(r.KtSpread, 3), "1/m")
+	t.Row("k_R = k_t/2", N(r.Model.KR, 4), "1/m")
+	t.Row("E_R/h", N(r.Model.ERHz(), 4), "Hz")
+	t.Row("enhancement k_t/k_RF", N(r.Enhancement, 3), "")
+	t.Row("Doppler shift k_t·v/2π", N(r.DopplerHzPerMmS, 4), "Hz per mm/s")
+	t.Section("Effective model  h = (k − k_R σz)²/2m + (ħΩ/2)σx + (ħδ/2)σz")
+	t.RowNote("Ω/2π", N(p.RabiHz, 4), "Hz", "Ω/E_R = "+N(r.Model.OmegaOverER, 4))
+	t.RowNote("δ/2π (RF detuning + micromotion)", N(r.DeltaHz, 4), "Hz", "δ/E_R = "+N(r.Model.DeltaOverER, 4))
+	t.Row("RF detuning that makes δ = 0", N(r.ZeroDeltaDetuningHz, 4), "Hz")
+	if p.Pulse != dispersion.PulseContinuous {
+		t.Row("pulse area per cycle", N(r.PulseArea, 3), "rad")
+		t.Row("peak Rabi frequency of a pulse", N(r.PeakRabiHz, 4), "Hz")
+	}
+	t.Text("lower-band minima: " + minimaText(info))
+	t.Section("Micromotion")
+	t.Row("kinetic ⟨A²⟩/2m /h  ↑, ↓", N(r.MicroKinUpHz, 4)+", "+N(r.MicroKinDownHz, 4), "Hz")
+	t.Row("position amplitude ↑, ↓", N(r.MicroAmpUp*1e6, 3)+", "+N(r.MicroAmpDown*1e6, 3), "µm")
+	t.Section("Validity of the cycle average")
+	if len(r.Warnings) == 0 {
+		t.Text("no warning")
+	}
+	for _, w := range r.Warnings {
+		t.Text("! " + w)
+	}
+	t.Section("Caution")
+	t.Text(cautionCoils)
+	return t
+}
+
+func minimaText(info dispersion.BandInfo) string {
+	var parts []string
+	for _, m := range info.Minima {
+		parts = append(parts, fmt.Sprintf("k = %s k_R (⟨σz⟩ = %s)", output.Num(m.K, 4), output.Num(m.SigmaZ, 3)))
+	}
+	if len(parts) == 0 {
+		return "n/a"
+	}
+	return strings.Join(parts, "; ")
+}
+
+func newRamanCmd() *cobra.Command {
+	var f ramanFlags
+	var outs []string
+	c := &cobra.Command{
+		Use:     "raman",
+		Short:   "effective parameters of a two-beam Raman scheme",
+		Example: `  socmap scheme raman --atom Rb87 --wavelength "790 nm" --angle "180 deg" --rabi "10 kHz"`,
+		Args:    cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			p, err := f.build(f.atom)
+			if err != nil {
+				return err
+			}
+			if err := checkOuts(outs, ".h5", ".json"); err != nil {
+				return err
+			}
+			r, err := p.Evaluate()
+			if err != nil {
+				return usagef("%v", err)
+			}
+			info, _ := dispersion.Bands{Omega: r.Model.OmegaOverER, Delta: r.Model.DeltaOverER}.Analyze()
+			doc := ramanJSON(p, r, info)
+			for _, o := range outs {
+				if err := writeResult(cmd, o, "scheme-raman", doc, ramanH5(p, r)); err != nil {
+					return err
+				}
+			}
+			if g.json {
+				return writeJSON(cmd.OutOrStdout(), doc)
+			}
+			return ramanTable(p, r, info).Write(cmd.OutOrStdout())
+		},
+	}
+	f.add(c.Flags(), true, "")
+	// The raman- spellings of the same settings, as used by commands that hold
+	// both schemes; in a plan that sets both, they win.
+	alt := ramanFlags{}
+	alt.rabi = qflag(c.Flags(), "raman-rabi", KindFrequency, "", "same as --rabi (the spelling used by bands, map, compare)")
+	alt.detuning = qflag(c.Flags(), "raman-detuning", KindFrequency, "", "same as --detuning")
+	c.PreRunE = func(cmd *cobra.Command, args []string) error {
+		if alt.rabi.text != "" {
+			*f.rabi = *alt.rabi
+		}
+		if alt.detuning.text != "" {
+			*f.detuning = *alt.detuning
+		}
+		return nil
+	}
+	c.Flags().StringSliceVar(&outs, "out", nil, "write the result to FILE.h5 or FILE.json (repeatable)")
+	return c
+}
+
+func ramanJSON(p dispersion.Raman, r dispersion.RamanResult, info dispersion.BandInfo) map[string]any {
+	w := r.Warnings
+	if w == nil {
+		w = []string{}
+	}
+	return map[string]any{
+		"scheme": "raman", "atom": p.Species.Name, "wavelength_m": p.Wavelength, "angle_rad": p.Angle,
+		"k_R_per_m": r.Model.KR, "E_R_hz": r.Model.ERHz(), "omega_hz": p.RabiHz, "delta_hz": p.DetuningHz,
+		"omega_over_ER": r.Model.OmegaOverER, "delta_over_ER": r.Model.DeltaOverER,
+		"nearest_line": r.NearestLine, "line_detuning_hz": r.LineDetuningHz,
+		"scattering_rate_per_s": r.ScatterRate, "heating_ER_per_s": r.HeatingER,
+		"minima": minimaJSON(info), "barrier_over_ER": info.Barrier,
+		"warnings": w, "cautions": []string{cautionLasers},
+	}
+}
+
+func ramanTable(p dispersion.Raman, r dispersion.RamanResult, info dispersion.BandInfo) *output.Table {
+	N := output.Num
+	t := &output.Table{Title: fmt.Sprintf("Two-beam Raman coupling: %s, λ = %s nm, beams crossing at %s°",
+		p.Species.Name, N(p.Wavelength*1e9, 6), N(deg(p.Angle), 4))}
+	t.Section("Recoil")
+	t.Row("k_R = (2π/λ) sin(α/2)", N(r.Model.KR, 4), "1/m")
+	t.Row("E_R/h", N(r.Model.ERHz(), 4), "Hz")
+	t.Section("Effective model  h = (k − k_R σz)²/2m + (ħΩ/2)σx + (ħδ/2)σz")
+	t.RowNote("Ω/2π", N(p.RabiHz, 4), "Hz", "Ω/E_R = "+N(r.Model.OmegaOverER, 4))
+	t.RowNote("δ/2π", N(p.DetuningHz, 4), "Hz", "δ/E_R = "+N(r.Model.DeltaOverER, 4))
+	t.Text("lower-band minima: " + minimaText(info))
+	t.Section("Photon scattering (two-level estimate, nearest line)")
+	t.RowNote("detuning from "+r.NearestLine, N(r.LineDetuningHz/1e9, 4), "GHz", "(+ = blue)")
+	t.Row("scattering rate Γ_sc ≈ Γ Ω/|Δ|", N(r.ScatterRate, 3), "1/s")
+	t.Row("heating ≈ 2E_R per photon", N(r.HeatingER, 3), "E_R/s")
+	for _, w := range r.Warnings {
+		t.Text("! " + w)
+	}
+	t.Section("Caution")
+	t.Text(cautionLasers)
+	return t
+}

@@ -1,0 +1,114 @@
+// Package label defines the mean-field phase codes of a spin–orbit-coupled
+// condensate and the classifier of numerical states. It is a leaf package so
+// that both gpe (which must not import phases) and phases use the same codes
+// and the same thresholds.
+//
+// Conventions (DESIGN.md §1): momentum in units of k_R in the gauge
+// h = (k_x − k_R σ_z)²/2m + …, where a plane wave at quasi-momentum k has both
+// spin components at the same k.
+package label
+
+import (
+	"fmt"
+	"math"
+)
+
+// Phase is the integer code stored in map files (int8 dataset "phase").
+type Phase int8
+
+// Phase codes. The values are part of the result-file schema: do not renumber.
+const (
+	NotComputed   Phase = 0 // map point not yet computed
+	SingleMinimum Phase = 1 // condensate at k = 0
+	PlaneWave     Phase = 2 // one momentum k ≠ 0, uniform density, finite ⟨σ_z⟩
+	Stripe        Phase = 3 // two momenta ±k₁, density modulated with period π/k₁
+	NotConverged  Phase = 4 // the solver did not converge; never classified
+)
+
+// All lists every code in order, for legends.
+var All = []Phase{NotComputed, SingleMinimum, PlaneWave, Stripe, NotConverged}
+
+// String returns the phase name used in tables and JSON.
+func (p Phase) String() string {
+	switch p {
+	case NotComputed:
+		return "not-computed"
+	case SingleMinimum:
+		return "single-minimum"
+	case PlaneWave:
+		return "plane-wave"
+	case Stripe:
+		return "stripe"
+	case NotConverged:
+		return "not-converged"
+	}
+	return fmt.Sprintf("phase(%d)", int8(p))
+}
+
+// Parse is the inverse of String.
+func Parse(s string) (Phase, error) {
+	for _, p := range All {
+		if p.String() == s {
+			return p, nil
+		}
+	}
+	return NotComputed, fmt.Errorf("unknown phase %q", s)
+}
+
+// Legend spells out the integer codes, e.g. "0=not-computed, 1=single-minimum, …",
+// for the attribute stored beside a phase dataset.
+func Legend() string {
+	s := ""
+	for i, p := range All {
+		if i > 0 {
+			s += ", "
+		}
+		s += fmt.Sprintf("%d=%s", int8(p), p)
+	}
+	return s
+}
+
+// Thresholds of the classifier. They are reported in every output that
+// carries a classified phase.
+type Thresholds struct {
+	// SingleMinimumK: a state whose mean |k_x| (weighted by the momentum
+	// distribution of both components, in k_R) is below this is single-minimum.
+	// Default 0.1.
+	SingleMinimumK float64
+	// StripeMinority: a state with k ≠ 0 whose smaller share of atoms on one
+	// side (k_x > 0 or k_x < 0) is at least this fraction is a stripe.
+	// Default 0.1.
+	StripeMinority float64
+}
+
+// DefaultThresholds are the thresholds used unless a caller sets its own
+// (choices of this project: common practice, no source).
+var DefaultThresholds = Thresholds{SingleMinimumK: 0.1, StripeMinority: 0.1}
+
+// Features summarises a numerical state for classification.
+type Features struct {
+	MeanAbsK  float64 // ⟨|k_x|⟩ over both components, in k_R
+	FracPlus  float64 // fraction of atoms with k_x > 0
+	FracMinus float64 // fraction of atoms with k_x < 0
+	Converged bool    // false: the state is labelled NotConverged
+}
+
+// Classify labels a state from its features with thresholds t.
+// A state that did not converge is labelled NotConverged and never classified.
+func Classify(f Features, t Thresholds) Phase {
+	if !f.Converged || math.IsNaN(f.MeanAbsK) {
+		return NotConverged
+	}
+	if f.MeanAbsK < t.SingleMinimumK {
+		return SingleMinimum
+	}
+	tot := f.FracPlus + f.FracMinus
+	if tot <= 0 {
+		return SingleMinimum
+	}
+	minority := math.Min(f.FracPlus, f.FracMinus) / tot
+	if minority >= t.StripeMinority {
+		return Stripe
+	}
+	return PlaneWave
+}
