@@ -20,6 +20,7 @@ vet: deps
 # Reference values from outside libraries (numpy/scipy), regenerated on every run.
 refs: deps
 	$(PY) testdata/ref_physics.py
+	$(PY) testdata/ref_variational.py
 
 test: deps vet refs
 	$(GO) test -count=1 ./...
