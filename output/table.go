@@ -19,7 +19,8 @@ type Table struct {
 type row struct {
 	section     bool
 	text        bool
-	label, val  string
+	label       string
+	vals        []string
 	unit, notes string
 }
 
@@ -28,12 +29,12 @@ func (t *Table) Section(name string) { t.rows = append(t.rows, row{section: true
 
 // Row adds a label, a value (already formatted) and a unit.
 func (t *Table) Row(label, value, unit string) {
-	t.rows = append(t.rows, row{label: label, val: value, unit: unit})
+	t.rows = append(t.rows, row{label: label, vals: []string{value}, unit: unit})
 }
 
 // RowNote adds a row with a trailing note.
 func (t *Table) RowNote(label, value, unit, note string) {
-	t.rows = append(t.rows, row{label: label, val: value, unit: unit, notes: note})
+	t.rows = append(t.rows, row{label: label, vals: []string{value}, unit: unit, notes: note})
 }
 
 // Text adds a paragraph, wrapped at 96 columns and indented, that does not
@@ -42,13 +43,19 @@ func (t *Table) Text(s string) { t.rows = append(t.rows, row{text: true, label: 
 
 // Write renders the table with aligned columns.
 func (t *Table) Write(w io.Writer) error {
-	lw, vw := 0, 0
+	lw := 0
+	var vw []int
 	for _, r := range t.rows {
 		if r.section || r.text {
 			continue
 		}
 		lw = max(lw, utf8.RuneCountInString(r.label))
-		vw = max(vw, utf8.RuneCountInString(r.val))
+		for i, v := range r.vals {
+			if i >= len(vw) {
+				vw = append(vw, 0)
+			}
+			vw[i] = max(vw[i], utf8.RuneCountInString(v))
+		}
 	}
 	var b strings.Builder
 	if t.Title != "" {
@@ -63,7 +70,10 @@ func (t *Table) Write(w io.Writer) error {
 			b.WriteString(wrap(r.label, 96, "  ", "    "))
 			continue
 		}
-		line := "  " + pad(r.label, lw) + "  " + padLeft(r.val, vw)
+		line := "  " + pad(r.label, lw)
+		for i, v := range r.vals {
+			line += "  " + padLeft(v, vw[i])
+		}
 		if r.unit != "" {
 			line += " " + r.unit
 		}
@@ -143,4 +153,9 @@ func JSONNum(v float64) any {
 		return nil
 	}
 	return v
+}
+
+// Columns adds a row with several values side by side (e.g. two schemes).
+func (t *Table) Columns(label string, values []string, unit string) {
+	t.rows = append(t.rows, row{label: label, vals: values, unit: unit})
 }

@@ -40,7 +40,8 @@ type Settings struct {
 	// the minority weight that defines the stripe branch.
 	Thresholds label.Thresholds
 	// GradTol: a local search has converged when the gradient norm of the
-	// reduced energy (E_R per rad) falls below it. Default 1e-9.
+	// reduced energy (E_R per rad) falls below GradTol × max(1, |Ω|, |δ|,
+	// |n g_ij|) (the problem's energy scale). Default 1e-9.
 	GradTol float64
 	// AcceptTol: a local search whose line search can make no more progress
 	// (rounding) still counts as converged if its gradient norm is below
@@ -161,6 +162,15 @@ func Variational(u Uniform, s *Settings) (Result, error) {
 		}
 	}
 	st := s.withDefaults()
+	// Gradients scale with the energy scale of the problem: with n·g of
+	// hundreds of E_R an absolute tolerance meets rounding first, so the
+	// tolerances are relative to max(1, |Ω|, |δ|, |n g_ij|).
+	scale := 1.0
+	for _, v := range [...]float64{u.Omega, u.Delta, u.Guu, u.Gdd, u.Gud} {
+		scale = math.Max(scale, math.Abs(v))
+	}
+	st.GradTol *= scale
+	st.AcceptTol *= scale
 	ws := workPool.Get().(*workspace)
 	defer workPool.Put(ws)
 	return ws.solve(u, &st), nil

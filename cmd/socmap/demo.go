@@ -48,6 +48,8 @@ every result, plot and a short report listing each file to --dir.`,
 				{[]string{"scheme", "shake", "--out", p("shake.h5")}, "shake.txt", "effective parameters of the shaking scheme"},
 				{[]string{"scheme", "raman", "--out", p("raman.h5")}, "raman.txt", "the Raman scheme used for comparison"},
 				{[]string{"bands", "--out", p("bands.png"), "--out", p("bands.csv"), "--out", p("bands.h5")}, "bands.txt", "single-particle bands of the shaking scheme's effective model"},
+				{[]string{"compare"}, "compare.txt", "shaking vs Raman: stripe windows, periods, limits, verdict"},
+				{[]string{"map", "--x", "rabi=0:40 Hz:81", "--y", "phase=0:80 deg:41", "--out", p("map-rabi-phase.h5"), "--out", p("map-rabi-phase.png")}, "map-rabi-phase.txt", "variational phase map over RF Rabi frequency and pulse phase"},
 			}
 			var report strings.Builder
 			fmt.Fprintf(&report, "socmap %s demo — built-in example plan (invented setting, see plan.toml)\n\n", version)
@@ -58,7 +60,7 @@ every result, plot and a short report listing each file to --dir.`,
 				}
 				out, err := runSelf(full)
 				if err != nil {
-					return fmt.Errorf("demo step %q: %w", strings.Join(s.args[:2], " "), err)
+					return fmt.Errorf("demo step %q: %w", s.args[0], err)
 				}
 				if err := output.WriteFileAtomic(p(s.report), true, func(w io.Writer) error {
 					_, err := io.WriteString(w, out)
@@ -75,6 +77,8 @@ every result, plot and a short report listing each file to --dir.`,
 				{"raman.h5, raman.txt", "Raman scheme at 790 nm for comparison"},
 				{"bands.png", "E±(k) coloured by spin polarisation, minima marked; ⟨σz⟩(k)"},
 				{"bands.csv, bands.h5, bands.txt", "the band curves and minima"},
+				{"compare.txt", "shaking vs Raman at 1e14 cm^-3: stripe window, period, contrast, limits, verdict"},
+				{"map-rabi-phase.png, .h5, .txt", "mean-field phase over Rabi frequency × pulse phase (variational)"},
 			}
 			for _, f := range files {
 				fmt.Fprintf(&report, "  %-32s %s\n", f.name, f.what)

@@ -6,6 +6,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"socmap/dispersion"
+	"socmap/phases"
 )
 
 // qflag registers a quantity flag of the given kind with an optional default text.
@@ -213,48 +214,76 @@ type modelChoice struct {
 
 func (m *modelFlags) build() (modelChoice, error) {
 	var c modelChoice
-	s := m.scheme
-	if s == "" {
-		if m.omegaER.text == "" {
-			return c, usagef("--scheme is required (shake, raman) unless --omega-er is given")
-		}
-		s = "direct"
+	l, err := m.lab()
+	if err != nil {
+		return c, err
 	}
-	c.Scheme = s
-	switch s {
+	c.Scheme = l.Scheme
+	switch l.Scheme {
 	case "direct":
-		if err := require(m.omegaER, "omega-er", "2.0"); err != nil {
-			return c, err
-		}
-		if m.omegaER.v < 0 {
+		if l.Omega < 0 {
 			return c, usagef("--omega-er %q: must be ≥ 0", m.omegaER.text)
 		}
-		c.Model = dispersion.Model{OmegaOverER: m.omegaER.v, DeltaOverER: m.deltaER.v}
+		c.Model = dispersion.Model{OmegaOverER: l.Omega, DeltaOverER: l.Delta}
 	case "shake":
-		p, err := m.shake.build()
-		if err != nil {
-			return c, err
-		}
-		r, err := p.Evaluate()
+		r, err := l.Shake.Evaluate()
 		if err != nil {
 			return c, usagef("%v", err)
 		}
 		if r.Model.ER == 0 {
 			return c, usagef("the shaking settings give no recoil (k_t = 0): no spin–orbit coupling to model")
 		}
-		c.Model, c.Shake, c.Atom = r.Model, &r, &p.Species
+		c.Model, c.Shake, c.Atom = r.Model, &r, &l.Shake.Species
 	case "raman":
-		p, err := m.raman.build(m.shake.atom)
-		if err != nil {
-			return c, err
-		}
-		r, err := p.Evaluate()
+		r, err := l.Raman.Evaluate()
 		if err != nil {
 			return c, usagef("%v", err)
 		}
-		c.Model, c.Raman, c.Atom = r.Model, &r, &p.Species
-	default:
-		return c, usagef("--scheme %q: allowed: shake, raman, direct", m.scheme)
+		c.Model, c.Raman, c.Atom = r.Model, &r, &l.Raman.Species
+	}
+	if l.OmegaSet {
+		c.Model.OmegaOverER = l.Omega
 	}
 	return c, nil
+}
+
+// lab returns the scheme part of a phases.Lab (interactions are added by interFlags).
+func (m *modelFlags) lab() (phases.Lab, error) {
+	var l phases.Lab
+	s := m.scheme
+	if s == "" {
+		if m.omegaER.text == "" {
+			return l, usagef("--scheme is required (shake, raman) unless --omega-er is given")
+		}
+		s = "direct"
+	}
+	l.Scheme = s
+	switch s {
+	case "direct":
+		if err := require(m.omegaER, "omega-er", "2.0"); err != nil {
+			return l, err
+		}
+		l.Omega, l.Delta = m.omegaER.v, m.deltaER.v
+	case "shake":
+		p, err := m.shake.build()
+		if err != nil {
+			return l, err
+		}
+		l.Shake = p
+		if m.omegaER.text != "" {
+			l.Omega, l.OmegaSet = m.omegaER.v, true
+		}
+	case "raman":
+		p, err := m.raman.build(m.shake.atom)
+		if err != nil {
+			return l, err
+		}
+		l.Raman = p
+		if m.omegaER.text != "" {
+			l.Omega, l.OmegaSet = m.omegaER.v, true
+		}
+	default:
+		return l, usagef("--scheme %q: allowed: shake, raman, direct", m.scheme)
+	}
+	return l, nil
 }

@@ -203,3 +203,95 @@ func TestDemoRuns(t *testing.T) {
 		t.Errorf("no report on stdout")
 	}
 }
+
+// The map's stripe edge along Ω in the symmetric case equals the closed form
+// of the variational theory (phases.UpperStripeOmega; derived in
+// phases/symmetric.go, agreeing with Li, Pitaevskii & Stringari, PRL 108,
+// 225301 (2012)) to within one grid step.
+func TestMapCommandSymmetric(t *testing.T) {
+	dir := t.TempDir()
+	code, out, stderr := runArgs(t, "map", "--omega-er", "0", "--G1", "1", "--G2", "0.1", "--x", "omega=0.01:4:400", "--json",
+		"--out", filepath.Join(dir, "m.h5"), "--out", filepath.Join(dir, "m.png"))
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	var doc struct {
+		X struct {
+			Name   string
+			Unit   string
+			Values []float64
+		}
+		Phase  []string
+		Energy []*float64 `json:"energy_over_ER"`
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if doc.X.Name != "omega" || doc.X.Unit != "E_R" || len(doc.Phase) != 400 || len(doc.Energy) != 400 {
+		t.Fatalf("map JSON: %s", out[:200])
+	}
+	edge := math.NaN()
+	for i := 1; i < len(doc.Phase); i++ {
+		if doc.Phase[i-1] == "stripe" && doc.Phase[i] != "stripe" {
+			edge = doc.X.Values[i]
+			break
+		}
+	}
+	want := 4 * math.Sqrt(0.1*0.9*3/1.2) // Ω_c = 4√(G2(1−G2)(2+G1)/(G1+2G2))
+	if math.Abs(edge-want) > 0.011 {
+		t.Errorf("stripe edge at Ω = %g, closed form %g", edge, want)
+	}
+	f, err := h5.Open(filepath.Join(dir, "m.h5"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	ph, shape, err := f.ReadInt8s("/map/phase")
+	if err != nil || len(shape) != 1 || shape[0] != 400 || ph[0] != 3 {
+		t.Errorf("map phase dataset %v %v %v", shape, err, ph[:3])
+	}
+	codes, err := f.AttrString("/map/phase", "codes")
+	if err != nil || !strings.Contains(codes, "3=stripe") {
+		t.Errorf("codes attribute %q %v", codes, err)
+	}
+	code, _, stderr = runArgs(t, "map", "--omega-er", "1", "--G1", "1", "--G2", "0.1", "--x", "wavelength=700:800 nm:3")
+	if code != 2 || !strings.Contains(stderr, "raman") {
+		t.Errorf("lab axis without its scheme: exit %d %q", code, stderr)
+	}
+	code, _, stderr = runArgs(t, "map", "--omega-er", "1", "--G1", "1", "--G2", "0.1", "--x", "omega=0:4")
+	if code != 2 || !strings.Contains(stderr, "--x") {
+		t.Errorf("bad axis: exit %d %q", code, stderr)
+	}
+}
+
+func TestCompareCommand(t *testing.T) {
+	code, out, stderr := runArgs(t, "compare", "--plan", "plans/demo.toml", "--json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	var doc map[string]map[string]any
+	json.Unmarshal([]byte(out), &doc)
+	for _, s := range []string{"shake", "raman"} {
+		d := doc[s]
+		if d == nil || d["stripe_window_found"] != true {
+			t.Fatalf("%s: %v", s, d)
+		}
+		w := d["stripe_window_omega_over_ER"].([]any)
+		if w[0].(float64) != 0 || !(w[1].(float64) > 0) {
+			t.Errorf("%s window %v", s, w)
+		}
+	}
+	// The demo plan is tuned to the balancing detuning: the shaking scheme's
+	// planned coupling gives a stripe.
+	if doc["shake"]["phase_planned"] != "stripe" {
+		t.Errorf("demo plan: shaking scheme phase %v", doc["shake"]["phase_planned"])
+	}
+	// Lowering the recoil (larger E_R ratio n g/E_R) widens the window in Ω/E_R
+	// only through G1, G2: check the window scales as the closed form predicts
+	// in direction — a smaller E_R means larger G2/E_R, hence a wider window.
+	sw := doc["shake"]["stripe_window_omega_over_ER"].([]any)[1].(float64)
+	rw := doc["raman"]["stripe_window_omega_over_ER"].([]any)[1].(float64)
+	if !(sw > rw) {
+		t.Errorf("shake window %g not wider than Raman %g (E_R is smaller for shake)", sw, rw)
+	}
+}

@@ -1,0 +1,268 @@
+package output
+
+import (
+	"image/color"
+	"io"
+	"math"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+
+	"socmap/phases/label"
+)
+
+// phaseColors are the map colours of the phase codes (label.Phase order).
+var phaseColors = []color.Color{
+	color.RGBA{235, 235, 235, 255}, // not computed
+	color.RGBA{120, 170, 230, 255}, // single-minimum
+	color.RGBA{245, 190, 90, 255},  // plane-wave
+	color.RGBA{200, 90, 140, 255},  // stripe
+	color.RGBA{90, 90, 90, 255},    // not converged
+}
+
+type phasePalette struct{}
+
+func (phasePalette) Colors() []color.Color { return phaseColors }
+
+// AxisDisplay returns the plot label of a map axis and the factor that turns
+// its stored (SI or E_R) values into the displayed unit.
+func AxisDisplay(name, unit string) (string, float64) {
+	switch name {
+	case "omega":
+		return "coupling ħΩ / E_R", 1
+	case "delta":
+		return "detuning ħδ / E_R", 1
+	case "G1":
+		return "G1 = n(g + g↑↓)/4  [E_R]", 1
+	case "G2":
+		return "G2 = n(g − g↑↓)/4  [E_R]", 1
+	case "density":
+		return "density n  [cm⁻³]", 1e-6
+	case "ratio":
+		return "g↑↓ / g", 1
+	case "gradient":
+		return "gradient amplitude  [G/cm]", 100
+	case "shake":
+		return "shaking frequency  [kHz]", 1e-3
+	case "phase":
+		return "pulse phase θ  [deg]", 180 / math.Pi
+	case "bias":
+		return "bias field  [G]", 1e4
+	case "rabi":
+		return "Rabi frequency Ω/2π  [Hz]", 1
+	case "wavelength":
+		return "wavelength  [nm]", 1e9
+	case "angle":
+		return "crossing angle  [deg]", 180 / math.Pi
+	}
+	return name + " [" + unit + "]", 1
+}
+
+// Boundary is a curve drawn over a phase map, in the displayed units of the axes.
+type Boundary struct {
+	Name string
+	X, Y []float64
+}
+
+// MapPlot is a phase-diagram figure.
+type MapPlot struct {
+	Data       *MapData
+	Title      string
+	Boundaries []Boundary
+}
+
+type phaseGrid struct {
+	d      *MapData
+	xs, ys []float64
+}
+
+func (g phaseGrid) Dims() (c, r int)   { return g.d.NX, g.d.NY }
+func (g phaseGrid) Z(c, r int) float64 { return float64(g.d.Phase[r*g.d.NX+c]) }
+func (g phaseGrid) X(c int) float64    { return g.xs[c] }
+func (g phaseGrid) Y(r int) float64    { return g.ys[r] }
+
+// WritePNG renders the map: phases as colours with their names written in
+// each region, closed-form boundaries as dashed lines, and for a one-axis map
+// the stripe contrast and |k₁| beneath.
+func (mp MapPlot) WritePNG(w io.Writer) error {
+	d := mp.Data
+	sw := d.Spec.Sweep
+	xl, xs := AxisDisplay(sw.X.Name, sw.X.Unit)
+	xv := scaled(sw.X.Values, xs)
+	oneAxis := sw.Y.Len() == 0
+	yv := []float64{0}
+	yl := ""
+	if !oneAxis {
+		var ys float64
+		yl, ys = AxisDisplay(sw.Y.Name, sw.Y.Unit)
+		yv = scaled(sw.Y.Values, ys)
+	}
+	p := plot.New()
+	p.Title.Text = mp.Title
+	p.X.Label.Text = xl
+	p.Y.Label.Text = yl
+	if oneAxis {
+		p.HideY()
+	}
+	grid := phaseGrid{d: d, xs: xv, ys: yv}
+	if d.NX > 1 && d.NY > 1 || oneAxis && d.NX > 1 {
+		hm := plotter.NewHeatMap(padGrid{grid}, phasePalette{})
+		hm.Min, hm.Max = 0, float64(len(phaseColors)-1)
+		p.Add(hm)
+	}
+	// Phase names in their regions: at the point of each phase nearest to
+	// the phase's centroid.
+	var pts plotter.XYs
+	var names []string
+	for _, ph := range label.All {
+		var sx, sy float64
+		n := 0
+		for iy := 0; iy < d.NY; iy++ {
+			for ix := 0; ix < d.NX; ix++ {
+				if d.Phase[iy*d.NX+ix] == ph {
+					sx, sy, n = sx+float64(ix), sy+float64(iy), n+1
+				}
+			}
+		}
+		if n == 0 || ph == label.NotComputed {
+			continue
+		}
+		cx, cy := sx/float64(n), sy/float64(n)
+		best, bi := math.Inf(1), 0
+		for i, q := range d.Phase {
+			if q != ph {
+				continue
+			}
+			dx, dy := float64(i%d.NX)-cx, float64(i/d.NX)-cy
+			if r := dx*dx + dy*dy; r < best {
+				best, bi = r, i
+			}
+		}
+		pts = append(pts, plotter.XY{X: xv[bi%d.NX], Y: yv[bi/d.NX]})
+		names = append(names, ph.String())
+	}
+	if len(pts) > 0 {
+		lb, err := plotter.NewLabels(plotter.XYLabels{XYs: pts, Labels: names})
+		if err != nil {
+			return err
+		}
+		for i := range lb.TextStyle {
+			lb.TextStyle[i].Font.Size = vg.Points(13)
+			lb.TextStyle[i].Font.Weight = 700
+			lb.TextStyle[i].XAlign = draw.XCenter
+			lb.TextStyle[i].YAlign = draw.YCenter
+		}
+		p.Add(lb)
+	}
+	for i, b := range mp.Boundaries {
+		xy := make(plotter.XYs, 0, len(b.X))
+		for j := range b.X {
+			if !math.IsNaN(b.X[j]) && !math.IsNaN(b.Y[j]) {
+				xy = append(xy, plotter.XY{X: b.X[j], Y: b.Y[j]})
+			}
+		}
+		if len(xy) < 2 {
+			continue
+		}
+		l, err := plotter.NewLine(xy)
+		if err != nil {
+			return err
+		}
+		l.Width = vg.Points(2)
+		l.Dashes = []vg.Length{vg.Points(6), vg.Points(3 + float64(i))}
+		l.Color = color.Black
+		p.Add(l)
+		p.Legend.Add(b.Name, l)
+	}
+	for _, ph := range label.All[1:] {
+		s, _ := plotter.NewScatter(plotter.XYs{})
+		s.GlyphStyle = draw.GlyphStyle{Shape: draw.BoxGlyph{}, Radius: vg.Points(5), Color: phaseColors[ph]}
+		p.Legend.Add(ph.String(), s)
+	}
+	p.Legend.Top = true
+	p.Legend.Left = false
+	p.Legend.XOffs = vg.Points(-8)
+	p.Legend.YOffs = vg.Points(-8)
+	p.X.Min, p.X.Max = extent(xv)
+	if !oneAxis {
+		p.Y.Min, p.Y.Max = extent(yv)
+		return renderPanels(w, 8*vg.Inch, 7*vg.Inch, []*plot.Plot{p}, []float64{1})
+	}
+	// One axis: the phase strip on top, contrast and |k1| below.
+	p.Legend = plot.NewLegend()
+	q := plot.New()
+	q.X.Label.Text = xl
+	q.X.Min, q.X.Max = p.X.Min, p.X.Max
+	for _, o := range []struct{ name, legend string }{{"contrast", "stripe contrast"}, {"k1", "|k1| / k_R"}} {
+		v := d.Observable(o.name)
+		if v == nil {
+			continue
+		}
+		xy := make(plotter.XYs, 0, len(v))
+		for i := range v {
+			if d.Mask[i] && !math.IsNaN(v[i]) {
+				xy = append(xy, plotter.XY{X: xv[i], Y: math.Abs(v[i])})
+			}
+		}
+		if len(xy) < 2 {
+			continue
+		}
+		l, _ := plotter.NewLine(xy)
+		l.Width = vg.Points(2)
+		if o.name == "k1" {
+			l.Dashes = []vg.Length{vg.Points(5), vg.Points(3)}
+		}
+		q.Add(l)
+		q.Legend.Add(o.legend, l)
+	}
+	q.Add(plotter.NewGrid())
+	q.Legend.Top = true
+	return renderPanels(w, 8*vg.Inch, 6*vg.Inch, []*plot.Plot{p, q}, []float64{0.35, 0.65})
+}
+
+// padGrid repeats a one-row grid so that the heat map has a height.
+type padGrid struct{ g phaseGrid }
+
+func (p padGrid) Dims() (c, r int) {
+	c, r = p.g.Dims()
+	if r == 1 {
+		return c, 2
+	}
+	return c, r
+}
+func (p padGrid) Z(c, r int) float64 {
+	if p.g.d.NY == 1 {
+		r = 0
+	}
+	return p.g.Z(c, r)
+}
+func (p padGrid) X(c int) float64 { return p.g.X(c) }
+func (p padGrid) Y(r int) float64 {
+	if p.g.d.NY == 1 {
+		return float64(r) - 0.5
+	}
+	return p.g.Y(r)
+}
+
+func scaled(v []float64, f float64) []float64 {
+	out := make([]float64, len(v))
+	for i, x := range v {
+		out[i] = x * f
+	}
+	return out
+}
+
+// extent returns the range covered by cell centres v, widened by half a cell.
+func extent(v []float64) (lo, hi float64) {
+	if len(v) == 1 {
+		return v[0] - 0.5, v[0] + 0.5
+	}
+	lo, hi = v[0], v[len(v)-1]
+	if lo > hi {
+		lo, hi = hi, lo
+	}
+	h := (hi - lo) / float64(len(v)-1) / 2
+	return lo - h, hi + h
+}
