@@ -23,7 +23,7 @@ type MapData struct {
 	Spec   MapSpec
 	NX, NY int
 	Phase  []label.Phase
-	Mask   []bool // true where the point is computed
+	Mask   []bool      // true where the point is computed
 	Values [][]float64 // one slice per observable
 }
 

@@ -34,8 +34,8 @@ type Lab struct {
 	// Overrides applied last, in E_R: G1 = ḡ1 and G2 = ḡ2 of
 	// Uniform.Couplings (the asymmetry Δg is kept), and the ratio g↑↓/g with
 	// g = (g↑↑ + g↓↓)/2.
-	G1, G2, Ratio             float64
-	G1Set, G2Set, RatioSet    bool
+	G1, G2, Ratio          float64
+	G1Set, G2Set, RatioSet bool
 }
 
 // Axis names accepted by Lab.Set, with the unit of their values.
