@@ -4,7 +4,7 @@ PY      := /usr/bin/python3
 BIN     := bin/socmap
 export CGO_ENABLED := 1
 
-.PHONY: all deps build test refs vet demo bench clean
+.PHONY: all deps build test refs vet h5check demo bench clean
 
 all: build
 
@@ -17,13 +17,27 @@ build: deps
 vet: deps
 	$(GO) vet ./...
 
-# Reference values from outside libraries (numpy/scipy), regenerated on every run.
+# Reference values from outside libraries (numpy/scipy), regenerated or
+# recomputed and compared on every run.
 refs: deps
 	$(PY) testdata/ref_physics.py
 	$(PY) testdata/ref_variational.py
 
+# Outside readers of our HDF5 files: h5py and h5dump on a fixture of every
+# type the layer writes, and on the result files of a demo run.
+h5check: build
+	@tmp=$$(mktemp -d) && trap 'rm -rf $$tmp' EXIT && \
+	SOCMAP_H5_FIXTURE_DIR=$$tmp $(GO) test -count=1 -run '^TestWriteFixture$$' ./output/h5/ && \
+	$(PY) testdata/h5_check.py $$tmp/h5_fixture.h5 && \
+	h5dump -H $$tmp/h5_fixture.h5 > /dev/null && \
+	./$(BIN) demo --dir $$tmp/demo --quiet > /dev/null && \
+	$(PY) testdata/h5_check_results.py $$tmp/demo/*.h5 && \
+	for f in $$tmp/demo/*.h5; do h5dump -H $$f > /dev/null || exit 1; done && \
+	echo "h5check: h5py and h5dump read every file"
+
 test: deps vet refs
 	$(GO) test -count=1 ./...
+	$(MAKE) --no-print-directory h5check
 	@echo "make test: all checks passed"
 
 demo: build

@@ -5,21 +5,31 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
 	"path/filepath"
+
+	"socmap/output/h5"
 )
 
-// ErrExist is returned when a result file exists and force is not set.
-var ErrExist = errors.New("file exists (use --force to overwrite)")
+// ErrExist is returned (wrapped) when a result file exists and force is not
+// set, by WriteFileAtomic and by the HDF5 layer (it is h5.ErrExist, which
+// also matches fs.ErrExist).
+var ErrExist = h5.ErrExist
 
 // WriteFileAtomic writes a file through write under a temporary name in the
-// same directory, syncs it and renames it to path, so that path either holds
-// the complete result or is untouched. Without force an existing path is
-// refused. On any failure the temporary file is removed.
+// same directory (".base.*.tmp"), flushes and fsyncs it, sets mode 0644 and
+// moves it to path, then fsyncs the directory: path either holds the
+// complete result or is untouched. Without force an existing path is
+// refused, before writing and again at the move (a hard link, which never
+// replaces a file; on file systems without hard links a check and a
+// rename). On any failure, including a panic in write, the temporary file
+// is removed. Errors are one line naming path.
 func WriteFileAtomic(path string, force bool, write func(io.Writer) error) (err error) {
+	fail := func(e error) error { return fmt.Errorf("write %s: %w", path, e) }
 	if !force {
 		if _, err := os.Lstat(path); err == nil {
-			return fmt.Errorf("%s: %w", path, ErrExist)
+			return fail(ErrExist)
 		}
 	}
 	dir, base := filepath.Split(path)
@@ -28,39 +38,73 @@ func WriteFileAtomic(path string, force bool, write func(io.Writer) error) (err 
 	}
 	f, err := os.CreateTemp(dir, "."+base+".*.tmp")
 	if err != nil {
-		return fmt.Errorf("%s: cannot create: %v", path, errors.Unwrap(err))
+		return fail(pathless(err))
 	}
 	tmp := f.Name()
+	committed := false
 	defer func() {
-		if err != nil {
+		if !committed {
 			f.Close()
 			os.Remove(tmp)
 		}
 	}()
 	bw := bufio.NewWriter(f)
-	if err = write(bw); err != nil {
-		return fmt.Errorf("%s: %v", path, err)
+	if err := write(bw); err != nil {
+		return fail(err)
 	}
-	if err = bw.Flush(); err != nil {
-		return fmt.Errorf("%s: %v", path, err)
+	if err := bw.Flush(); err != nil {
+		return fail(pathless(err))
 	}
-	if err = f.Sync(); err != nil {
-		return fmt.Errorf("%s: %v", path, err)
+	if err := f.Sync(); err != nil {
+		return fail(pathless(err))
 	}
-	if err = f.Close(); err != nil {
-		return fmt.Errorf("%s: %v", path, err)
+	if err := f.Close(); err != nil {
+		return fail(pathless(err))
 	}
-	if err = os.Chmod(tmp, 0o644); err != nil {
-		return fmt.Errorf("%s: %v", path, err)
+	if err := os.Chmod(tmp, 0o644); err != nil {
+		return fail(pathless(err))
 	}
-	if !force {
-		if _, e := os.Lstat(path); e == nil {
-			err = fmt.Errorf("%s: %w", path, ErrExist)
-			return err
-		}
+	if err := moveInto(tmp, path, force); err != nil {
+		return fail(err)
 	}
-	if err = os.Rename(tmp, path); err != nil {
-		return fmt.Errorf("%s: %v", path, err)
+	committed = true
+	if d, err := os.Open(dir); err == nil {
+		d.Sync() // best effort: some file systems refuse fsync on directories
+		d.Close()
 	}
 	return nil
+}
+
+// moveInto renames tmp to path; without force it never replaces a file.
+func moveInto(tmp, path string, force bool) error {
+	if force {
+		return pathless(os.Rename(tmp, path))
+	}
+	err := os.Link(tmp, path)
+	switch {
+	case err == nil:
+		os.Remove(tmp)
+		return nil
+	case errors.Is(err, fs.ErrExist):
+		return ErrExist
+	}
+	// No hard links here: check, then rename.
+	if _, err := os.Lstat(path); err == nil {
+		return ErrExist
+	}
+	return pathless(os.Rename(tmp, path))
+}
+
+// pathless drops the path of an *fs.PathError or *os.LinkError (a
+// temporary name the user never chose), keeping the cause.
+func pathless(err error) error {
+	var pe *fs.PathError
+	var le *os.LinkError
+	switch {
+	case errors.As(err, &pe):
+		return pe.Err
+	case errors.As(err, &le):
+		return le.Err
+	}
+	return err
 }

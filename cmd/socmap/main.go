@@ -58,7 +58,7 @@ states. Quantities take units as text: "40 G/cm", "3 kHz", "90 deg", "790 nm".`,
 	pf.BoolVar(&g.quiet, "quiet", false, "no progress output on stderr")
 	pf.BoolVar(&g.force, "force", false, "overwrite existing output files")
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error { return usageError{err.Error()} })
-	root.AddCommand(newSchemeCmd(), newBandsCmd(), newMapCmd(), newCompareCmd(), newDemoCmd())
+	root.AddCommand(newSchemeCmd(), newBandsCmd(), newMapCmd(), newCompareCmd(), newInspectCmd(), newDemoCmd())
 	return root
 }
 
@@ -87,7 +87,7 @@ func run(args []string, stdout, stderr io.Writer) int {
 
 func isUsage(err error) bool {
 	var ue usageError
-	if errors.As(err, &ue) || errors.Is(err, dispersion.ErrBadInput) || errors.Is(err, output.ErrExist) {
+	if errors.As(err, &ue) || errors.Is(err, dispersion.ErrBadInput) || errors.Is(err, output.ErrExist) || errors.Is(err, output.ErrBadFile) {
 		return true
 	}
 	s := err.Error()

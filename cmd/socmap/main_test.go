@@ -295,3 +295,36 @@ func TestCompareCommand(t *testing.T) {
 		t.Errorf("shake window %g not wider than Raman %g (E_R is smaller for shake)", sw, rw)
 	}
 }
+
+func TestInspect(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "b.h5")
+	if code, _, e := runArgs(t, "bands", "--omega-er", "2", "--out", out); code != 0 {
+		t.Fatal(e)
+	}
+	code, text, stderr := runArgs(t, "inspect", out)
+	if code != 0 || !strings.Contains(text, "E_lower") || !strings.Contains(text, "[E_R]") {
+		t.Errorf("inspect: exit %d %q %q", code, text, stderr)
+	}
+	code, js, _ := runArgs(t, "inspect", "--json", out)
+	var v map[string]any
+	if code != 0 || json.Unmarshal([]byte(js), &v) != nil {
+		t.Errorf("inspect --json: exit %d %q", code, js)
+	}
+	bad := filepath.Join(dir, "bad.h5")
+	os.WriteFile(bad, []byte("not hdf5 at all"), 0o644)
+	b, _ := os.ReadFile(out)
+	trunc := filepath.Join(dir, "trunc.h5")
+	os.WriteFile(trunc, b[:len(b)/2], 0o644)
+	for _, f := range []string{bad, trunc, filepath.Join(dir, "missing.h5")} {
+		code, _, stderr := runArgs(t, "inspect", f)
+		if code != 2 || strings.Count(strings.TrimSpace(stderr), "\n") != 0 || !strings.Contains(stderr, filepath.Base(f)) {
+			t.Errorf("inspect %s: exit %d, stderr %q", f, code, stderr)
+		}
+	}
+	// Unwritable directory for --out: one line, exit 2, nothing written.
+	code, _, stderr = runArgs(t, "bands", "--omega-er", "2", "--out", "/nonexistent-dir/b.h5")
+	if code != 2 || !strings.Contains(stderr, "--out") {
+		t.Errorf("unwritable: exit %d %q", code, stderr)
+	}
+}

@@ -70,3 +70,17 @@ func shakeH5(p dispersion.Shake, r dispersion.ShakeResult) func(w *output.Writer
 func ramanH5(p dispersion.Raman, r dispersion.RamanResult) func(w *output.Writer) {
 	return func(w *output.Writer) { w.WriteRaman(p, r) }
 }
+
+// emit writes the result files of a command (--out, by extension: .json or
+// .h5 through fill), then prints doc as JSON (--json) or the table.
+func emit(cmd *cobra.Command, outs []string, kind string, doc map[string]any, fill func(w *output.Writer), table *output.Table) error {
+	for _, o := range outs {
+		if err := writeResult(cmd, o, kind, doc, fill); err != nil {
+			return err
+		}
+	}
+	if g.json {
+		return writeJSON(cmd.OutOrStdout(), doc)
+	}
+	return table.Write(cmd.OutOrStdout())
+}

@@ -63,16 +63,7 @@ coefficient, RF recoil enhancement and the validity of the cycle average.`,
 				return usagef("%v", err)
 			}
 			info, _ := dispersion.Bands{Omega: r.Model.OmegaOverER, Delta: r.Model.DeltaOverER}.Analyze()
-			doc := shakeJSON(p, r, info)
-			for _, o := range outs {
-				if err := writeResult(cmd, o, "scheme-shake", doc, shakeH5(p, r)); err != nil {
-					return err
-				}
-			}
-			if g.json {
-				return writeJSON(cmd.OutOrStdout(), doc)
-			}
-			return shakeTable(p, r, info).Write(cmd.OutOrStdout())
+			return emit(cmd, outs, "scheme-shake", shakeJSON(p, r, info), shakeH5(p, r), shakeTable(p, r, info))
 		},
 	}
 	f.add(c.Flags())
@@ -203,16 +194,7 @@ func newRamanCmd() *cobra.Command {
 				return usagef("%v", err)
 			}
 			info, _ := dispersion.Bands{Omega: r.Model.OmegaOverER, Delta: r.Model.DeltaOverER}.Analyze()
-			doc := ramanJSON(p, r, info)
-			for _, o := range outs {
-				if err := writeResult(cmd, o, "scheme-raman", doc, ramanH5(p, r)); err != nil {
-					return err
-				}
-			}
-			if g.json {
-				return writeJSON(cmd.OutOrStdout(), doc)
-			}
-			return ramanTable(p, r, info).Write(cmd.OutOrStdout())
+			return emit(cmd, outs, "scheme-raman", ramanJSON(p, r, info), ramanH5(p, r), ramanTable(p, r, info))
 		},
 	}
 	f.add(c.Flags(), true, "")

@@ -9,10 +9,12 @@ import "C"
 import (
 	"fmt"
 	"strings"
+	"unicode/utf8"
 	"unsafe"
 )
 
-// Attr is a named attribute value. Values written may be string, float64,
+// Attr is a named attribute value. Values written may be string (valid
+// UTF-8 without NUL bytes, stored as a variable-length UTF-8 string), float64,
 // int64, int (stored as int64), []float64 or []int64. Values read back are
 // string, float64, int64, []string, []float64, []int64 (integers of any
 // HDF5 width are read as int64, floats as float64, a scalar dataspace gives
@@ -69,6 +71,9 @@ func setAttr(id C.hid_t, name string, value any) error {
 	)
 	switch v := value.(type) {
 	case string:
+		if !utf8.ValidString(v) || strings.IndexByte(v, 0) >= 0 {
+			return fmt.Errorf("%w: string attribute must be valid UTF-8 without NUL bytes", ErrType)
+		}
 		ftype = C.sm_vlen_string()
 		if ftype < 0 {
 			return stackError()

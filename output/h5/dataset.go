@@ -7,6 +7,7 @@ package h5
 import "C"
 
 import (
+	"errors"
 	"fmt"
 	"strings"
 	"unsafe"
@@ -327,7 +328,7 @@ func (f *File) createLocked(op, p string, dt DType, shape []int, m Meta, chunk [
 		}
 	}
 	if _, err := f.kindLocked(op, p); err == nil {
-		return -1, f.err(op, p, fmt.Errorf("%w: an object exists at this path", ErrExist))
+		return -1, f.err(op, p, errors.New("an object exists at this path"))
 	}
 	if compress && chunk == nil {
 		chunk = autoChunk(shape, dt.size())
@@ -607,8 +608,9 @@ func (d *Dataset) WriteAt(offset, count []int, data any) error {
 }
 
 // readable reports whether Go elements of type want can hold the dataset's
-// values without loss: float64 from any integer or float type, int32 from
-// signed integers up to 32 bits, int8 and complex128 only from themselves.
+// values without loss: float64 from floats and integers up to 32 bits, int32 from
+// signed integers up to 32 bits, complex128 from any {r, i} float compound,
+// int8 only from int8.
 func (d *Dataset) readable(want DType) bool {
 	if want == d.dtype && want != Unknown {
 		return true
@@ -625,6 +627,8 @@ func (d *Dataset) readable(want DType) bool {
 		return cls == C.H5T_FLOAT || (cls == C.H5T_INTEGER && size <= 4)
 	case Int32:
 		return cls == C.H5T_INTEGER && (size < 4 || (size == 4 && C.H5Tget_sign(t) == C.H5T_SGN_2))
+	case Complex128:
+		return isComplex(t) // e.g. complex64: {r float32, i float32}
 	}
 	return false
 }
@@ -750,7 +754,7 @@ func readWhole[T any](f *File, p string) ([]T, []int, error) {
 	return out, d.Shape(), nil
 }
 
-// ReadFloat64s reads the whole dataset at p (float or integer type) as
+// ReadFloat64s reads the whole dataset at p (float, or integer up to 32 bits) as
 // float64, with its shape.
 func (f *File) ReadFloat64s(p string) ([]float64, []int, error) { return readWhole[float64](f, p) }
 
@@ -761,7 +765,8 @@ func (f *File) ReadInt8s(p string) ([]int8, []int, error) { return readWhole[int
 // unsigned up to 16) as int32, with its shape.
 func (f *File) ReadInt32s(p string) ([]int32, []int, error) { return readWhole[int32](f, p) }
 
-// ReadComplex128s reads the whole complex dataset at p with its shape.
+// ReadComplex128s reads the whole complex dataset at p (a compound of two
+// float members r and i, e.g. complex64 written by h5py) with its shape.
 func (f *File) ReadComplex128s(p string) ([]complex128, []int, error) {
 	return readWhole[complex128](f, p)
 }

@@ -54,7 +54,7 @@ func Create(name string, force bool) (*File, error) {
 	fail := func(cause error) error { return &Error{Op: "create", File: name, Err: cause} }
 	if !force {
 		if _, err := os.Lstat(name); err == nil {
-			return nil, fail(fmt.Errorf("%w (not overwritten without force)", ErrExist))
+			return nil, fail(ErrExist)
 		}
 	}
 	dir, base := filepath.Split(name)
@@ -291,11 +291,11 @@ func commit(tmp, name string, force bool) error {
 		case err == nil:
 			os.Remove(tmp)
 		case errors.Is(err, fs.ErrExist):
-			return fmt.Errorf("%w (created meanwhile; not overwritten without force)", ErrExist)
+			return ErrExist
 		default:
 			// No hard links on this file system: check, then rename.
 			if _, serr := os.Lstat(name); serr == nil {
-				return fmt.Errorf("%w (created meanwhile; not overwritten without force)", ErrExist)
+				return ErrExist
 			}
 			if err := os.Rename(tmp, name); err != nil {
 				return osCause(err)

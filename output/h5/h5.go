@@ -49,7 +49,9 @@
 // values. Flush hands the data to the operating system (enough for a killed
 // process); Sync also fsyncs (needed against power loss). Compressed
 // datasets relocate chunks when rewritten and are not crash-safe in this
-// sense: use them for data written once.
+// sense: use them for data written once. The whole-array writers
+// (WriteFloat64s etc.) compress arrays of ChunkThreshold bytes or more, so a
+// map to be resumed is laid out with CreateDataset.
 //
 // # Concurrency
 //
@@ -180,9 +182,15 @@ var (
 	ErrReadOnly = errors.New("file opened read-only")
 )
 
-// ErrExist is returned (wrapped) when Create would overwrite an existing
-// file without force; it is fs.ErrExist.
-var ErrExist = fs.ErrExist
+// ErrExist is returned (wrapped) when Create would replace an existing file
+// without force, or a dataset would replace an existing object. It also
+// matches fs.ErrExist.
+var ErrExist error = existError{}
+
+type existError struct{}
+
+func (existError) Error() string        { return "file exists (use --force to overwrite)" }
+func (existError) Is(target error) bool { return target == fs.ErrExist }
 
 // Error is the error type of every failing operation of the package.
 type Error struct {

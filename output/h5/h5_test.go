@@ -10,6 +10,7 @@ import (
 	"path/filepath"
 	"reflect"
 	"strings"
+	"sync"
 	"testing"
 )
 
@@ -279,7 +280,7 @@ func TestMetaAndArgumentErrors(t *testing.T) {
 	if err := f.WriteFloat64s("/x", []float64{1}, nil, meta); err != nil {
 		t.Fatal(err)
 	}
-	if err := f.WriteFloat64s("/x", []float64{1}, nil, meta); !errors.Is(err, fs.ErrExist) {
+	if err := f.WriteFloat64s("/x", []float64{1}, nil, meta); err == nil || !strings.Contains(err.Error(), "exists") {
 		t.Errorf("second write to /x: %v", err)
 	}
 	if err := f.WriteFloat64s("/x/y", []float64{1}, nil, meta); err == nil {
@@ -290,6 +291,11 @@ func TestMetaAndArgumentErrors(t *testing.T) {
 	}
 	if err := f.SetAttr("/", "bad", []string{"a"}); !errors.Is(err, ErrType) {
 		t.Errorf("unsupported attribute type: %v", err)
+	}
+	for _, bad := range []string{"a\x00b", "\xff\xfe"} {
+		if err := f.SetAttr("/", "bad", bad); !errors.Is(err, ErrType) {
+			t.Errorf("string attribute %q: %v", bad, err)
+		}
 	}
 	if err := f.SetAttr("/nope", "a", 1.0); !errors.Is(err, ErrNotFound) {
 		t.Errorf("attribute on missing object: %v", err)
@@ -565,7 +571,7 @@ func TestRefuseOverwrite(t *testing.T) {
 		t.Fatal(err)
 	}
 	_, err := Create(name, false)
-	if !errors.Is(err, fs.ErrExist) || !strings.Contains(err.Error(), name) {
+	if !errors.Is(err, fs.ErrExist) || !errors.Is(err, ErrExist) || !strings.Contains(err.Error(), name) {
 		t.Fatalf("Create over existing file: %v", err)
 	}
 	// force replaces it
@@ -643,6 +649,20 @@ func TestOpenBadFiles(t *testing.T) {
 	os.WriteFile(empty, nil, 0o644)
 
 	stderr := captureStderr(t)
+	// from several goroutines, hence OS threads (HDF5's print switch is per thread)
+	var wg sync.WaitGroup
+	for g := 0; g < 8; g++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := 0; i < 20; i++ {
+				if f, err := Open(trunc); err == nil {
+					f.Close()
+				}
+			}
+		}()
+	}
+	wg.Wait()
 	for _, c := range []struct {
 		name string
 		is   error
