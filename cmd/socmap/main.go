@@ -32,7 +32,8 @@ func usagef(format string, a ...any) error { return usageError{fmt.Sprintf(forma
 type globals struct {
 	json, quiet, force bool
 	plan               string
-	planText           string // the plan file as read, for result files
+	planText           string          // the plan file as read, for result files
+	fromPlan           map[string]bool // flags whose value came from the plan file
 }
 
 var g globals
@@ -58,7 +59,7 @@ states. Quantities take units as text: "40 G/cm", "3 kHz", "90 deg", "790 nm".`,
 	pf.BoolVar(&g.quiet, "quiet", false, "no progress output on stderr")
 	pf.BoolVar(&g.force, "force", false, "overwrite existing output files")
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error { return usageError{err.Error()} })
-	root.AddCommand(newSchemeCmd(), newBandsCmd(), newMapCmd(), newCompareCmd(), newInspectCmd(), newDemoCmd())
+	root.AddCommand(newSchemeCmd(), newBandsCmd(), newGroundCmd(), newMapCmd(), newCompareCmd(), newInspectCmd(), newDemoCmd())
 	return root
 }
 

@@ -99,6 +99,10 @@ func applyPlanText(cmd *cobra.Command, text, name string) error {
 			return usagef("--plan %s: %s = %q: %v", name, k, settings[k], err)
 		}
 		f.Changed = true
+		if g.fromPlan == nil {
+			g.fromPlan = map[string]bool{}
+		}
+		g.fromPlan[k] = true
 	}
 	return nil
 }

@@ -1,0 +1,200 @@
+package gpe
+
+import "math"
+
+// RefreshEvery: the finisher recomputes ψ̂ = F(ψ) from scratch every this
+// many iterations (between, ψ̂ is updated in k space by linearity).
+const RefreshEvery = 25
+
+// cg runs the preconditioned nonlinear conjugate gradient on the sphere
+// ∫|ψ|² = N (after X. Antoine, A. Levitt, Q. Tang, J. Comput. Phys. 343
+// (2017) 92; our own variant):
+//
+//	r = H[ψ]ψ − μψ                         (Riemannian gradient, up to 2)
+//	g = P(r − βψ),  β = Re⟨ψ,Pr⟩/⟨ψ,Pψ⟩     (preconditioned, tangent)
+//	p = −g + b·(p_old − projection on ψ),  b = max(0, Polak–Ribière)
+//	ψ(θ) = cos θ ψ + sin θ q,  q = √N p/‖p‖ (retraction on the sphere)
+//
+// with the kinetic preconditioner P = (α + K_σ(k))⁻¹, K_σ = (k_x ∓ 1)² + k_⊥²,
+// α = max(1, ⟨K⟩ + ⟨V⟩ + 2E_int/N) (per particle, E_R; measured: floors
+// 0.1–3 and scales 0.3–2 change the iteration counts of trapped, TF and
+// random-start test problems by less than ±30%). The energy along the curve is a
+// trigonometric polynomial whose coefficients (moments of ψ and q) are
+// computed in one pass, so θ is found by an exact one-dimensional search
+// without further transforms. Each iteration costs four FFTs. The fixed
+// point is the exact discrete stationary state H[ψ]ψ = μψ.
+func (e *engine) cg(set Settings, hist func(Energies)) (int, Status) {
+	e.cgSums = true
+	defer func() { e.cgSums = false }()
+	en := e.evaluate()
+	if bad(en) {
+		return 0, Diverged
+	}
+	a := math.Max(1, en.Kinetic+en.Potential+2*en.Interaction)
+	if a != e.alpha {
+		e.alpha = a
+		en = e.evaluate()
+	}
+	hist(en)
+	prevE := en.Total
+	restart := true
+	prevRG := 0.0
+	N := e.m.Norm
+	fn := float64(e.n)
+	var lm lineModel
+	for it := 1; it <= set.MaxIter; it++ {
+		// the sums of the last opK2 (with cgSums)
+		ks := &e.k2sum
+		rg := ks[4] - e.beta*ks[1] // Re⟨r̂, P(r̂ − βψ̂)⟩
+		rgOld, hpOld, rpOld, rh, hh := ks[5], ks[6], ks[7], ks[3], ks[8]
+		e.bpr = 0
+		if !restart && prevRG > 0 {
+			e.bpr = math.Max(0, (rg-rgOld)/prevRG)
+		}
+		e.cproj = hpOld / hh
+		// Re⟨r̂, p̂⟩ of the new direction, known before the pass: it must be
+		// negative (descent), else fall back to steepest descent.
+		if e.bpr != 0 && -rg+e.bpr*(rpOld-e.cproj*rh) >= 0 {
+			e.bpr = 0
+		}
+		e.reduce(opK34, 5)
+		steepest := e.bpr == 0
+		prevRG = rg
+		restart = false
+		pp, hKp, pKp := e.sum[0], e.sum[1], e.sum[2]
+		if !(pp > 0) {
+			return it - 1, statusAt(en, set)
+		}
+		qs := math.Sqrt(N / (pp * e.dV / fn))
+		e.fftPair(opBwdP)
+		e.sig = qs / fn
+		e.reduce(opMoments, mEnd)
+		lm.set(e, qs, hKp, pKp)
+		th, dE := lm.minimize()
+		if !(dE < 0) {
+			if steepest {
+				// No descent even along the preconditioned gradient: the
+				// energy is flat to rounding. Stop; the status follows
+				// the residual.
+				return it - 1, statusAt(en, set)
+			}
+			restart = true
+			continue
+		}
+		c, s := math.Cos(th), math.Sin(th)
+		sm := &e.sum
+		nn := e.dV * (c*c*sm[mNa] + c*s*sm[mNb] + s*s*sm[mNd])
+		e.upd = true
+		e.uc, e.us, e.ut, e.usig, e.uqs = c, s, math.Sqrt(N/nn), e.sig, qs
+		en = e.evalAfterLocal(it%RefreshEvery == 0)
+		hist(en)
+		if bad(en) {
+			return it, Diverged
+		}
+		if en.Residual <= set.Tol && math.Abs(en.Total-prevE) <= set.EnergyTol {
+			return it, Converged
+		}
+		prevE = en.Total
+	}
+	return set.MaxIter, MaxIterations
+}
+
+func statusAt(en Energies, set Settings) Status {
+	if en.Residual <= set.Tol {
+		return Converged
+	}
+	return MaxIterations
+}
+
+// lineModel is the energy change along ψ(θ) = cos θ ψ + sin θ q:
+// every density-like quantity is c²X_a + cs X_b + s²X_d, so
+// ΔE(θ) = Σ_x Δw_x L_x + Σ_xy (w_x w_y − w⁰_x w⁰_y) U_xy with
+// w = (c², cs, s²), w⁰ = (1, 0, 0), Δw = (−s², cs, s²).
+type lineModel struct {
+	L [3]float64    // kinetic + potential + Rabi + detuning, in E (not per particle)
+	U [3][3]float64 // interaction: dV(½g↑↑ M↑↑ + ½g↓↓ M↓↓ + g↑↓ M↑↓)
+}
+
+func (l *lineModel) set(e *engine, qs, hKp, pKp float64) {
+	s := &e.sum
+	m := &e.m
+	dv := e.dV
+	fn := float64(e.n)
+	kin := [3]float64{e.kinSum * dv / fn, 2 * qs * hKp * dv / fn, qs * qs * pKp * dv / fn}
+	for x := 0; x < 3; x++ {
+		l.L[x] = kin[x] + dv*(s[mVa+x]+m.Omega*s[mRa+x]+m.Delta/2*s[mZa+x])
+	}
+	sym := func(b, x, y int) float64 {
+		if x > y {
+			x, y = y, x
+		}
+		// packed aa ab ad bb bd dd
+		idx := [3][3]int{{0, 1, 2}, {1, 3, 4}, {2, 4, 5}}
+		return s[b+idx[x][y]]
+	}
+	for x := 0; x < 3; x++ {
+		for y := 0; y < 3; y++ {
+			l.U[x][y] = dv * (m.Guu/2*sym(mUU, x, y) + m.Gdd/2*sym(mDD, x, y) + m.Gud*s[mUD+3*x+y])
+		}
+	}
+}
+
+func (l *lineModel) dE(th float64) float64 {
+	c, s := math.Cos(th), math.Sin(th)
+	dw := [3]float64{-s * s, c * s, s * s}
+	w0 := [3]float64{1, 0, 0}
+	r := 0.0
+	for x := 0; x < 3; x++ {
+		r += dw[x] * l.L[x]
+		for y := 0; y < 3; y++ {
+			r += (dw[x]*w0[y] + w0[x]*dw[y] + dw[x]*dw[y]) * l.U[x][y]
+		}
+	}
+	return r
+}
+
+// minimize returns the θ in (0, π/2] of lowest ΔE and ΔE there: a
+// geometric scan θ_j = (π/2)·2^{−j/2} followed by golden-section refinement
+// (to 1e-10 relative) in the bracket around the best sample.
+func (l *lineModel) minimize() (float64, float64) {
+	const nscan = 110
+	const q = 0.7071067811865476
+	bestJ, bestF := -1, 0.0
+	th := math.Pi / 2
+	for j := 0; j < nscan; j++ {
+		f := l.dE(th)
+		if f < bestF || bestJ < 0 {
+			bestJ, bestF = j, f
+		}
+		th *= q
+	}
+	hiT := math.Pi / 2 * math.Pow(q, float64(bestJ-1))
+	if bestJ == 0 {
+		hiT = math.Pi / 2
+	}
+	loT := math.Pi / 2 * math.Pow(q, float64(bestJ+1))
+	bestT := math.Pi / 2 * math.Pow(q, float64(bestJ))
+	const gr = 0.6180339887498949
+	a, b := loT, hiT
+	x1 := b - gr*(b-a)
+	x2 := a + gr*(b-a)
+	f1, f2 := l.dE(x1), l.dE(x2)
+	for k := 0; k < 80 && b-a > 1e-10*b; k++ {
+		if f1 < f2 {
+			b, x2, f2 = x2, x1, f1
+			x1 = b - gr*(b-a)
+			f1 = l.dE(x1)
+		} else {
+			a, x1, f1 = x1, x2, f2
+			x2 = a + gr*(b-a)
+			f2 = l.dE(x2)
+		}
+	}
+	if f1 < bestF {
+		bestT, bestF = x1, f1
+	}
+	if f2 < bestF {
+		bestT, bestF = x2, f2
+	}
+	return bestT, bestF
+}

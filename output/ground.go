@@ -1,0 +1,301 @@
+package output
+
+import (
+	"fmt"
+	"image/color"
+	"io"
+	"math"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/palette/moreland"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+
+	"socmap/gpe"
+	"socmap/output/h5"
+	"socmap/phases/label"
+)
+
+// VariationalRef is the variational prediction printed beside a box ground state.
+type VariationalRef struct {
+	Phase    label.Phase
+	Energy   float64 // E_R per particle
+	K1       float64 // k_R
+	Contrast float64
+}
+
+// GroundResult is a ground-state solve with everything needed to report it.
+type GroundResult struct {
+	Problem     gpe.Problem
+	Multi       *gpe.MultiResult
+	Units       *gpe.Units // nil without a scheme
+	Variational *VariationalRef
+	Notes       []string
+}
+
+// Table summarises the solve.
+func (r *GroundResult) Table() *Table {
+	N := Num
+	o, b := r.Multi.Observed, r.Multi.Best
+	g := r.Problem.Grid
+	m := r.Problem.Model
+	t := &Table{Title: fmt.Sprintf("Spinor GPE ground state: %dD, %v points, box %s /k_R, %s potential",
+		g.Dim, g.Shape(), lengths(g), m.Potential.Kind)}
+	t.Section("Result")
+	t.Row("phase", o.Phase.String(), "")
+	t.RowNote("status", b.Status.String(), "", fmt.Sprintf("(%d split steps, %d finisher iterations)", b.SplitSteps, b.Iterations))
+	t.Row("residual ‖Hψ − μψ‖", N(b.Residual, 3), "E_R")
+	t.Row("energy per particle", N(o.Energies.Total, 8), "E_R")
+	t.Row("chemical potential μ", N(o.Energies.Mu, 8), "E_R")
+	if o.MuTF > 0 {
+		t.Row("Thomas–Fermi estimate of μ", N(o.MuTF, 6), "E_R")
+	}
+	t.Row("⟨σz⟩, ⟨σx⟩", N(o.Sz, 4)+", "+N(o.Sx, 4), "")
+	t.Row("dominant |k_x| = k₁", N(o.K1, 5), "k_R")
+	if o.StripePeriod > 0 {
+		t.Row("stripe period π/k₁", N(o.StripePeriod, 5), "1/k_R")
+	}
+	t.Row("density contrast", N(o.Contrast, 4), "")
+	t.Row("Fourier amplitude at 2k₁", N(o.Fourier2K1, 4), "")
+	if r.Units != nil {
+		t.Section("In SI")
+		t.Row("E_R/h", N(r.Units.EnergyHz(1), 5), "Hz")
+		t.Row("energy per particle / h", N(r.Units.EnergyHz(o.Energies.Total), 5), "Hz")
+		t.Row("μ / h", N(r.Units.EnergyHz(o.Energies.Mu), 5), "Hz")
+		if o.StripePeriod > 0 {
+			t.Row("stripe period", N(r.Units.LengthSI(o.StripePeriod)*1e6, 4), "µm")
+		}
+	}
+	t.Section("Energy parts per particle [E_R]")
+	t.Row("kinetic with SOC", N(o.Energies.Kinetic, 6), "")
+	t.Row("potential", N(o.Energies.Potential, 6), "")
+	t.Row("Rabi", N(o.Energies.Rabi, 6), "")
+	t.Row("detuning", N(o.Energies.Detuning, 6), "")
+	t.Row("interaction", N(o.Energies.Interaction, 6), "")
+	if r.Variational != nil {
+		t.Section("Variational (uniform) prediction")
+		t.Row("phase", r.Variational.Phase.String(), "")
+		t.Row("energy per particle", N(r.Variational.Energy, 8), "E_R")
+		t.Row("k₁, contrast", N(r.Variational.K1, 5)+", "+N(r.Variational.Contrast, 4), "")
+	}
+	t.Section(fmt.Sprintf("Starts (%d converged, energy spread %s E_R)", r.Multi.Converged, N(r.Multi.Spread, 3)))
+	for i, s := range r.Multi.Starts {
+		mark := ""
+		if i == r.Multi.BestIndex {
+			mark = "  ← kept"
+		}
+		t.RowNote(s.Name, N(s.Energy, 9), "E_R", fmt.Sprintf("%s, %s, residual %s%s", s.Phase, s.Status, N(s.Residual, 2), mark))
+	}
+	for _, n := range r.Notes {
+		t.Text(n)
+	}
+	t.Text(fmt.Sprintf("classifier thresholds: single-minimum below ⟨|k|⟩ = %g k_R, stripe from minority weight %g",
+		o.Thresholds.SingleMinimumK, o.Thresholds.StripeMinority))
+	return t
+}
+
+func lengths(g *gpe.Grid) string {
+	s := ""
+	for a := 0; a < g.Dim; a++ {
+		if a > 0 {
+			s += "×"
+		}
+		s += Num(g.L[a], 4)
+	}
+	return s
+}
+
+// WriteH5 writes the state, densities, momentum distributions, observables and
+// the convergence history.
+func (r *GroundResult) WriteH5(w *Writer) {
+	o, b := r.Multi.Observed, r.Multi.Best
+	g := r.Problem.Grid
+	m := r.Problem.Model
+	shape := g.Shape()
+	axes := []string{"x", "y", "z"}
+	for a := 0; a < g.Dim; a++ {
+		w.Array("/grid/"+axes[a], g.X[a], nil, "1/k_R", "grid coordinate "+axes[a]+" (box centred on 0)")
+	}
+	w.Scalar("/model/omega", m.Omega, "E_R", "coupling ħΩ/E_R")
+	w.Scalar("/model/delta", m.Delta, "E_R", "detuning ħδ/E_R")
+	w.Scalar("/model/g_uu", m.Guu, "E_R (1/k_R)^d", "coupling g↑↑ for the wavefunction normalised to /model/norm")
+	w.Scalar("/model/g_dd", m.Gdd, "E_R (1/k_R)^d", "coupling g↓↓")
+	w.Scalar("/model/g_ud", m.Gud, "E_R (1/k_R)^d", "coupling g↑↓")
+	w.Scalar("/model/norm", m.Norm, "dimensionless", "∫|ψ|² dV: atom number (trap) or box volume (uniform box, mean density 1)")
+	w.Attr("/model", "potential", m.Potential.Kind.String())
+	if m.Potential.Kind == gpe.Harmonic {
+		w.Array("/model/trap_omega", m.Potential.Omega[:g.Dim], nil, "E_R/ħ", "harmonic trap angular frequencies")
+	}
+	if r.Units != nil {
+		w.Scalar("/units/k_R", r.Units.KR, "1/m", "recoil wavenumber: unit of momentum")
+		w.Scalar("/units/E_R", r.Units.EnergyHz(1), "Hz", "recoil energy E_R/h: unit of energy")
+	}
+	if w.Err == nil {
+		w.Err = w.F.WriteComplex128s("/state/psi_up", r.Multi.Best.State.Psi[0], shape, h5.Meta{Units: "(k_R)^(d/2)", Description: "ψ↑ on the grid, row-major (x slowest)"})
+	}
+	if w.Err == nil {
+		w.Err = w.F.WriteComplex128s("/state/psi_down", r.Multi.Best.State.Psi[1], shape, h5.Meta{Units: "(k_R)^(d/2)", Description: "ψ↓ on the grid, row-major (x slowest)"})
+	}
+	st := r.Multi.Best.State
+	for c, name := range []string{"up", "down"} {
+		d := make([]float64, g.Size)
+		for i, v := range st.Psi[c] {
+			d[i] = real(v)*real(v) + imag(v)*imag(v)
+		}
+		w.Array("/state/density_"+name, d, shape, "(k_R)^d", "density |ψ|² of component "+name)
+		w.Array("/density_x/"+name, st.ComponentDensityX(c), nil, "k_R", "density of component "+name+" integrated over the transverse axes")
+		w.Array("/momentum/nkx_"+name, o.MomentumX[c], nil, "dimensionless", "fraction of all atoms in component "+name+" at each k_x (summed over k_⊥)")
+	}
+	w.Array("/density_x/total", st.DensityX(), nil, "k_R", "total density integrated over the transverse axes")
+	w.Array("/momentum/kx", o.Kx, nil, "k_R", "k_x of the grid, ascending")
+	ob := "/observables/"
+	w.Scalar(ob+"energy", o.Energies.Total, "E_R", "energy per particle")
+	w.Scalar(ob+"mu", o.Energies.Mu, "E_R", "chemical potential")
+	w.Scalar(ob+"residual", b.Residual, "E_R", "‖Hψ − μψ‖ of the returned state")
+	w.Scalar(ob+"kinetic", o.Energies.Kinetic, "E_R", "kinetic energy with SOC per particle")
+	w.Scalar(ob+"potential", o.Energies.Potential, "E_R", "potential energy per particle")
+	w.Scalar(ob+"rabi", o.Energies.Rabi, "E_R", "Rabi energy per particle")
+	w.Scalar(ob+"detuning", o.Energies.Detuning, "E_R", "detuning energy per particle")
+	w.Scalar(ob+"interaction", o.Energies.Interaction, "E_R", "interaction energy per particle")
+	w.Scalar(ob+"frac_up", o.FracUp, "dimensionless", "fraction of atoms in ↑")
+	w.Scalar(ob+"frac_down", o.FracDown, "dimensionless", "fraction of atoms in ↓")
+	w.Scalar(ob+"sigma_z", o.Sz, "dimensionless", "⟨σ_z⟩ per particle")
+	w.Scalar(ob+"sigma_x", o.Sx, "dimensionless", "⟨σ_x⟩ per particle")
+	w.Scalar(ob+"k1", o.K1, "k_R", "|k_x| of the largest momentum peak")
+	w.Scalar(ob+"stripe_period", o.StripePeriod, "1/k_R", "π/k₁")
+	w.Scalar(ob+"contrast", o.Contrast, "dimensionless", "(n_max − n_min)/(n_max + n_min) of the total density along x (central region)")
+	w.Scalar(ob+"fourier_2k1", o.Fourier2K1, "dimensionless", "|ñ(2k₁)|/ñ(0) of the total density along x")
+	w.Scalar(ob+"mu_thomas_fermi", o.MuTF, "E_R", "Thomas–Fermi estimate of μ (0 without a trap)")
+	w.Attr("/observables", "phase", o.Phase.String())
+	w.Attr("/observables", "phase_code", int64(o.Phase))
+	w.Attr("/observables", "status", b.Status.String())
+	w.Attr("/observables", "iterations", int64(b.Iterations))
+	w.Attr("/observables", "split_steps", int64(b.SplitSteps))
+	w.Attr("/observables", "threshold_single_minimum_k", o.Thresholds.SingleMinimumK)
+	w.Attr("/observables", "threshold_stripe_minority", o.Thresholds.StripeMinority)
+	w.Array("/convergence/energy", b.EnergyHistory, nil, "E_R", "energy per particle at every check (split steps, then finisher iterations)")
+	w.Array("/convergence/residual", b.ResidualHistory, nil, "E_R", "residual at every check")
+	ns := len(r.Multi.Starts)
+	e, res := make([]float64, ns), make([]float64, ns)
+	names := ""
+	for i, s := range r.Multi.Starts {
+		e[i], res[i] = s.Energy, s.Residual
+		names += s.Name + " | " + s.Phase.String() + " | " + s.Status.String() + "\n"
+	}
+	w.Array("/starts/energy", e, nil, "E_R", "energy per particle of every start")
+	w.Array("/starts/residual", res, nil, "E_R", "final residual of every start")
+	w.Attr("/starts", "starts", names)
+	w.Attr("/starts", "kept", int64(r.Multi.BestIndex))
+}
+
+// WritePNG draws the densities along x (each component and the total), the
+// momentum distribution along k_x, and for 2D/3D an image of the total
+// density in the x–y plane (z = 0).
+func (r *GroundResult) WritePNG(w io.Writer) error {
+	o := r.Multi.Observed
+	st := r.Multi.Best.State
+	g := r.Problem.Grid
+	xs, xl := 1.0, "x  [1/k_R]"
+	if r.Units != nil {
+		xs, xl = 1e6/r.Units.KR, "x  [µm]"
+	}
+	p1 := plot.New()
+	p1.Title.Text = fmt.Sprintf("GPE ground state (%dD): %s, k₁ = %.3f k_R, contrast %.3f, %s",
+		g.Dim, o.Phase, o.K1, o.Contrast, r.Multi.Best.Status)
+	p1.X.Label.Text = xl
+	p1.Y.Label.Text = "density along x (integrated transversally)"
+	curves := []struct {
+		name string
+		y    []float64
+		c    color.Color
+		dash bool
+	}{{"total", st.DensityX(), color.Black, false}, {"spin ↑", st.ComponentDensityX(0), color.RGBA{210, 40, 40, 255}, true},
+		{"spin ↓", st.ComponentDensityX(1), color.RGBA{30, 80, 200, 255}, true}}
+	for _, c := range curves {
+		xy := make(plotter.XYs, g.N[0])
+		for i := range xy {
+			xy[i] = plotter.XY{X: g.X[0][i] * xs, Y: c.y[i]}
+		}
+		l, err := plotter.NewLine(xy)
+		if err != nil {
+			return err
+		}
+		l.Color, l.Width = c.c, vg.Points(1.5)
+		if c.dash {
+			l.Dashes = []vg.Length{vg.Points(4), vg.Points(2)}
+		}
+		p1.Add(l)
+		p1.Legend.Add(c.name, l)
+	}
+	p1.Legend.Top = true
+	p1.Legend.Left = true
+	p1.Legend.XOffs = vg.Points(8)
+	p1.Legend.YOffs = vg.Points(-4)
+	p1.Y.Min = 0
+	p1.Add(plotter.NewGrid())
+
+	p2 := plot.New()
+	p2.X.Label.Text = "k_x  [k_R]"
+	p2.Y.Label.Text = "fraction of atoms"
+	// Discrete momenta: one stem per k_x (the ↓ stems shifted by a hair so
+	// that equal weights stay visible).
+	for c, name := range []string{"spin ↑", "spin ↓"} {
+		shift := 0.012 * float64(2*c-1)
+		var leg *plotter.Line
+		for i, k := range o.Kx {
+			wgt := o.MomentumX[c][i]
+			if math.Abs(k) > 4 || wgt < 1e-4 {
+				continue
+			}
+			l, err := plotter.NewLine(plotter.XYs{{X: k + shift, Y: 0}, {X: k + shift, Y: wgt}})
+			if err != nil {
+				return err
+			}
+			l.Color, l.Width = curves[c+1].c, vg.Points(2.5)
+			p2.Add(l)
+			leg = l
+		}
+		if leg != nil {
+			p2.Legend.Add(name, leg)
+		}
+	}
+	p2.X.Min, p2.X.Max = -4, 4
+	p2.Y.Min = 0
+	p2.Legend.Top = true
+	p2.Add(plotter.NewGrid())
+	panels := []*plot.Plot{p1, p2}
+	frac := []float64{0.5, 0.5}
+	if g.Dim >= 2 {
+		p3 := plot.New()
+		p3.Title.Text = "total density, x–y plane (z = 0)"
+		p3.X.Label.Text = xl
+		ys := xs
+		p3.Y.Label.Text = "y" + xl[1:]
+		hm := plotter.NewHeatMap(planeGrid{st: st, xs: xs, ys: ys}, moreland.SmoothBlueRed().Palette(64))
+		p3.Add(hm)
+		panels = append(panels, p3)
+		frac = []float64{0.3, 0.25, 0.45}
+	}
+	h := 8 * vg.Inch
+	if g.Dim >= 2 {
+		h = 11 * vg.Inch
+	}
+	return renderPanels(w, 8*vg.Inch, h, panels, frac)
+}
+
+// planeGrid is the total density in the z = 0 plane (the middle z index).
+type planeGrid struct {
+	st     *gpe.State
+	xs, ys float64
+}
+
+func (p planeGrid) Dims() (c, r int) { return p.st.Grid.N[0], p.st.Grid.N[1] }
+func (p planeGrid) Z(c, r int) float64 {
+	g := p.st.Grid
+	l := g.N[2] / 2
+	i := (c*g.N[1]+r)*g.N[2] + l
+	a, b := p.st.Psi[0][i], p.st.Psi[1][i]
+	return real(a)*real(a) + imag(a)*imag(a) + real(b)*real(b) + imag(b)*imag(b)
+}
+func (p planeGrid) X(c int) float64 { return p.st.Grid.X[0][c] * p.xs }
+func (p planeGrid) Y(r int) float64 { return p.st.Grid.X[1][r] * p.ys }
