@@ -3,7 +3,6 @@ package main
 import (
 	"fmt"
 	"math"
-	"math/cmplx"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -103,7 +102,7 @@ reduced 1D/2D couplings for tight transverse confinement).`,
 				guesses = append(guesses, gpe.Guess{Name: fmt.Sprintf("random seed=%d", i), Kind: gpe.GuessRandom, Seed: uint64(i)})
 			}
 			if su.varRes != nil && su.varRes.Status == phases.Converged {
-				guesses = append(guesses, gpe.Guess{Name: "variational optimum", Kind: gpe.GuessGiven, State: twoWaveState(su.problem.Grid, su.varRes.State)})
+				guesses = append(guesses, gpe.Guess{Name: "variational optimum", Kind: gpe.GuessGiven, State: phases.TwoWaveState(su.problem.Grid, su.varRes.State)})
 			}
 			set := &gpe.Settings{Tol: tol.v}
 			mr, err := gpe.MultiStart(su.problem, guesses, set, label.DefaultThresholds)
@@ -356,22 +355,6 @@ func ones64(n int, v float64) []float64 {
 		o[i] = v
 	}
 	return o
-}
-
-// twoWaveState builds the variational two-plane-wave state on a grid, its
-// momenta snapped to the box: ψ = C₊χ₊e^{ik₊x} + C₋χ₋e^{−ik₋x} (phases.TwoWave).
-func twoWaveState(g *gpe.Grid, s phases.TwoWave) *gpe.State {
-	st := gpe.NewState(g)
-	kp, km := g.SnapK(s.KPlus), g.SnapK(s.KMinus)
-	cp, cm := math.Sqrt(s.W), math.Sqrt(1-s.W)
-	for idx := 0; idx < g.Size; idx++ {
-		i, _, _ := g.Coords(idx)
-		x := g.X[0][i]
-		ep, em := cmplx.Exp(complex(0, kp*x)), cmplx.Exp(complex(0, -km*x))
-		st.Psi[0][idx] = complex(cp*math.Cos(s.ThetaPlus), 0)*ep + complex(cm*math.Cos(s.ThetaMinus), 0)*em
-		st.Psi[1][idx] = complex(cp*math.Sin(s.ThetaPlus), 0)*ep + complex(cm*math.Sin(s.ThetaMinus), 0)*em
-	}
-	return st
 }
 
 func groundJSON(r *output.GroundResult) map[string]any {
