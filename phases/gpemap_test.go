@@ -50,5 +50,5 @@ func (m *gpeSink) WritePoint(ix, iy int, r PointResult) error {
 	m.pts[ix] = r
 	return nil
 }
-func (m *gpeSink) Done(ix, iy int) bool    { _, ok := m.pts[ix]; return ok }
+func (m *gpeSink) Done(ix, iy int) bool   { _, ok := m.pts[ix]; return ok }
 func (m *gpeSink) get(ix int) PointResult { return m.pts[ix] }
