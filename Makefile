@@ -22,6 +22,8 @@ vet: deps
 refs: deps
 	$(PY) testdata/ref_physics.py
 	$(PY) testdata/ref_variational.py
+	$(PY) testdata/ref_gpe_linear.py --check
+	$(PY) testdata/ref_gpe_stripe.py --check
 
 # Outside readers of our HDF5 files: h5py and h5dump on a fixture of every
 # type the layer writes, and on the result files of a demo run.
@@ -37,14 +39,18 @@ h5check: build
 
 test: deps vet refs
 	$(GO) test -count=1 ./...
+	CGO_ENABLED=0 $(GO) test -count=1 -tags purego ./gpe/...
 	$(MAKE) --no-print-directory h5check
 	@echo "make test: all checks passed"
 
 demo: build
 	./$(BIN) demo
 
+# Benchmarks: Go benchmarks of every package, then socmap against a plain
+# numpy split-step implementation of the same algorithm, in one run.
 bench: build
 	$(GO) test -run '^$$' -bench . -benchmem ./...
+	sh testdata/bench.sh
 
 clean:
 	rm -rf bin socmap-demo

@@ -1,6 +1,10 @@
 package gpe
 
-import "math"
+import (
+	"math"
+
+	"socmap/dispersion"
+)
 
 // LowerBand returns the lower single-particle band of the uniform SOC
 // Hamiltonian at momentum k (k_R) and its spinor (ψ↑, ψ↓):
@@ -32,34 +36,18 @@ func LowerBand(k, omega, delta float64) (e float64, up, down float64) {
 }
 
 // BandMinima returns the momenta (k_R, ascending) of the local minima of the
-// lower band, one or two. At δ = 0 they are ±√(1 − (Ω/4)²) for Ω < 4 and 0
-// otherwise (DESIGN.md §1; Y.-J. Lin, K. Jiménez-García, I. B. Spielman,
-// Nature 471, 83 (2011); citation from memory).
+// lower band, one or two, from dispersion.Bands (the one band analysis of the
+// project). At δ = 0 they are ±√(1 − (Ω/4)²) for Ω < 4 and 0 otherwise
+// (DESIGN.md §1; Y.-J. Lin, K. Jiménez-García, I. B. Spielman, Nature 471, 83
+// (2011); citation from memory).
 func BandMinima(omega, delta float64) []float64 {
-	f := func(k float64) float64 { e, _, _ := LowerBand(k, omega, delta); return e }
-	// scan then golden refine; minima lie in |k| ≤ 1 + |δ|/4 + 1.
-	lim := 2 + math.Abs(delta)/4
-	const n = 4000
-	var out []float64
-	h := 2 * lim / n
-	prev2, prev1 := f(-lim-h), f(-lim)
-	for i := 1; i <= n+1; i++ {
-		k := -lim + float64(i)*h
-		cur := f(k)
-		if prev1 < prev2 && prev1 <= cur {
-			a, b := k-2*h, k
-			for it := 0; it < 100; it++ {
-				m1 := a + (b-a)*0.381966011250105
-				m2 := a + (b-a)*0.618033988749895
-				if f(m1) < f(m2) {
-					b = m2
-				} else {
-					a = m1
-				}
-			}
-			out = append(out, (a+b)/2)
-		}
-		prev2, prev1 = prev1, cur
+	info, err := dispersion.Bands{Omega: omega, Delta: delta}.Analyze()
+	if err != nil {
+		return nil
+	}
+	out := make([]float64, len(info.Minima))
+	for i, m := range info.Minima {
+		out[i] = m.K
 	}
 	return out
 }

@@ -3,12 +3,14 @@ package gpe
 import (
 	"fmt"
 	"math"
+
+	"socmap/dispersion"
 )
 
-// SI constants (exact in the 2019 SI).
+// SI constants, the project's CODATA values (dispersion/constants.go).
 const (
-	PlanckH = 6.62607015e-34          // J s
-	HBar    = PlanckH / (2 * math.Pi) // J s
+	PlanckH = dispersion.Planck // J s
+	HBar    = dispersion.Hbar   // J s
 )
 
 // Units converts between the internal units (k_R, 1/k_R, E_R, ħ/E_R) and SI
