@@ -18,6 +18,7 @@ import (
 
 // VariationalRef is the variational prediction printed beside a box ground state.
 type VariationalRef struct {
+	Where    string // "uniform box", or the uniform gas at the Thomas–Fermi peak density of a trap
 	Phase    label.Phase
 	Energy   float64 // E_R per particle
 	K1       float64 // k_R
@@ -73,9 +74,15 @@ func (r *GroundResult) Table() *Table {
 	t.Row("detuning", N(o.Energies.Detuning, 6), "")
 	t.Row("interaction", N(o.Energies.Interaction, 6), "")
 	if r.Variational != nil {
-		t.Section("Variational (uniform) prediction")
-		t.Row("phase", r.Variational.Phase.String(), "")
-		t.Row("energy per particle", N(r.Variational.Energy, 8), "E_R")
+		t.Section("Variational prediction (" + r.Variational.Where + ")")
+		agree := "agrees with the GPE"
+		if r.Variational.Phase != o.Phase {
+			agree = "DISAGREES with the GPE (" + o.Phase.String() + ")"
+		}
+		t.RowNote("phase", r.Variational.Phase.String(), "", agree)
+		if m.Potential.Kind != gpe.Harmonic {
+			t.Row("energy per particle", N(r.Variational.Energy, 8), "E_R")
+		}
 		t.Row("k₁, contrast", N(r.Variational.K1, 5)+", "+N(r.Variational.Contrast, 4), "")
 	}
 	t.Section(fmt.Sprintf("Starts (%d converged, energy spread %s E_R)", r.Multi.Converged, N(r.Multi.Spread, 3)))

@@ -54,12 +54,13 @@ func perAxis(flag, s string, dims int) ([]string, error) {
 
 // groundSetup is everything a ground-state solve needs, built from flags.
 type groundSetup struct {
-	problem gpe.Problem
-	units   *gpe.Units // nil for a direct model (no SI)
-	trapped bool
-	uniform phases.Uniform // box: the uniform problem
-	varRes  *phases.Result // box: the variational optimum
-	notes   []string
+	problem  gpe.Problem
+	units    *gpe.Units // nil for a direct model (no SI)
+	trapped  bool
+	uniform  phases.Uniform // box: the uniform problem
+	varRes   *phases.Result // the variational optimum (box; trap: at the TF peak density)
+	varWhere string         // what varRes describes
+	notes    []string
 }
 
 func newGroundCmd() *cobra.Command {
@@ -101,7 +102,7 @@ reduced 1D/2D couplings for tight transverse confinement).`,
 			for i := 2; i <= starts; i++ {
 				guesses = append(guesses, gpe.Guess{Name: fmt.Sprintf("random seed=%d", i), Kind: gpe.GuessRandom, Seed: uint64(i)})
 			}
-			if su.varRes != nil && su.varRes.Status == phases.Converged {
+			if su.varRes != nil && su.varRes.Status == phases.Converged && !su.trapped {
 				guesses = append(guesses, gpe.Guess{Name: "variational optimum", Kind: gpe.GuessGiven, State: phases.TwoWaveState(su.problem.Grid, su.varRes.State)})
 			}
 			set := &gpe.Settings{Tol: tol.v}
@@ -111,7 +112,7 @@ reduced 1D/2D couplings for tight transverse confinement).`,
 			}
 			res := &output.GroundResult{Problem: su.problem, Multi: mr, Units: su.units, Notes: su.notes}
 			if su.varRes != nil {
-				res.Variational = &output.VariationalRef{Phase: su.varRes.Phase, Energy: su.varRes.Energy, K1: su.varRes.K1, Contrast: su.varRes.Contrast}
+				res.Variational = &output.VariationalRef{Where: su.varWhere, Phase: su.varRes.Phase, Energy: su.varRes.Energy, K1: su.varRes.K1, Contrast: su.varRes.Contrast}
 			}
 			doc := groundJSON(res)
 			for _, o := range outs {
@@ -280,6 +281,15 @@ func setupGround(mf *modelFlags, inf *interFlags, tf *trapFlags, gf *gridFlags) 
 			return nil, usagef("%v", err)
 		}
 		su.problem = gpe.Problem{Grid: grid, Model: m}
+		// The variational theory at the Thomas–Fermi peak density:
+		// n₀ = μ_TF/g_eff, n₀g_ij in E_R (in the grid's dimension).
+		geffM := (m.Guu + m.Gdd + 2*m.Gud) / 4
+		if n0 := gpe.ThomasFermiMuG(dims, m, geffM) / geffM; n0 > 0 {
+			u := phases.Uniform{Omega: u0.Omega, Delta: u0.Delta, Guu: m.Guu * n0, Gdd: m.Gdd * n0, Gud: m.Gud * n0}
+			if vr, err := phases.Variational(u, nil); err == nil {
+				su.varRes, su.varWhere = &vr, "uniform gas at the Thomas–Fermi peak density"
+			}
+		}
 		if dims < 3 {
 			su.notes = append(su.notes, fmt.Sprintf("reduced %dD couplings for tight transverse confinement (DESIGN.md §1)", dims))
 		}
@@ -296,7 +306,7 @@ func setupGround(mf *modelFlags, inf *interFlags, tf *trapFlags, gf *gridFlags) 
 		if err != nil {
 			return nil, usagef("%v", err)
 		}
-		su.varRes = &vr
+		su.varRes, su.varWhere = &vr, "uniform box"
 		k1 := math.Abs(vr.K1)
 		if k1 < 0.05 {
 			k1 = 1
@@ -384,8 +394,8 @@ func groundJSON(r *output.GroundResult) map[string]any {
 		doc["mu_thomas_fermi_over_ER"] = n(o.MuTF) // band bottom + μ_TF(g_eff), from gpe.Observe
 	}
 	if r.Variational != nil {
-		doc["variational"] = map[string]any{"phase": r.Variational.Phase.String(), "energy_per_particle_over_ER": r.Variational.Energy,
-			"k1_over_kR": r.Variational.K1, "contrast": r.Variational.Contrast}
+		doc["variational"] = map[string]any{"where": r.Variational.Where, "phase": r.Variational.Phase.String(), "energy_per_particle_over_ER": r.Variational.Energy,
+			"k1_over_kR": r.Variational.K1, "contrast": r.Variational.Contrast, "agrees_with_gpe": r.Variational.Phase == o.Phase}
 	}
 	if r.Units != nil {
 		doc["k_R_per_m"] = r.Units.KR
