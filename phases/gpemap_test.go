@@ -2,6 +2,7 @@ package phases
 
 import (
 	"context"
+	"fmt"
 	"math"
 	"testing"
 
@@ -52,3 +53,30 @@ func (m *gpeSink) WritePoint(ix, iy int, r PointResult) error {
 }
 func (m *gpeSink) Done(ix, iy int) bool   { _, ok := m.pts[ix]; return ok }
 func (m *gpeSink) get(ix int) PointResult { return m.pts[ix] }
+
+// BenchmarkGPEMap measures a small 1D GPE map (16 points across the three
+// phases) with one and two workers; the ratio of the two is the sweep
+// speed-up on two cores.
+func BenchmarkGPEMap(b *testing.B) {
+	omegas := make([]float64, 16)
+	for i := range omegas {
+		omegas[i] = 0.25 + 4.5*float64(i)/15
+	}
+	sw := Sweep{X: Axis{Name: "omega", Unit: "E_R", Values: omegas}, Observables: GPEObservables}
+	f := GPEPoints(func(ix, iy int) (Uniform, error) { return Symmetric(omegas[ix], 1, 0.1), nil }, GPESettings{})
+	// FFTW plans are made once per shape and cached (gpe/fft): warm up so
+	// that the timing is of the solves.
+	if _, err := Run(context.Background(), sw, f, &gpeSink{}, &RunSettings{Workers: 1}); err != nil {
+		b.Fatal(err)
+	}
+	for _, w := range []int{1, 2} {
+		b.Run(fmt.Sprintf("workers=%d", w), func(b *testing.B) {
+			for i := 0; i < b.N; i++ {
+				if _, err := Run(context.Background(), sw, f, &gpeSink{}, &RunSettings{Workers: w}); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.ReportMetric(float64(len(omegas))*float64(b.N)/b.Elapsed().Seconds(), "points/s")
+		})
+	}
+}

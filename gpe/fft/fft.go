@@ -28,7 +28,7 @@ type Transform interface {
 	Len() int                  // total number of points
 	Shape() []int
 	Backend() Backend
-	Close() // releases plans; the Transform must not be used afterwards
+	Close() // ends the caller's use; FFTW plans stay cached per shape for reuse
 }
 
 // Backend selects an FFT implementation.
