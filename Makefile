@@ -24,6 +24,7 @@ refs: deps
 	$(PY) testdata/ref_variational.py
 	$(PY) testdata/ref_gpe_linear.py --check
 	$(PY) testdata/ref_gpe_stripe.py --check
+	$(PY) testdata/ref_calibrate.py
 
 # Outside readers of our HDF5 files: h5py and h5dump on a fixture of every
 # type the layer writes, and on the result files of a demo run.

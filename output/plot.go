@@ -145,6 +145,10 @@ func renderPanels(w io.Writer, width, height vg.Length, panels []*plot.Plot, fra
 	dc := draw.New(img)
 	y := height
 	for i, p := range panels {
+		// Keep right-hand legends clear of the image edge.
+		if !p.Legend.Left && p.Legend.XOffs == 0 {
+			p.Legend.XOffs = -vg.Points(12)
+		}
 		h := vg.Length(frac[i]) * height
 		p.Draw(draw.Canvas{Canvas: dc.Canvas, Rectangle: vg.Rectangle{Min: vg.Point{X: 0, Y: y - h}, Max: vg.Point{X: width, Y: y}}})
 		y -= h

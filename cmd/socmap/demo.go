@@ -16,6 +16,12 @@ import (
 //go:embed plans/demo.toml
 var demoPlan string
 
+// calibrateExample is synthetic Doppler-slope data of our own for the demo's
+// calibrate step (same content as testdata/calibrate_example.csv).
+//
+//go:embed plans/calibrate_example.csv
+var calibrateExample string
+
 // demoStep is one command of the demo and the file its printed output goes to.
 type demoStep struct {
 	args   []string
@@ -44,12 +50,21 @@ every result, plot and a short report listing each file to --dir.`,
 				return err
 			}
 			p := func(name string) string { return filepath.Join(dir, name) }
+			if err := output.WriteFileAtomic(p("calibrate-example.csv"), true, func(w io.Writer) error {
+				_, err := io.WriteString(w, calibrateExample)
+				return err
+			}); err != nil {
+				return err
+			}
 			steps := []demoStep{
 				{[]string{"scheme", "shake", "--out", p("shake.h5")}, "shake.txt", "effective parameters of the shaking scheme"},
 				{[]string{"scheme", "raman", "--out", p("raman.h5")}, "raman.txt", "the Raman scheme used for comparison"},
 				{[]string{"bands", "--out", p("bands.png"), "--out", p("bands.csv"), "--out", p("bands.h5")}, "bands.txt", "single-particle bands of the shaking scheme's effective model"},
 				{[]string{"compare"}, "compare.txt", "shaking vs Raman: stripe windows, periods, limits, verdict"},
 				{[]string{"map", "--x", "rabi=0:40 Hz:81", "--y", "phase=0:80 deg:41", "--out", p("map-rabi-phase.h5"), "--out", p("map-rabi-phase.png")}, "map-rabi-phase.txt", "variational phase map over RF Rabi frequency and pulse phase"},
+				{[]string{"ground", "--dims", "1", "--atoms", "2e4", "--trap", "20,200,200", "--out", p("ground-trap.h5"), "--out", p("ground-trap.png")}, "ground-trap.txt", "GPE ground state of 2e4 atoms in an elongated trap"},
+				{[]string{"verify", "--out", p("verify.h5"), "--out", p("verify.png")}, "verify.txt", "shaken dynamics without the cycle average: measured k_t, Doppler slope, Rabi frequency"},
+				{[]string{"calibrate", "--data", p("calibrate-example.csv"), "--out", p("calibrate.png")}, "calibrate.txt", "recoil and phase lag fitted from (synthetic) Doppler slopes"},
 			}
 			var report strings.Builder
 			fmt.Fprintf(&report, "socmap %s demo — built-in example plan (invented setting, see plan.toml)\n\n", version)
@@ -79,6 +94,10 @@ every result, plot and a short report listing each file to --dir.`,
 				{"bands.csv, bands.h5, bands.txt", "the band curves and minima"},
 				{"compare.txt", "shaking vs Raman at 1e14 cm^-3: stripe window, period, contrast, limits, verdict"},
 				{"map-rabi-phase.png, .h5, .txt", "mean-field phase over Rabi frequency × pulse phase (variational)"},
+				{"ground-trap.png, .h5, .txt", "trapped GPE ground state: densities along x, momentum distribution, variational check"},
+				{"verify.png, .h5, .txt", "spin-flip spectra per velocity and resonance centre vs velocity against the model"},
+				{"calibrate-example.csv", "synthetic Doppler-slope data of our own (gradient 85 % of nominal, 12° lag, 4 Hz/(mm/s) noise)"},
+				{"calibrate.png, .txt", "fit of k_t(θ) = k_max cos(θ − θ_lag) to those data"},
 			}
 			for _, f := range files {
 				fmt.Fprintf(&report, "  %-32s %s\n", f.name, f.what)
