@@ -236,3 +236,20 @@ func TestRamanGeometry(t *testing.T) {
 		t.Error("negative wavelength accepted")
 	}
 }
+
+// Pulse-to-pulse dephasing (criterion found with socmap verify, see
+// DephasingLimit): the demo's 30 µs pulses at 20 Hz trip it, 10 µs pulses do not.
+func TestDephasingWarning(t *testing.T) {
+	sp, _ := LookupSpecies("Rb87")
+	p := Shake{Species: sp, Up: Sublevel{1, 0}, Down: Sublevel{1, -1}, Bias: 60 * Gauss, Gradient: 1, ShakeHz: 3e3,
+		Pulse: PulseRect, PulseWidth: 30e-6, RabiHz: 20}
+	r, _ := p.Evaluate()
+	if !strings.Contains(strings.Join(r.Warnings, "\n"), "dephases") {
+		t.Errorf("30 µs pulses: no dephasing warning in %q", r.Warnings)
+	}
+	p.PulseWidth = 10e-6
+	r, _ = p.Evaluate()
+	if strings.Contains(strings.Join(r.Warnings, "\n"), "dephases") {
+		t.Errorf("10 µs pulses warned: %q", r.Warnings)
+	}
+}
