@@ -4,7 +4,7 @@ PY      := /usr/bin/python3
 BIN     := bin/socmap
 export CGO_ENABLED := 1
 
-.PHONY: all deps build test refs vet h5check demo bench clean
+.PHONY: all deps build test test-cluster refs vet h5check demo bench clean
 
 all: build
 
@@ -43,6 +43,11 @@ test: deps vet refs
 	CGO_ENABLED=0 $(GO) test -count=1 -tags purego ./gpe/...
 	$(MAKE) --no-print-directory h5check
 	@echo "make test: all checks passed"
+
+# One-node Slurm on localhost (installs slurm-wlm and munge if missing, as
+# root): a 4-task job array + dependent merge must equal a single-process run.
+test-cluster: build
+	scripts/test-cluster.sh
 
 demo: build
 	./$(BIN) demo

@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 
-	"socmap/output/h5"
 	"socmap/phases"
 	"socmap/phases/label"
 )
@@ -15,6 +14,14 @@ type MapSpec struct {
 	Sweep  phases.Sweep
 	Method string         // "variational" or "gpe"
 	Attrs  map[string]any // extra attributes of /map
+	// Key identifies the settings that determine the map's values (the
+	// command's effective settings as TOML lines, without run-only settings
+	// such as workers or the shard). Resume and merge refuse files whose
+	// Key differs. Stored as the /map attribute "settings".
+	Key string
+	// Shard, Shards: the file holds only the points p = iy·nx + ix with
+	// p % Shards == Shard (phases.RunSettings); Shards = 0: not sharded.
+	Shard, Shards int
 }
 
 // MapData is a map held in memory: phase codes, done mask and observables,
@@ -67,61 +74,26 @@ func (d *MapData) Observable(name string) []float64 {
 	return nil
 }
 
-func (d *MapData) shape() []int {
-	if d.Spec.Sweep.Y.Len() == 0 {
-		return []int{d.NX}
-	}
-	return []int{d.NY, d.NX}
-}
-
-// WriteMap writes a complete map to a new HDF5 file (temporary name until
-// complete). Layout: /map/x (and /map/y) axis values with attributes name
-// and units; /map/phase (int8 codes, attribute codes spelling them out);
-// /map/done (int8 mask, 1 = computed); one float64 dataset per observable
-// under /map/; shape [ny, nx] (x fastest) or [nx] for a one-axis map.
+// WriteMap writes a map held in memory to a new HDF5 file (temporary name
+// until complete), in the layout of a resumable map file (see mapsink.go):
+// /map/x (and /map/y) axis values with attributes name and units;
+// /map/phase (int8 codes, attribute codes spelling them out); /map/done
+// (int8 mask, 1 = computed); one float64 dataset per observable under
+// /map/; shape [ny, nx] (x fastest) or [nx] for a one-axis map.
 func WriteMap(path string, force bool, info RunInfo, d *MapData) error {
-	return CreateH5(path, force, info, func(w *Writer) { w.WriteMapData(d) })
+	return WriteMapFile(path, force, info, d)
 }
 
-// WriteMapData writes the map datasets into an open file.
+// WriteMapData writes the map datasets into an open file (same layout).
 func (w *Writer) WriteMapData(d *MapData) {
-	sw := d.Spec.Sweep
-	shape := d.shape()
 	if w.Err != nil {
 		return
 	}
-	if w.Err = w.F.CreateGroup("/map"); w.Err != nil {
+	if w.Err = checkSpec(d.Spec); w.Err != nil {
 		return
 	}
-	w.Attr("/map", "method", d.Spec.Method)
-	for k, v := range d.Spec.Attrs {
-		w.Attr("/map", k, v)
-	}
-	axes := []phases.Axis{sw.X}
-	if sw.Y.Len() > 0 {
-		axes = append(axes, sw.Y)
-	}
-	for i, a := range axes {
-		p := "/map/" + []string{"x", "y"}[i]
-		w.Array(p, a.Values, nil, a.Unit, "map axis "+[]string{"x", "y"}[i]+": "+a.Name)
-		w.Attr(p, "name", a.Name)
-	}
-	codes := make([]int8, len(d.Phase))
-	done := make([]int8, len(d.Mask))
-	for i := range codes {
-		codes[i] = int8(d.Phase[i])
-		if d.Mask[i] {
-			done[i] = 1
-		}
-	}
-	if w.Err == nil {
-		w.Err = w.F.WriteInt8s("/map/phase", codes, shape, h5.Meta{Units: "dimensionless", Description: "phase code per point, rows y, columns x",
-			Attrs: []h5.Attr{{Name: "codes", Value: label.Legend()}}})
-	}
-	if w.Err == nil {
-		w.Err = w.F.WriteInt8s("/map/done", done, shape, h5.Meta{Units: "dimensionless", Description: "1 where the point was computed (resume mask)"})
-	}
-	for k, o := range sw.Observables {
-		w.Array("/map/"+o.Name, d.Values[k], shape, o.Unit, o.Description)
+	var ds *mapDatasets
+	if ds, w.Err = layoutMap(w.F, d.Spec); w.Err == nil {
+		w.Err = ds.fill(d)
 	}
 }

@@ -71,6 +71,8 @@ type MapPlot struct {
 	Data       *MapData
 	Title      string
 	Boundaries []Boundary
+	Marks      []int  // point indices (iy·nx + ix) to mark with a cross
+	MarksName  string // legend text of the marks
 }
 
 type phaseGrid struct {
@@ -176,10 +178,26 @@ func (mp MapPlot) WritePNG(w io.Writer) error {
 		p.Add(l)
 		p.Legend.Add(b.Name, l)
 	}
+	if len(mp.Marks) > 0 {
+		xy := make(plotter.XYs, len(mp.Marks))
+		for k, i := range mp.Marks {
+			xy[k] = plotter.XY{X: xv[i%d.NX], Y: yv[i/d.NX]}
+		}
+		sc, err := plotter.NewScatter(xy)
+		if err != nil {
+			return err
+		}
+		sc.GlyphStyle = draw.GlyphStyle{Shape: draw.CrossGlyph{}, Radius: vg.Points(4), Color: color.Black}
+		p.Add(sc)
+		p.Legend.Add(mp.MarksName, sc)
+	}
 	for _, ph := range label.All[1:] {
+		// A black-edged swatch, readable on any background colour.
+		edge, _ := plotter.NewScatter(plotter.XYs{})
+		edge.GlyphStyle = draw.GlyphStyle{Shape: draw.BoxGlyph{}, Radius: vg.Points(6), Color: color.Black}
 		s, _ := plotter.NewScatter(plotter.XYs{})
 		s.GlyphStyle = draw.GlyphStyle{Shape: draw.BoxGlyph{}, Radius: vg.Points(5), Color: phaseColors[ph]}
-		p.Legend.Add(ph.String(), s)
+		p.Legend.Add(ph.String(), edge, s)
 	}
 	p.Legend.Top = true
 	p.Legend.Left = false

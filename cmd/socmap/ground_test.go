@@ -84,3 +84,28 @@ func TestGroundTrappedAndBadInput(t *testing.T) {
 		}
 	}
 }
+
+// socmap map --method gpe: GPE ground states per point agree with the
+// variational phases away from the boundaries (closed forms of the symmetric
+// case: stripe below Ω_c = 1.897, plane wave to 3.6, single minimum above).
+func TestMapMethodGPE(t *testing.T) {
+	code, out, stderr := runArgs(t, "map", "--method", "gpe", "--omega-er", "1", "--G1", "1", "--G2", "0.1", "--x", "omega=0.5:4.5:5", "--json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	var doc struct {
+		Phase []string
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	want := []string{"stripe", "stripe", "plane-wave", "plane-wave", "single-minimum"} // Ω = 0.5, 1.5, 2.5, 3.5, 4.5
+	for i := range want {
+		if doc.Phase[i] != want[i] {
+			t.Errorf("Ω point %d: %s, want %s", i, doc.Phase[i], want[i])
+		}
+	}
+	if code, _, _ := runArgs(t, "map", "--method", "dmft", "--omega-er", "1", "--G1", "1", "--G2", "0.1", "--x", "omega=0:1:3"); code != 2 {
+		t.Errorf("unknown method: exit %d", code)
+	}
+}

@@ -2,17 +2,22 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"math"
 	"os"
+	"os/signal"
 	"path/filepath"
 	"strconv"
 	"strings"
+	"syscall"
 	"time"
 
 	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
 
+	"socmap/gpe"
 	"socmap/output"
 	"socmap/phases"
 	"socmap/phases/label"
@@ -76,12 +81,199 @@ func parseAxis(flag, s string) (phases.Axis, error) {
 	return a, nil
 }
 
+// mapOpts are the settings of `socmap map`.
+type mapOpts struct {
+	mf             modelFlags
+	inf            interFlags
+	xs, ys, method string
+	outs           []string
+	workers        int
+	shard          string
+	flushEvery     int
+	sbatch         bool
+	tasks, cpus    int
+	sbatchOptions  []string
+	// GPE method
+	gpePoints, gpeStarts int
+	gpeLength, gpeTol    *quantity
+}
+
+// addFlags registers the map flags.
+func (o *mapOpts) addFlags(fs *pflag.FlagSet) {
+	o.mf.add(fs)
+	o.inf.add(fs)
+	fs.StringVar(&o.xs, "x", "", "x axis NAME=LO:HI:N")
+	fs.StringVar(&o.ys, "y", "", "y axis NAME=LO:HI:N (optional)")
+	fs.StringVar(&o.method, "method", "variational", "method: variational (two-plane-wave mean-field theory) or gpe (1D GPE ground state per point)")
+	fs.IntVar(&o.gpePoints, "points", 0, "gpe: grid points along x (0: a power of two ≥ 128 with k_max ≥ 4 k_R)")
+	o.gpeLength = qflag(fs, "length-kr", KindNumber, "", "gpe: box length in 1/k_R (default: per point, commensurate with the variational k₁)")
+	fs.IntVar(&o.gpeStarts, "starts", 0, "gpe: random starts per point besides the variational optimum and the competing phase")
+	o.gpeTol = qflag(fs, "tol", KindNumber, "1e-8", "gpe: residual to converge to, in E_R")
+	fs.IntVar(&o.workers, "workers", 0, "parallel workers (0 = all cores, or SLURM_CPUS_PER_TASK inside a Slurm job)")
+	fs.StringSliceVar(&o.outs, "out", nil, "write FILE.h5 (map), FILE.png (phase diagram), FILE.json (repeatable)")
+	fs.StringVar(&o.shard, "shard", "", "compute only shard I/N of the points (p % N == I, p = iy·nx + ix) into FILE.shard-I-of-N.h5; default from SLURM_ARRAY_TASK_ID and SLURM_ARRAY_TASK_COUNT")
+	fs.IntVar(&o.flushEvery, "flush-every", 0, "points committed to the .h5 file together (0 = automatic: 256 for variational points, 1 for expensive ones; a killed run recomputes at most one batch)")
+	fs.BoolVar(&o.sbatch, "sbatch", false, "print a Slurm job script (a job array of --tasks shards and a dependent merge job) instead of computing")
+	fs.IntVar(&o.tasks, "tasks", 4, "--sbatch: number of array tasks (shards)")
+	fs.IntVar(&o.cpus, "cpus-per-task", 1, "--sbatch: CPUs per array task (the map's --workers)")
+	fs.StringArrayVar(&o.sbatchOptions, "sbatch-option", nil, `--sbatch: extra "#SBATCH" option for both jobs, e.g. "--partition=short" (repeatable)`)
+}
+
+// runOnlyFlags are map flags that change how a map is computed, not what it
+// holds: they are left out of the settings key that resume and merge compare.
+var runOnlyFlags = map[string]bool{
+	"workers": true, "shard": true, "flush-every": true, "sbatch": true, "tasks": true,
+	"cpus-per-task": true, "sbatch-option": true,
+}
+
+// mapKey returns the settings that determine a map's values: the effective
+// settings of the command (effectivePlan) without the run-only flags.
+func mapKey(cmd *cobra.Command) string {
+	var keep []string
+	for _, line := range strings.Split(effectivePlan(cmd), "\n") {
+		if name, _, ok := strings.Cut(line, " = "); ok && runOnlyFlags[name] {
+			continue
+		}
+		keep = append(keep, line)
+	}
+	return strings.Join(keep, "\n")
+}
+
+// mapSetup is a validated map: the lab settings, the sweep and the problem
+// of each point.
+type mapSetup struct {
+	method  string
+	lab     phases.Lab
+	sw      phases.Sweep
+	problem func(ix, iy int) (phases.Uniform, error)
+}
+
+// setup checks the settings and builds the sweep.
+func (o *mapOpts) setup() (*mapSetup, error) {
+	if o.method != "variational" && o.method != "gpe" {
+		return nil, usagef("--method %q: allowed: variational, gpe", o.method)
+	}
+	if o.method == "gpe" {
+		if o.gpePoints != 0 && (o.gpePoints < 16 || o.gpePoints > 8192) {
+			return nil, usagef("--points %d: allowed 16 … 8192", o.gpePoints)
+		}
+		if o.gpeStarts < 0 || o.gpeStarts > 20 {
+			return nil, usagef("--starts %d: allowed 0 … 20", o.gpeStarts)
+		}
+		if o.gpeLength.text != "" && !(o.gpeLength.v > 0) {
+			return nil, usagef("--length-kr %q: must be positive", o.gpeLength.text)
+		}
+		if !(o.gpeTol.v > 0) {
+			return nil, usagef("--tol %q: must be positive", o.gpeTol.text)
+		}
+	}
+	lab, err := o.mf.lab()
+	if err != nil {
+		return nil, err
+	}
+	if err := o.inf.apply(&lab, &o.mf.shake.atomFlags); err != nil {
+		return nil, err
+	}
+	if o.xs == "" {
+		return nil, usagef("--x is required (NAME=LO:HI:N)")
+	}
+	sw := phases.Sweep{Observables: phases.VariationalObservables}
+	if o.method == "gpe" {
+		sw.Observables = phases.GPEObservables
+	}
+	if sw.X, err = parseAxis("x", o.xs); err != nil {
+		return nil, err
+	}
+	if o.ys != "" {
+		if sw.Y, err = parseAxis("y", o.ys); err != nil {
+			return nil, err
+		}
+		if sw.Y.Name == sw.X.Name {
+			return nil, usagef("--y %q: same axis as --x", o.ys)
+		}
+	}
+	problem := func(ix, iy int) (phases.Uniform, error) {
+		l, err := lab.Set(sw.X.Name, sw.X.Values[ix])
+		if err == nil && sw.Y.Len() > 0 {
+			l, err = l.Set(sw.Y.Name, sw.Y.Values[iy])
+		}
+		if err != nil {
+			return phases.Uniform{}, err
+		}
+		u, _, err := l.Resolve()
+		return u, err
+	}
+	// Validate the chain at the corners before the run.
+	nx, ny := sw.Shape()
+	for _, p := range [][2]int{{0, 0}, {nx - 1, ny - 1}} {
+		if _, err := problem(p[0], p[1]); err != nil {
+			return nil, usagef("map settings: %v", err)
+		}
+	}
+	return &mapSetup{method: o.method, lab: lab, sw: sw, problem: problem}, nil
+}
+
+// spec returns the map file description of the setup.
+func (m *mapSetup) spec(key string, shard, shards int) output.MapSpec {
+	return output.MapSpec{Sweep: m.sw, Method: m.method, Key: key, Shard: shard, Shards: shards,
+		Attrs: map[string]any{
+			"threshold_single_minimum_k": label.DefaultThresholds.SingleMinimumK,
+			"threshold_stripe_minority":  label.DefaultThresholds.StripeMinority,
+			"scheme":                     m.lab.Scheme,
+		}}
+}
+
+// mapPlot is the PNG phase diagram of a map.
+func mapPlot(d *output.MapData, lab phases.Lab) output.MapPlot {
+	title := fmt.Sprintf("Mean-field phase diagram (variational), %s", mapSubtitle(lab))
+	if d.Spec.Method == "gpe" {
+		title = fmt.Sprintf("Phase diagram from 1D GPE ground states, %s", mapSubtitle(lab))
+	}
+	mp := output.MapPlot{Data: d, Title: title, Boundaries: symmetricBoundaries(lab, d.Spec.Sweep)}
+	if d.Observable("phase_variational") != nil {
+		mp.Marks = disagreements(d)
+		mp.MarksName = "GPE ≠ variational"
+	}
+	return mp
+}
+
+// shardSetting returns the shard of this run: from --shard I/N, else from
+// Slurm's job-array variables (task I = SLURM_ARRAY_TASK_ID −
+// SLURM_ARRAY_TASK_MIN of N = SLURM_ARRAY_TASK_COUNT), else none (ok false).
+func shardSetting(flag string) (i, n int, ok bool, err error) {
+	if flag != "" {
+		a, b, found := strings.Cut(flag, "/")
+		i, err1 := strconv.Atoi(strings.TrimSpace(a))
+		n, err2 := strconv.Atoi(strings.TrimSpace(b))
+		if !found || err1 != nil || err2 != nil || n < 1 || i < 0 || i >= n {
+			return 0, 0, false, usagef("--shard %q: want I/N with 0 ≤ I < N, e.g. 0/4", flag)
+		}
+		return i, n, true, nil
+	}
+	id, hasID := os.LookupEnv("SLURM_ARRAY_TASK_ID")
+	count, hasCount := os.LookupEnv("SLURM_ARRAY_TASK_COUNT")
+	if !hasID || !hasCount {
+		return 0, 0, false, nil
+	}
+	min := 0
+	if m, has := os.LookupEnv("SLURM_ARRAY_TASK_MIN"); has {
+		v, err := strconv.Atoi(m)
+		if err != nil {
+			return 0, 0, false, usagef("SLURM_ARRAY_TASK_MIN=%q: not an integer", m)
+		}
+		min = v
+	}
+	v, err1 := strconv.Atoi(id)
+	n, err2 := strconv.Atoi(count)
+	i = v - min
+	if err1 != nil || err2 != nil || n < 1 || i < 0 || i >= n {
+		return 0, 0, false, usagef("SLURM_ARRAY_TASK_ID=%q, SLURM_ARRAY_TASK_COUNT=%q (SLURM_ARRAY_TASK_MIN %d): want 0 ≤ ID−MIN < COUNT (an array --array=0-%s, step 1)", id, count, min, "N−1")
+	}
+	return i, n, true, nil
+}
+
 func newMapCmd() *cobra.Command {
-	var mf modelFlags
-	var inf interFlags
-	var xs, ys, method string
-	var outs []string
-	var workers int
+	o := &mapOpts{}
 	c := &cobra.Command{
 		Use:   "map",
 		Short: "phase diagram over one or two parameters (variational mean-field theory)",
@@ -90,101 +282,258 @@ plane-wave, stripe), energy, stripe k1, contrast, ⟨σz⟩ and the energy gap t
 the competing phase. Axes: omega, delta (E_R), G1, G2 (E_R), density, ratio
 (g↑↓/g), and the schemes' lab settings gradient, shake, phase, bias, rabi
 (shake) or rabi, wavelength, angle (raman), which go through the whole
-scheme → effective-model chain at every point.`,
+scheme → effective-model chain at every point.
+
+With --out MAP.h5 the map is written point by point into MAP.h5.partial,
+which becomes MAP.h5 when every point is done. If the run is interrupted
+(Ctrl-C, SIGTERM, or killed), running the same command again resumes from
+MAP.h5.partial: finished points are kept, the others computed. A partial
+file made with other settings is refused (exit 2; --force starts over).
+
+--shard I/N computes the points p = iy·nx + ix with p % N == I into
+MAP.shard-I-of-N.h5 (inside a Slurm job array, I and N come from
+SLURM_ARRAY_TASK_ID and SLURM_ARRAY_TASK_COUNT); socmap merge combines the
+shard files. --sbatch prints a job script that submits such an array and
+the merge as a dependent job.`,
 		Example: `  socmap map --omega-er 1 --G1 1 --x omega=0:5:101 --y G2=-0.2:0.6:81 --out map.png --out map.h5
-  socmap map --plan socmap-demo/plan.toml --density "1e14 cm^-3" --x "phase=0:180 deg:61" --y "gradient=20:150 G/cm:41" --out pg.png`,
+  socmap map --plan socmap-demo/plan.toml --density "1e14 cm^-3" --x "phase=0:180 deg:61" --y "gradient=20:150 G/cm:41" --out pg.png
+  socmap map --omega-er 1 --G1 1 --x omega=0:5:101 --y G2=-0.2:0.6:81 --out map.h5 --shard 2/4
+  socmap map --omega-er 1 --G1 1 --x omega=0:5:101 --y G2=-0.2:0.6:81 --out map.h5 --out map.png --sbatch --tasks 8 > job.sh`,
 		Args: cobra.NoArgs,
-		RunE: func(cmd *cobra.Command, args []string) error {
-			if method != "variational" {
-				return usagef("--method %q: allowed: variational", method)
-			}
-			lab, err := mf.lab()
-			if err != nil {
-				return err
-			}
-			if err := inf.apply(&lab, &mf.shake.atomFlags); err != nil {
-				return err
-			}
-			if xs == "" {
-				return usagef("--x is required (NAME=LO:HI:N)")
-			}
-			sw := phases.Sweep{Observables: phases.VariationalObservables}
-			if sw.X, err = parseAxis("x", xs); err != nil {
-				return err
-			}
-			if ys != "" {
-				if sw.Y, err = parseAxis("y", ys); err != nil {
-					return err
-				}
-				if sw.Y.Name == sw.X.Name {
-					return usagef("--y %q: same axis as --x", ys)
-				}
-			}
-			if err := checkOuts(outs, ".h5", ".png", ".json"); err != nil {
-				return err
-			}
-			if workers < 0 {
-				return usagef("--workers %d: must be ≥ 0 (0 = all cores)", workers)
-			}
-			// Validate the chain at the corners before the run.
-			problem := func(ix, iy int) (phases.Uniform, error) {
-				l, err := lab.Set(sw.X.Name, sw.X.Values[ix])
-				if err == nil && sw.Y.Len() > 0 {
-					l, err = l.Set(sw.Y.Name, sw.Y.Values[iy])
-				}
-				if err != nil {
-					return phases.Uniform{}, err
-				}
-				u, _, err := l.Resolve()
-				return u, err
-			}
-			nx, ny := sw.Shape()
-			for _, p := range [][2]int{{0, 0}, {nx - 1, ny - 1}} {
-				if _, err := problem(p[0], p[1]); err != nil {
-					return usagef("map settings: %v", err)
-				}
-			}
-			data := output.NewMapData(output.MapSpec{Sweep: sw, Method: "variational", Attrs: map[string]any{
-				"threshold_single_minimum_k": label.DefaultThresholds.SingleMinimumK,
-				"threshold_stripe_minority":  label.DefaultThresholds.StripeMinority,
-				"scheme":                     lab.Scheme,
-			}})
-			rs := &phases.RunSettings{Workers: workers, Progress: progressBar(cmd, "map")}
-			res, err := phases.Run(context.Background(), sw, phases.VariationalPoints(problem, nil), data, rs)
-			if err != nil {
-				return fmt.Errorf("map: %w", err)
-			}
-			title := fmt.Sprintf("Mean-field phase diagram (variational), %s", mapSubtitle(lab))
-			mp := output.MapPlot{Data: data, Title: title, Boundaries: symmetricBoundaries(lab, sw)}
-			for _, o := range outs {
-				var err error
-				switch strings.ToLower(filepath.Ext(o)) {
-				case ".png":
-					err = output.WriteFileAtomic(o, g.force, mp.WritePNG)
-				case ".h5":
-					err = output.WriteMap(o, g.force, runInfo(cmd, "map"), data)
-				case ".json":
-					err = output.WriteFileAtomic(o, g.force, func(w io.Writer) error { return writeJSON(w, mapJSON(data)) })
-				}
-				if err != nil {
-					return err
-				}
-			}
-			if g.json {
-				return writeJSON(cmd.OutOrStdout(), mapJSON(data))
-			}
-			return mapTable(data, res, lab).Write(cmd.OutOrStdout())
-		},
+		RunE: func(cmd *cobra.Command, args []string) error { return o.run(cmd) },
 	}
-	fs := c.Flags()
-	mf.add(fs)
-	inf.add(fs)
-	fs.StringVar(&xs, "x", "", "x axis NAME=LO:HI:N")
-	fs.StringVar(&ys, "y", "", "y axis NAME=LO:HI:N (optional)")
-	fs.StringVar(&method, "method", "variational", "method: variational")
-	fs.IntVar(&workers, "workers", 0, "parallel workers (0 = all cores)")
-	fs.StringSliceVar(&outs, "out", nil, "write FILE.h5 (map), FILE.png (phase diagram), FILE.json (repeatable)")
+	o.addFlags(c.Flags())
 	return c
+}
+
+func (o *mapOpts) run(cmd *cobra.Command) error {
+	m, err := o.setup()
+	if err != nil {
+		return err
+	}
+	if err := checkOutTypes(o.outs, ".h5", ".png", ".json"); err != nil {
+		return err
+	}
+	if o.workers < 0 {
+		return usagef("--workers %d: must be ≥ 0 (0 = all cores)", o.workers)
+	}
+	if o.flushEvery < 0 {
+		return usagef("--flush-every %d: must be ≥ 0 (0 = automatic)", o.flushEvery)
+	}
+	var h5out string
+	var others []string
+	for _, out := range o.outs {
+		if strings.EqualFold(filepath.Ext(out), ".h5") {
+			if h5out != "" {
+				return usagef("--out %q: only one .h5 map file per run (already %q)", out, h5out)
+			}
+			h5out = out
+		} else {
+			others = append(others, out)
+		}
+	}
+	if o.sbatch {
+		return o.printSbatch(cmd, m, h5out, others)
+	}
+	shard, shards, sharded, err := shardSetting(o.shard)
+	if err != nil {
+		return err
+	}
+	key := mapKey(cmd)
+	if sharded {
+		if h5out == "" || len(others) > 0 {
+			return usagef("--shard %d/%d: give exactly one --out FILE.h5 (the shard goes to FILE.shard-%d-of-%d.h5; make the PNG with socmap merge)", shard, shards, shard, shards)
+		}
+		h5out = output.ShardName(h5out, shard, shards)
+		spec := m.spec(key, shard, shards)
+		if done, err := shardAlreadyDone(h5out, spec); done || err != nil {
+			if err == nil {
+				fmt.Fprintf(cmd.OutOrStdout(), "shard %d/%d: %s is complete already (same settings); nothing to do\n", shard, shards, h5out)
+			}
+			return err
+		}
+	} else {
+		shard, shards = 0, 0
+	}
+	outs := others
+	if h5out != "" {
+		outs = append(outs, h5out)
+	}
+	if err := checkOuts(outs, ".h5", ".png", ".json"); err != nil {
+		return err
+	}
+	spec := m.spec(key, shard, shards)
+	workers := o.workers
+	if v, err := strconv.Atoi(os.Getenv("SLURM_CPUS_PER_TASK")); workers == 0 && err == nil && v > 0 {
+		workers = v // inside a Slurm job: the CPUs it was given
+	}
+	rs := &phases.RunSettings{Workers: workers, Shard: shard, Shards: max(shards, 1), Progress: progressBar(cmd, "map")}
+	pf := phases.VariationalPoints(m.problem, nil)
+	if m.method == "gpe" {
+		pf = phases.GPEPoints(m.problem, phases.GPESettings{Points: o.gpePoints, Length: o.gpeLength.v,
+			RandomStarts: o.gpeStarts, Solver: gpe.Settings{Tol: o.gpeTol.v}})
+	}
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	defer stop()
+
+	var data *output.MapData
+	var res phases.RunResult
+	if h5out == "" {
+		data = output.NewMapData(spec)
+		if res, err = phases.Run(ctx, m.sw, pf, data, rs); err != nil {
+			if res.Status == phases.RunCanceled {
+				return fmt.Errorf("map interrupted after %d of %d points (nothing written: use --out FILE.h5 to make a map resumable)", res.Computed, res.Total)
+			}
+			return fmt.Errorf("map: %w", err)
+		}
+	} else {
+		sink, err := o.openSink(cmd, h5out, spec)
+		if err != nil {
+			return err
+		}
+		res, err = phases.Run(ctx, m.sw, pf, sink, rs)
+		stop()
+		if err != nil {
+			cerr := sink.Close()
+			done, total := sink.Progress()
+			where := fmt.Sprintf("%d of %d points are in %s", done, total, sink.Path())
+			if cerr != nil {
+				where = fmt.Sprintf("closing %s: %v", sink.Path(), cerr)
+			}
+			if res.Status == phases.RunCanceled {
+				return fmt.Errorf("map interrupted: %s; run the same command again to resume", where)
+			}
+			return fmt.Errorf("map: %w (%s)", err, where)
+		}
+		if err := sink.Finish(); err != nil {
+			return fmt.Errorf("map: %w", err)
+		}
+		if sharded {
+			return shardReport(cmd, h5out, shard, shards, res)
+		}
+		if data, _, err = output.ReadMap(h5out); err != nil {
+			return fmt.Errorf("map: reading back %s: %w", h5out, err)
+		}
+	}
+	if err := writeMapOuts(others, data, m.lab); err != nil {
+		return err
+	}
+	if g.json {
+		doc := mapJSON(data)
+		doc["points_computed"], doc["points_resumed"] = res.Computed, res.Skipped
+		return writeJSON(cmd.OutOrStdout(), doc)
+	}
+	return mapTable(data, res, m.lab).Write(cmd.OutOrStdout())
+}
+
+// openSink creates the map file, or resumes its partial file (unless --force).
+func (o *mapOpts) openSink(cmd *cobra.Command, final string, spec output.MapSpec) (*output.MapFile, error) {
+	partial := output.PartialName(final)
+	var sink *output.MapFile
+	var err error
+	if _, serr := os.Stat(partial); serr == nil && !g.force {
+		sink, err = output.ResumeMapFile(final, false, spec)
+		if errors.Is(err, output.ErrMapBusy) {
+			return nil, usagef("--out %s: cannot resume: %v", final, err)
+		}
+		if errors.Is(err, output.ErrMapInput) {
+			return nil, usagef("--out %s: cannot resume: %v (delete %s or use --force to start over)", final, err, partial)
+		}
+		if err != nil {
+			return nil, err
+		}
+		if !g.quiet {
+			done, total := sink.Progress()
+			fmt.Fprintf(cmd.ErrOrStderr(), "map: resuming %s: %d of %d points done\n", partial, done, total)
+		}
+	} else {
+		sink, err = output.CreateMapFile(final, g.force, runInfo(cmd, "map"), spec)
+		if err != nil {
+			return nil, err
+		}
+	}
+	n := o.flushEvery
+	if n == 0 {
+		n = defaultFlushEvery(spec.Method)
+	}
+	sink.SetFlushEvery(n)
+	return sink, nil
+}
+
+// defaultFlushEvery is the number of points committed to a map file
+// together by default: variational points take some 15 µs, so they are
+// committed in batches of 256 (a killed run recomputes at most 256 points,
+// a few ms of work); expensive points (GPE solves) one by one.
+func defaultFlushEvery(method string) int {
+	if method == "variational" {
+		return 256
+	}
+	return 1
+}
+
+// shardAlreadyDone reports whether the shard file exists, is complete and
+// holds this shard of the same map (a resubmitted array task then has
+// nothing to do). A complete file of other settings is left to checkOuts.
+func shardAlreadyDone(path string, spec output.MapSpec) (bool, error) {
+	if g.force {
+		return false, nil
+	}
+	if _, err := os.Stat(path); err != nil {
+		return false, nil
+	}
+	d, _, err := output.ReadMap(path)
+	if err != nil || output.CompareMapSpecs(d.Spec, spec, path, "this run") != nil || d.Spec.Shard != spec.Shard || d.Spec.Shards != spec.Shards {
+		return false, nil
+	}
+	for p, ok := range d.Mask {
+		if ok != (p%spec.Shards == spec.Shard) {
+			return false, nil
+		}
+	}
+	return true, nil
+}
+
+func shardReport(cmd *cobra.Command, path string, shard, shards int, res phases.RunResult) error {
+	if g.json {
+		return writeJSON(cmd.OutOrStdout(), map[string]any{"file": path, "shard": shard, "shards": shards,
+			"points": res.Total, "points_computed": res.Computed, "points_resumed": res.Skipped, "elapsed_s": res.Elapsed.Seconds()})
+	}
+	fmt.Fprintf(cmd.OutOrStdout(), "shard %d/%d: %d points (%d computed now, %d from an earlier run) in %s, written to %s\n",
+		shard, shards, res.Total, res.Computed, res.Skipped, res.Elapsed.Round(time.Millisecond), path)
+	return nil
+}
+
+// writeMapOuts writes the PNG and JSON files of a map.
+func writeMapOuts(outs []string, d *output.MapData, lab phases.Lab) error {
+	for _, o := range outs {
+		var err error
+		switch strings.ToLower(filepath.Ext(o)) {
+		case ".png":
+			mp := mapPlot(d, lab)
+			err = output.WriteFileAtomic(o, g.force, mp.WritePNG)
+		case ".json":
+			err = output.WriteFileAtomic(o, g.force, func(w io.Writer) error { return writeJSON(w, mapJSON(d)) })
+		}
+		if err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// checkOutTypes checks the extensions of --out paths (not their existence).
+func checkOutTypes(outs []string, exts ...string) error {
+	for _, o := range outs {
+		ext := strings.ToLower(filepath.Ext(o))
+		ok := false
+		for _, e := range exts {
+			ok = ok || ext == e
+		}
+		if !ok {
+			return usagef("--out %q: allowed file types: %s", o, strings.Join(exts, ", "))
+		}
+	}
+	return nil
 }
 
 func mapSubtitle(l phases.Lab) string {
@@ -271,6 +620,22 @@ func mapJSON(d *output.MapData) map[string]any {
 	return doc
 }
 
+// disagreements lists the converged GPE points whose phase differs from the
+// variational phase at the same point.
+func disagreements(d *output.MapData) []int {
+	pv := d.Observable("phase_variational")
+	var out []int
+	for i, p := range d.Phase {
+		if !d.Mask[i] || p == label.NotConverged || math.IsNaN(pv[i]) {
+			continue
+		}
+		if label.Phase(int8(pv[i])) != p {
+			out = append(out, i)
+		}
+	}
+	return out
+}
+
 func mapTable(d *output.MapData, res phases.RunResult, l phases.Lab) *output.Table {
 	t := &output.Table{Title: fmt.Sprintf("Phase map (%s), %s: %d × %d points in %s", d.Spec.Method, mapSubtitle(l), d.NX, d.NY, res.Elapsed.Round(time.Millisecond))}
 	counts := map[label.Phase]int{}
@@ -292,6 +657,29 @@ func mapTable(d *output.MapData, res phases.RunResult, l phases.Lab) *output.Tab
 			}
 		}
 		t.Text("(" + xl + ")")
+	}
+	if res.Skipped > 0 {
+		t.Text(fmt.Sprintf("resumed: %d points from an earlier run, %d computed now", res.Skipped, res.Computed))
+	}
+	if pv := d.Observable("phase_variational"); pv != nil {
+		dis := disagreements(d)
+		t.Section(fmt.Sprintf("GPE against the variational theory: %d of %d points disagree", len(dis), d.NX*d.NY))
+		xl, xsc := output.AxisDisplay(d.Spec.Sweep.X.Name, d.Spec.Sweep.X.Unit)
+		yl, ysc := "", 1.0
+		if d.Spec.Sweep.Y.Len() > 0 {
+			yl, ysc = output.AxisDisplay(d.Spec.Sweep.Y.Name, d.Spec.Sweep.Y.Unit)
+		}
+		for k, i := range dis {
+			if k == 12 {
+				t.Text(fmt.Sprintf("… and %d more (all in the HDF5 file: phase vs phase_variational)", len(dis)-12))
+				break
+			}
+			at := fmt.Sprintf("%s = %s", xl, output.Num(d.Spec.Sweep.X.Values[i%d.NX]*xsc, 4))
+			if yl != "" {
+				at += fmt.Sprintf(", %s = %s", yl, output.Num(d.Spec.Sweep.Y.Values[i/d.NX]*ysc, 4))
+			}
+			t.Row(at, fmt.Sprintf("GPE %s, variational %s", d.Phase[i], label.Phase(int8(pv[i]))), "")
+		}
 	}
 	t.Text(fmt.Sprintf("classifier thresholds: single-minimum below |k| = %g k_R, stripe from minority weight %g",
 		label.DefaultThresholds.SingleMinimumK, label.DefaultThresholds.StripeMinority))
