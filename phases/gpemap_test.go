@@ -54,13 +54,13 @@ func (m *gpeSink) WritePoint(ix, iy int, r PointResult) error {
 func (m *gpeSink) Done(ix, iy int) bool   { _, ok := m.pts[ix]; return ok }
 func (m *gpeSink) get(ix int) PointResult { return m.pts[ix] }
 
-// BenchmarkGPEMap measures a small 1D GPE map (16 points across the three
+// BenchmarkGPEMap measures a small 1D GPE map (64 points across the three
 // phases) with one and two workers; the ratio of the two is the sweep
 // speed-up on two cores.
 func BenchmarkGPEMap(b *testing.B) {
-	omegas := make([]float64, 16)
+	omegas := make([]float64, 64)
 	for i := range omegas {
-		omegas[i] = 0.25 + 4.5*float64(i)/15
+		omegas[i] = 0.25 + 4.5*float64(i)/63
 	}
 	sw := Sweep{X: Axis{Name: "omega", Unit: "E_R", Values: omegas}, Observables: GPEObservables}
 	f := GPEPoints(func(ix, iy int) (Uniform, error) { return Symmetric(omegas[ix], 1, 0.1), nil }, GPESettings{})
