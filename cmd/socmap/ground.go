@@ -268,14 +268,9 @@ func setupGround(mf *modelFlags, inf *interFlags, tf *trapFlags, gf *gridFlags) 
 				lengths[a] = 2.6 * r
 			}
 		}
-		if points == nil {
-			for a := 0; a < dims; a++ {
-				points = append(points, autoPoints(lengths[a]))
-			}
-		}
-		grid, err := gpe.NewGrid(points, lengths)
+		grid, err := makeGrid(points, lengths, autoPoints)
 		if err != nil {
-			return nil, usagef("%v", err)
+			return nil, err
 		}
 		if m, err = gpe.Trapped(grid, ts, u0.Omega, u0.Delta); err != nil {
 			return nil, usagef("%v", err)
@@ -323,14 +318,9 @@ func setupGround(mf *modelFlags, inf *interFlags, tf *trapFlags, gf *gridFlags) 
 				lengths[0] = gpe.CommensurateLength(k1, lengths[0])
 			}
 		}
-		if points == nil {
-			for a := 0; a < dims; a++ {
-				points = append(points, autoPoints(lengths[a]))
-			}
-		}
-		grid, err := gpe.NewGrid(points, lengths)
+		grid, err := makeGrid(points, lengths, autoPoints)
 		if err != nil {
-			return nil, usagef("%v", err)
+			return nil, err
 		}
 		m = gpe.UniformBox(grid, u.Omega, u.Delta, u.Guu, u.Gdd, u.Gud)
 		su.problem = gpe.Problem{Grid: grid, Model: m}
@@ -342,6 +332,20 @@ func setupGround(mf *modelFlags, inf *interFlags, tf *trapFlags, gf *gridFlags) 
 		return nil, usagef("%v", err)
 	}
 	return su, nil
+}
+
+// makeGrid builds the grid from the given points (nil: auto per axis) and lengths.
+func makeGrid(points []int, lengths []float64, auto func(L float64) int) (*gpe.Grid, error) {
+	if points == nil {
+		for _, L := range lengths {
+			points = append(points, auto(L))
+		}
+	}
+	grid, err := gpe.NewGrid(points, lengths)
+	if err != nil {
+		return nil, usagef("%v", err)
+	}
+	return grid, nil
 }
 
 func errOr(err error, s string) string {

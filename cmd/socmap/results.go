@@ -16,15 +16,10 @@ import (
 // checkOuts validates --out paths before any work: allowed extensions, and
 // (without --force) no existing file.
 func checkOuts(outs []string, exts ...string) error {
+	if err := checkOutTypes(outs, exts...); err != nil {
+		return err
+	}
 	for _, o := range outs {
-		ext := strings.ToLower(filepath.Ext(o))
-		ok := false
-		for _, e := range exts {
-			ok = ok || ext == e
-		}
-		if !ok {
-			return usagef("--out %q: allowed file types: %s", o, strings.Join(exts, ", "))
-		}
 		if !g.force {
 			if _, err := os.Stat(o); err == nil {
 				return usagef("--out %q: file exists (use --force to overwrite)", o)
