@@ -52,14 +52,7 @@ func GPEPoints(problem func(ix, iy int) (Uniform, error), s GPESettings) PointFu
 	if s.Solver.Threads == 0 {
 		s.Solver.Threads = 1
 	}
-	return func(ctx context.Context, ix, iy int) (PointResult, error) {
-		if err := ctx.Err(); err != nil {
-			return PointResult{}, err
-		}
-		u, err := problem(ix, iy)
-		if err != nil {
-			return PointResult{}, err
-		}
+	return uniformPoints(problem, func(ctx context.Context, u Uniform) (PointResult, error) {
 		vr, err := Variational(u, s.Variational)
 		if err != nil {
 			return PointResult{}, err
@@ -114,7 +107,7 @@ func GPEPoints(problem func(ix, iy int) (Uniform, error), s GPESettings) PointFu
 			o.Energies.Total, o.K1, o.Contrast, o.Sz, mr.Best.Residual,
 			vr.Energy, float64(vr.Phase), L, mr.Spread,
 		}}, nil
-	}
+	})
 }
 
 func thresholds(s *Settings) label.Thresholds {

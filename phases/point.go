@@ -35,14 +35,7 @@ func (r Result) Point() PointResult {
 // A point that does not converge is returned with phase label.NotConverged
 // (not an error); a problem that cannot be built is an error.
 func VariationalPoints(problem func(ix, iy int) (Uniform, error), s *Settings) PointFunc {
-	return func(ctx context.Context, ix, iy int) (PointResult, error) {
-		if err := ctx.Err(); err != nil {
-			return PointResult{}, err
-		}
-		u, err := problem(ix, iy)
-		if err != nil {
-			return PointResult{}, err
-		}
+	return uniformPoints(problem, func(_ context.Context, u Uniform) (PointResult, error) {
 		r, err := Variational(u, s)
 		if err != nil {
 			return PointResult{}, fmt.Errorf("%+v: %w", u, err)
@@ -51,5 +44,20 @@ func VariationalPoints(problem func(ix, iy int) (Uniform, error), s *Settings) P
 			r.Phase = label.NotConverged
 		}
 		return r.Point(), nil
+	})
+}
+
+// uniformPoints is the PointFunc shared by the methods: stop when ctx is
+// cancelled, build the uniform problem of the point, solve it.
+func uniformPoints(problem func(ix, iy int) (Uniform, error), solve func(context.Context, Uniform) (PointResult, error)) PointFunc {
+	return func(ctx context.Context, ix, iy int) (PointResult, error) {
+		if err := ctx.Err(); err != nil {
+			return PointResult{}, err
+		}
+		u, err := problem(ix, iy)
+		if err != nil {
+			return PointResult{}, err
+		}
+		return solve(ctx, u)
 	}
 }
