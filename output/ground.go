@@ -278,10 +278,19 @@ func (r *GroundResult) WritePNG(w io.Writer) error {
 		p3.X.Label.Text = xl
 		ys := xs
 		p3.Y.Label.Text = "y" + xl[1:]
-		hm := plotter.NewHeatMap(planeGrid{st: st, xs: xs, ys: ys}, moreland.SmoothBlueRed().Palette(64))
+		pg := planeGrid{st: st, xs: xs, ys: ys}
+		hm := plotter.NewHeatMap(pg, moreland.SmoothBlueRed().Palette(64))
 		p3.Add(hm)
-		panels = append(panels, p3)
-		frac = []float64{0.3, 0.25, 0.45}
+		// Colour scale of the image.
+		cm := moreland.SmoothBlueRed()
+		cm.SetMin(hm.Min)
+		cm.SetMax(math.Max(hm.Max, hm.Min+1e-300))
+		p4 := plot.New()
+		p4.HideY()
+		p4.X.Label.Text = "total density |ψ↑|² + |ψ↓|²  [k_R^d]"
+		p4.Add(&plotter.ColorBar{ColorMap: cm})
+		panels = append(panels, p3, p4)
+		frac = []float64{0.28, 0.22, 0.40, 0.10}
 	}
 	h := 8 * vg.Inch
 	if g.Dim >= 2 {
