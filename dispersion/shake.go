@@ -93,7 +93,8 @@ type ShakeResult struct {
 	KtMax                float64 // largest |k_t| over all pulse phases (delta pulses), 1/m
 	KRF                  float64 // RF photon wavenumber 2π f_RF/c, 1/m
 	Enhancement          float64 // |k_t|/k_RF
-	DopplerHzPerMmS      float64 // k_t v/2π per mm/s of velocity, Hz/(mm/s)
+	DopplerHzPerMmS      float64 // k_t v/2π per mm/s: shift of the transition, i.e. of sgn(f0)(f_RF − |f0|), Hz/(mm/s)
+	RFShiftHzPerMmS      float64 // shift of the RF resonance f_RF itself per mm/s: sgn(f0)·k_t/2π, Hz/(mm/s)
 	PulseArea            float64 // ∫Ω(t)dt per pulse, rad
 	PeakRabiHz           float64 // peak Rabi frequency of one pulse, Hz (= RabiHz for continuous)
 	MicroKinUpHz         float64 // ⟨A↑²⟩/2m /h, Hz
@@ -107,6 +108,10 @@ type ShakeResult struct {
 	NeighbourHz          float64 // detuning of the nearest other RF transition, Hz (NaN if none)
 	Warnings             []string
 }
+
+// zeroRecoil is the fraction of the largest transfer below which a computed
+// transfer counts as zero: the cycle integrals are accurate to ~1e-8 of it.
+const zeroRecoil = 1e-7
 
 // ErrBadInput marks errors caused by the caller's settings.
 var ErrBadInput = errors.New("bad input")
@@ -184,6 +189,16 @@ func (p Shake) Evaluate() (ShakeResult, error) {
 	mean, rms := envelopeMoments(cyc, p.Pulse, p.Phase, omega*p.PulseWidth)
 	r.KtMean = scale * mean
 	r.KtSpread = math.Abs(scale) * rms
+	// A transfer at the rounding level of the cycle integrals (θ = 90° for
+	// the sine, a continuous drive) is no recoil at all: report it as 0, so
+	// that E_R = 0 and every later step refuses it instead of computing with
+	// E_R ~ 1e-28 Hz.
+	if math.Abs(r.KtMean) <= zeroRecoil*r.KtMax {
+		r.KtMean = 0
+	}
+	if math.Abs(r.KtDelta) <= zeroRecoil*r.KtMax {
+		r.KtDelta = 0
+	}
 
 	kR := r.KtMean / 2
 	eR := Hbar * Hbar * kR * kR / (2 * m)
@@ -192,6 +207,7 @@ func (p Shake) Evaluate() (ShakeResult, error) {
 		r.Enhancement = math.Abs(r.KtMean) / r.KRF
 	}
 	r.DopplerHzPerMmS = r.KtMean * 1e-3 / (2 * math.Pi)
+	r.RFShiftHzPerMmS = math.Copysign(1, f0) * r.DopplerHzPerMmS
 
 	// Rabi frequency and pulses.
 	r.PulseArea = 2 * math.Pi * p.RabiHz * period
@@ -294,10 +310,12 @@ func (p Shake) warnings(r *ShakeResult, cyc *Cycle) []string {
 	eR := r.Model.ER
 	if p.Pulse == PulseContinuous {
 		w = append(w, fmt.Sprintf("continuous drive: the mean momentum transfer is zero and its rms spread is %.3g /m; this is not spin–orbit coupling", r.KtSpread))
+	} else if r.KtMean == 0 && r.DeltaForce != 0 {
+		w = append(w, "no recoil at this pulse phase (k_t = 0): no spin–orbit coupling, E_R = 0")
 	}
 	if r.DeltaForce == 0 {
 		w = append(w, "the two sublevels have equal magnetic moments at this bias field: no differential force, no recoil")
-	} else if math.Abs(r.KtMean) < 0.05*r.KtMax && p.Pulse != PulseContinuous {
+	} else if r.KtMean != 0 && math.Abs(r.KtMean) < 0.05*r.KtMax && p.Pulse != PulseContinuous {
 		w = append(w, fmt.Sprintf("recoil nearly zero at this pulse phase: |k_t| is %.1f%% of its largest value", 100*math.Abs(r.KtMean)/r.KtMax))
 	}
 	if eR > 0 && hOmega < ScaleSeparation*eR {

@@ -78,7 +78,7 @@ func TestKtLaws(t *testing.T) {
 	if math.Abs(r90.KtMean) > 1e-6*math.Abs(k0) {
 		t.Errorf("sine k_t(90°) = %g, want 0", r90.KtMean)
 	}
-	if !strings.Contains(strings.Join(r90.Warnings, "\n"), "recoil nearly zero") {
+	if !strings.Contains(strings.Join(r90.Warnings, "\n"), "no recoil") || r90.KtMean != 0 || r90.Model.ER != 0 {
 		t.Error("no warning at 90°")
 	}
 	p.Phase = 0
@@ -251,5 +251,15 @@ func TestDephasingWarning(t *testing.T) {
 	r, _ = p.Evaluate()
 	if strings.Contains(strings.Join(r.Warnings, "\n"), "dephases") {
 		t.Errorf("10 µs pulses warned: %q", r.Warnings)
+	}
+}
+
+// Near 90° but not at it the recoil is small, real, and flagged.
+func TestSmallRecoilWarning(t *testing.T) {
+	p := naShake()
+	p.Phase = 89 * math.Pi / 180
+	r, _ := p.Evaluate()
+	if r.KtMean == 0 || !strings.Contains(strings.Join(r.Warnings, "\n"), "recoil nearly zero") {
+		t.Errorf("89°: k_t %g, warnings %q", r.KtMean, r.Warnings)
 	}
 }

@@ -53,7 +53,7 @@ func (r *GroundResult) Table() *Table {
 	}
 	t.Row("⟨σz⟩, ⟨σx⟩", N(o.Sz, 4)+", "+N(o.Sx, 4), "")
 	t.Row("dominant |k_x| = k₁", N(o.K1, 5), "k_R")
-	if o.StripePeriod > 0 {
+	if o.Phase == label.Stripe && o.StripePeriod > 0 {
 		t.Row("stripe period π/k₁", N(o.StripePeriod, 5), "1/k_R")
 	}
 	t.Row("density contrast", N(o.Contrast, 4), "")
@@ -63,7 +63,7 @@ func (r *GroundResult) Table() *Table {
 		t.Row("E_R/h", N(r.Units.EnergyHz(1), 5), "Hz")
 		t.Row("energy per particle / h", N(r.Units.EnergyHz(o.Energies.Total), 5), "Hz")
 		t.Row("μ / h", N(r.Units.EnergyHz(o.Energies.Mu), 5), "Hz")
-		if o.StripePeriod > 0 {
+		if o.Phase == label.Stripe && o.StripePeriod > 0 {
 			t.Row("stripe period", N(r.Units.LengthSI(o.StripePeriod)*1e6, 4), "µm")
 		}
 	}
@@ -287,7 +287,7 @@ func (r *GroundResult) WritePNG(w io.Writer) error {
 		cm.SetMax(math.Max(hm.Max, hm.Min+1e-300))
 		p4 := plot.New()
 		p4.HideY()
-		p4.X.Label.Text = "total density |ψ↑|² + |ψ↓|²  [k_R^d]"
+		p4.X.Label.Text = fmt.Sprintf("total density |ψ↑|² + |ψ↓|²  [atoms per (1/k_R)^%d]", g.Dim)
 		p4.Add(&plotter.ColorBar{ColorMap: cm})
 		panels = append(panels, p3, p4)
 		frac = []float64{0.28, 0.22, 0.40, 0.10}

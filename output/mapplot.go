@@ -20,6 +20,7 @@ var phaseColors = []color.Color{
 	color.RGBA{245, 190, 90, 255},  // plane-wave
 	color.RGBA{200, 90, 140, 255},  // stripe
 	color.RGBA{90, 90, 90, 255},    // not converged
+	color.RGBA{255, 255, 255, 255}, // no coupling
 }
 
 type phasePalette struct{}

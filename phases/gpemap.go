@@ -52,7 +52,7 @@ func GPEPoints(problem func(ix, iy int) (Uniform, error), s GPESettings) PointFu
 	if s.Solver.Threads == 0 {
 		s.Solver.Threads = 1
 	}
-	return uniformPoints(problem, func(ctx context.Context, u Uniform) (PointResult, error) {
+	return uniformPoints(problem, len(GPEObservables), func(ctx context.Context, u Uniform) (PointResult, error) {
 		vr, err := Variational(u, s.Variational)
 		if err != nil {
 			return PointResult{}, err

@@ -1,6 +1,7 @@
 package phases
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"sort"
@@ -121,10 +122,14 @@ func schemeOf(axis string) string {
 	return "shake"
 }
 
-// Resolve computes the effective model and the uniform problem (E_R) of l.
-// Order: the scheme's model, then Ω/δ overrides, then interactions (SI
-// couplings × density / E_R, or the given n·g), then G1/G2/ratio overrides.
-func (l Lab) Resolve() (Uniform, dispersion.Model, error) {
+// ErrNoRecoil is returned by Resolve when the scheme gives no momentum
+// transfer at this setting (e.g. the pulse phase θ = 90° of a sine shaking):
+// there is no spin–orbit coupling and no E_R to measure energies in.
+var ErrNoRecoil = errors.New("the scheme gives no recoil here (k_t = 0): no spin–orbit coupling")
+
+// Model computes the effective model of l's scheme with the Ω/δ overrides
+// (no interactions). ErrNoRecoil when the scheme gives k_t = 0.
+func (l Lab) Model() (dispersion.Model, error) {
 	var m dispersion.Model
 	switch l.Scheme {
 	case "direct":
@@ -132,23 +137,38 @@ func (l Lab) Resolve() (Uniform, dispersion.Model, error) {
 	case "shake":
 		r, err := l.Shake.Evaluate()
 		if err != nil {
-			return Uniform{}, m, err
+			return m, err
 		}
 		m = r.Model
+		if m.ER == 0 {
+			return m, ErrNoRecoil
+		}
 	case "raman":
 		r, err := l.Raman.Evaluate()
 		if err != nil {
-			return Uniform{}, m, err
+			return m, err
 		}
 		m = r.Model
 	default:
-		return Uniform{}, m, fmt.Errorf("unknown scheme %q (shake, raman, direct)", l.Scheme)
+		return m, fmt.Errorf("unknown scheme %q (shake, raman, direct)", l.Scheme)
 	}
 	if l.OmegaSet {
 		m.OmegaOverER = l.Omega
 	}
 	if l.DeltaSet {
 		m.DeltaOverER = l.Delta
+	}
+	return m, nil
+}
+
+// Resolve computes the effective model and the uniform problem (E_R) of l.
+// Order: the scheme's model, then Ω/δ overrides (Model), then interactions
+// (SI couplings × density / E_R, or the given n·g), then G1/G2/ratio
+// overrides.
+func (l Lab) Resolve() (Uniform, dispersion.Model, error) {
+	m, err := l.Model()
+	if err != nil {
+		return Uniform{}, m, err
 	}
 	u := Uniform{Omega: m.OmegaOverER, Delta: m.DeltaOverER, Guu: l.Guu, Gdd: l.Gdd, Gud: l.Gud}
 	if l.HaveSI {
@@ -176,6 +196,15 @@ func (l Lab) Resolve() (Uniform, dispersion.Model, error) {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
 			return u, m, fmt.Errorf("the setting gives a non-finite effective model %+v", u)
 		}
+	}
+	if u.Omega < 0 {
+		return u, m, fmt.Errorf("Ω/E_R = %g: the coupling must be ≥ 0 (its sign is a gauge choice)", u.Omega)
+	}
+	// A uniform mean-field ground state needs repulsion: n g↑↑ > 0, n g↓↓ > 0
+	// and g↑↓² < g↑↑g↓↓ is not required (phase separation is a ground state
+	// too), but an attractive gas collapses (common practice, no source).
+	if u.Guu <= 0 || u.Gdd <= 0 || u.Guu+u.Gdd+2*u.Gud <= 0 {
+		return u, m, fmt.Errorf("n·g↑↑ = %g, n·g↓↓ = %g, n·g↑↓ = %g E_R: the uniform gas must be repulsive (n g↑↑, n g↓↓ > 0 and G1 > 0); an attractive gas collapses", u.Guu, u.Gdd, u.Gud)
 	}
 	return u, m, nil
 }

@@ -2,7 +2,9 @@ package phases
 
 import (
 	"context"
+	"errors"
 	"fmt"
+	"math"
 
 	"socmap/phases/label"
 )
@@ -35,7 +37,7 @@ func (r Result) Point() PointResult {
 // A point that does not converge is returned with phase label.NotConverged
 // (not an error); a problem that cannot be built is an error.
 func VariationalPoints(problem func(ix, iy int) (Uniform, error), s *Settings) PointFunc {
-	return uniformPoints(problem, func(_ context.Context, u Uniform) (PointResult, error) {
+	return uniformPoints(problem, len(VariationalObservables), func(_ context.Context, u Uniform) (PointResult, error) {
 		r, err := Variational(u, s)
 		if err != nil {
 			return PointResult{}, fmt.Errorf("%+v: %w", u, err)
@@ -48,13 +50,22 @@ func VariationalPoints(problem func(ix, iy int) (Uniform, error), s *Settings) P
 }
 
 // uniformPoints is the PointFunc shared by the methods: stop when ctx is
-// cancelled, build the uniform problem of the point, solve it.
-func uniformPoints(problem func(ix, iy int) (Uniform, error), solve func(context.Context, Uniform) (PointResult, error)) PointFunc {
+// cancelled, build the uniform problem of the point, solve it. A point where
+// the scheme gives no recoil (ErrNoRecoil) is labelled label.NoCoupling with
+// nObs NaN values.
+func uniformPoints(problem func(ix, iy int) (Uniform, error), nObs int, solve func(context.Context, Uniform) (PointResult, error)) PointFunc {
 	return func(ctx context.Context, ix, iy int) (PointResult, error) {
 		if err := ctx.Err(); err != nil {
 			return PointResult{}, err
 		}
 		u, err := problem(ix, iy)
+		if errors.Is(err, ErrNoRecoil) {
+			v := make([]float64, nObs)
+			for i := range v {
+				v[i] = math.NaN()
+			}
+			return PointResult{Phase: label.NoCoupling, Values: v}, nil
+		}
 		if err != nil {
 			return PointResult{}, err
 		}

@@ -95,9 +95,13 @@ planned couplings give a stripe.`,
 			}
 			var density float64
 			var tfNote string
+			if inf.density.text != "" && tf.atoms.text != "" {
+				if !g.fromPlan["density"] {
+					return usagef("give --density or --atoms with --trap, not both")
+				}
+				inf.density.text = "" // the plan's density yields to --atoms/--trap
+			}
 			switch {
-			case inf.density.text != "" && tf.atoms.text != "":
-				return usagef("give --density or --atoms with --trap, not both")
 			case inf.density.text != "":
 				if !(inf.density.v > 0) {
 					return usagef("--density %q: must be positive", inf.density.text)

@@ -154,13 +154,11 @@ func setupGround(mf *modelFlags, inf *interFlags, tf *trapFlags, gf *gridFlags) 
 	}
 	su := &groundSetup{trapped: tf.atoms.text != "" || tf.trap != ""}
 	// The effective model (Ω, δ in E_R) and, with a scheme, the SI units.
-	probe := lab
-	probe.Guu, probe.Gdd, probe.Gud = 0, 0, 0
-	probe.HaveSI = false
-	u0, model, err := probe.Resolve()
+	model, err := lab.Model()
 	if err != nil {
 		return nil, usagef("%v", err)
 	}
+	u0 := phases.Uniform{Omega: model.OmegaOverER, Delta: model.DeltaOverER}
 	if model.ER > 0 {
 		un, err := gpe.NewUnits(math.Abs(model.KR), model.ER)
 		if err != nil {
@@ -316,6 +314,11 @@ func setupGround(mf *modelFlags, inf *interFlags, tf *trapFlags, gf *gridFlags) 
 				}
 			} else if a == 0 && gf.autoBox {
 				lengths[0] = gpe.CommensurateLength(k1, lengths[0])
+			} else if a == 0 && vr.Phase != label.SingleMinimum {
+				dk := 2 * math.Pi / lengths[0]
+				if near := math.Round(k1/dk) * dk; math.Abs(near-k1) > 0.05*k1 {
+					su.notes = append(su.notes, fmt.Sprintf("warning: the box (L = %.4g/k_R, momenta in steps of %.3g k_R) does not admit ±k₁ = ±%.4g k_R of the variational optimum (nearest %.4g): the state is distorted; use --auto-box", lengths[0], dk, k1, near))
+				}
 			}
 		}
 		grid, err := makeGrid(points, lengths, autoPoints)
@@ -404,7 +407,7 @@ func groundJSON(r *output.GroundResult) map[string]any {
 	if r.Units != nil {
 		doc["k_R_per_m"] = r.Units.KR
 		doc["E_R_hz"] = r.Units.ER / dispersion.Planck
-		if o.StripePeriod > 0 {
+		if o.Phase == label.Stripe && o.StripePeriod > 0 {
 			doc["stripe_period_m"] = r.Units.LengthSI(o.StripePeriod)
 		}
 	}

@@ -206,7 +206,7 @@ func (o *mapOpts) setup() (*mapSetup, error) {
 	// Validate the chain at the corners before the run.
 	nx, ny := sw.Shape()
 	for _, p := range [][2]int{{0, 0}, {nx - 1, ny - 1}} {
-		if _, err := problem(p[0], p[1]); err != nil {
+		if _, err := problem(p[0], p[1]); err != nil && !errors.Is(err, phases.ErrNoRecoil) {
 			return nil, usagef("map settings: %v", err)
 		}
 	}
@@ -295,10 +295,10 @@ MAP.shard-I-of-N.h5 (inside a Slurm job array, I and N come from
 SLURM_ARRAY_TASK_ID and SLURM_ARRAY_TASK_COUNT); socmap merge combines the
 shard files. --sbatch prints a job script that submits such an array and
 the merge as a dependent job.`,
-		Example: `  socmap map --omega-er 1 --G1 1 --x omega=0:5:101 --y G2=-0.2:0.6:81 --out map.png --out map.h5
+		Example: `  socmap map --omega-er 1 --G1 1 --G2 0 --x omega=0:5:101 --y G2=-0.2:0.6:81 --out map.png --out map.h5
   socmap map --plan socmap-demo/plan.toml --density "1e14 cm^-3" --x "phase=0:180 deg:61" --y "gradient=20:150 G/cm:41" --out pg.png
-  socmap map --omega-er 1 --G1 1 --x omega=0:5:101 --y G2=-0.2:0.6:81 --out map.h5 --shard 2/4
-  socmap map --omega-er 1 --G1 1 --x omega=0:5:101 --y G2=-0.2:0.6:81 --out map.h5 --out map.png --sbatch --tasks 8 > job.sh`,
+  socmap map --omega-er 1 --G1 1 --G2 0 --x omega=0:5:101 --y G2=-0.2:0.6:81 --out map.h5 --shard 2/4
+  socmap map --omega-er 1 --G1 1 --G2 0 --x omega=0:5:101 --y G2=-0.2:0.6:81 --out map.h5 --out map.png --sbatch --tasks 8 > job.sh`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error { return o.run(cmd) },
 	}
@@ -678,7 +678,7 @@ func mapTable(d *output.MapData, res phases.RunResult, l phases.Lab) *output.Tab
 			if yl != "" {
 				at += fmt.Sprintf(", %s = %s", yl, output.Num(d.Spec.Sweep.Y.Values[i/d.NX]*ysc, 4))
 			}
-			t.Row(at, fmt.Sprintf("GPE %s, variational %s", d.Phase[i], label.Phase(int8(pv[i]))), "")
+			t.Text(fmt.Sprintf("%s: GPE %s, variational %s", at, d.Phase[i], label.Phase(int8(pv[i]))))
 		}
 	}
 	t.Text(fmt.Sprintf("classifier thresholds: single-minimum below |k| = %g k_R, stripe from minority weight %g",

@@ -25,13 +25,13 @@ const (
 
 // units maps each kind's unit spellings to the factor that converts to SI.
 var units = map[Kind]map[string]float64{
-	KindField:     {"T": 1, "mT": 1e-3, "uT": 1e-6, "µT": 1e-6, "G": 1e-4, "mG": 1e-7},
+	KindField:     {"T": 1, "mT": 1e-3, "uT": 1e-6, "µT": 1e-6, "μT": 1e-6, "G": 1e-4, "mG": 1e-7},
 	KindGradient:  {"T/m": 1, "mT/m": 1e-3, "G/cm": 1e-2, "G/m": 1e-4, "mG/cm": 1e-5},
 	KindFrequency: {"Hz": 1, "mHz": 1e-3, "kHz": 1e3, "MHz": 1e6, "GHz": 1e9},
 	KindAngle:     {"rad": 1, "mrad": 1e-3, "deg": math.Pi / 180, "°": math.Pi / 180},
-	KindLength:    {"m": 1, "cm": 1e-2, "mm": 1e-3, "um": 1e-6, "µm": 1e-6, "nm": 1e-9},
-	KindTime:      {"s": 1, "ms": 1e-3, "us": 1e-6, "µs": 1e-6, "ns": 1e-9},
-	KindDensity:   {"m^-3": 1, "cm^-3": 1e6, "um^-3": 1e18, "µm^-3": 1e18},
+	KindLength:    {"m": 1, "cm": 1e-2, "mm": 1e-3, "um": 1e-6, "µm": 1e-6, "μm": 1e-6, "nm": 1e-9},
+	KindTime:      {"s": 1, "ms": 1e-3, "us": 1e-6, "µs": 1e-6, "μs": 1e-6, "ns": 1e-9},
+	KindDensity:   {"m^-3": 1, "cm^-3": 1e6, "um^-3": 1e18, "µm^-3": 1e18, "μm^-3": 1e18},
 }
 
 // SI unit names used in messages and JSON keys.
@@ -41,13 +41,17 @@ var siUnit = map[Kind]string{KindNumber: "", KindField: "T", KindGradient: "T/m"
 func allowedUnits(k Kind) string {
 	var names []string
 	for n := range units[k] {
-		if strings.ContainsAny(n, "µ°") {
+		if strings.ContainsAny(n, "µμ°") {
 			continue
 		}
 		names = append(names, n)
 	}
 	sort.Slice(names, func(i, j int) bool { return units[k][names[i]] < units[k][names[j]] })
-	return strings.Join(names, ", ")
+	out := strings.Join(names, ", ")
+	if k == KindTime || k == KindLength || k == KindField {
+		out += " (µ or μ may replace u)"
+	}
+	return out
 }
 
 // parseQuantity reads "40 G/cm", "3kHz", "1e14 cm^-3" or, for KindNumber, a

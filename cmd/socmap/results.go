@@ -19,7 +19,16 @@ func checkOuts(outs []string, exts ...string) error {
 	if err := checkOutTypes(outs, exts...); err != nil {
 		return err
 	}
+	seen := map[string]bool{}
 	for _, o := range outs {
+		abs, _ := filepath.Abs(o)
+		if seen[abs] {
+			return usagef("--out %q: given twice", o)
+		}
+		seen[abs] = true
+		if err := probeWritable(filepath.Dir(o)); err != nil {
+			return usagef("--out %q: cannot write in %q: %v", o, filepath.Dir(o), err)
+		}
 		if !g.force {
 			if _, err := os.Stat(o); err == nil {
 				return usagef("--out %q: file exists (use --force to overwrite)", o)
@@ -31,6 +40,20 @@ func checkOuts(outs []string, exts ...string) error {
 		}
 	}
 	return nil
+}
+
+// probeWritable checks that a file can be created in dir (and removes it).
+func probeWritable(dir string) error {
+	f, err := os.CreateTemp(dir, ".socmap-probe-*")
+	if err != nil {
+		if pe, ok := err.(*os.PathError); ok {
+			return pe.Err
+		}
+		return err
+	}
+	name := f.Name()
+	f.Close()
+	return os.Remove(name)
 }
 
 // runInfo describes this run for result files.

@@ -87,7 +87,7 @@ func shakeJSON(p dispersion.Shake, r dispersion.ShakeResult, info dispersion.Ban
 		"k_spread_rms_per_m": r.KtSpread, "k_R_per_m": r.Model.KR, "E_R_hz": r.Model.ERHz(),
 		"omega_hz": p.RabiHz, "omega_over_ER": n(r.Model.OmegaOverER), "delta_hz": r.DeltaHz,
 		"delta_over_ER": n(r.Model.DeltaOverER), "rf_detuning_hz": p.DetuningHz,
-		"k_rf_per_m": r.KRF, "enhancement": r.Enhancement, "doppler_hz_per_mm_s": r.DopplerHzPerMmS,
+		"k_rf_per_m": r.KRF, "enhancement": r.Enhancement, "doppler_hz_per_mm_s": r.DopplerHzPerMmS, "rf_resonance_shift_hz_per_mm_s": r.RFShiftHzPerMmS,
 		"pulse_area_rad": r.PulseArea, "peak_rabi_hz": n(r.PeakRabiHz),
 		"micromotion_kinetic_up_hz": r.MicroKinUpHz, "micromotion_kinetic_down_hz": r.MicroKinDownHz,
 		"micromotion_shift_hz": r.MicroShiftHz, "rf_detuning_for_zero_delta_hz": r.ZeroDeltaDetuningHz, "micromotion_amplitude_up_m": r.MicroAmpUp,
@@ -137,7 +137,7 @@ func shakeTable(p dispersion.Shake, r dispersion.ShakeResult, info dispersion.Ba
 	t.Row("k_R = k_t/2", N(r.Model.KR, 4), "1/m")
 	t.Row("E_R/h", N(r.Model.ERHz(), 4), "Hz")
 	t.Row("enhancement k_t/k_RF", N(r.Enhancement, 3), "")
-	t.Row("Doppler shift k_t·v/2π", N(r.DopplerHzPerMmS, 4), "Hz per mm/s")
+	t.RowNote("Doppler shift k_t·v/2π", N(r.DopplerHzPerMmS, 4), "Hz per mm/s", fmt.Sprintf("(the RF resonance f_RF moves by %s Hz per mm/s)", N(r.RFShiftHzPerMmS, 4)))
 	t.Section("Effective model  h = (k − k_R σz)²/2m + (ħΩ/2)σx + (ħδ/2)σz")
 	t.RowNote("Ω/2π", N(p.RabiHz, 4), "Hz", "Ω/E_R = "+N(r.Model.OmegaOverER, 4))
 	t.RowNote("δ/2π (RF detuning + micromotion)", N(r.DeltaHz, 4), "Hz", "δ/E_R = "+N(r.Model.DeltaOverER, 4))
@@ -204,10 +204,12 @@ func newRamanCmd() *cobra.Command {
 	alt.rabi = qflag(c.Flags(), "raman-rabi", KindFrequency, "", "same as --rabi (the spelling used by bands, map, compare)")
 	alt.detuning = qflag(c.Flags(), "raman-detuning", KindFrequency, "", "same as --detuning")
 	c.PreRunE = func(cmd *cobra.Command, args []string) error {
-		if alt.rabi.text != "" {
+		// A value given on the command line wins over any plan value.
+		onCommandLine := func(name string) bool { return cmd.Flags().Changed(name) && !g.fromPlan[name] }
+		if alt.rabi.text != "" && !onCommandLine("rabi") {
 			*f.rabi = *alt.rabi
 		}
-		if alt.detuning.text != "" {
+		if alt.detuning.text != "" && !onCommandLine("detuning") {
 			*f.detuning = *alt.detuning
 		}
 		return nil

@@ -271,7 +271,7 @@ func verifyTable(p dispersion.Shake, r *floquet.Result) *output.Table {
 	}
 	t.Section("Effective model vs measured")
 	t.Columns("", []string{"model", "measured", "deviation"}, "")
-	t.Columns("Doppler slope (Hz per mm/s)", []string{N(r.SlopeModel, 5), N(r.SlopeMeasured, 5) + " ± " + N(r.SlopeErr, 2), pct(r.SlopeMeasured, r.SlopeModel)}, "")
+	t.Columns("Doppler slope of sgn(f0)·(f_RF − |f0|) (Hz per mm/s)", []string{N(r.SlopeModel, 5), N(r.SlopeMeasured, 5) + " ± " + N(r.SlopeErr, 2), pct(r.SlopeMeasured, r.SlopeModel)}, "")
 	t.Columns("k_t (1/m)", []string{N(r.KtModel, 5), N(r.KtMeasured, 5), pct(r.KtMeasured, r.KtModel)}, "")
 	t.Columns("resonance at v = 0 (Hz)", []string{N(r.InterceptModelHz, 5), N(r.InterceptMeasuredHz, 5), fmt.Sprintf("%+.3g Hz", r.InterceptMeasuredHz-r.InterceptModelHz)}, "")
 	t.Columns("momentum transfer per flip (1/m)", []string{N(r.KtModel, 5), N(r.TransferMeasured, 5), pct(r.TransferMeasured, r.KtModel)}, "")

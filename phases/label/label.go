@@ -23,10 +23,11 @@ const (
 	PlaneWave     Phase = 2 // one momentum k ≠ 0, uniform density, finite ⟨σ_z⟩
 	Stripe        Phase = 3 // two momenta ±k₁, density modulated with period π/k₁
 	NotConverged  Phase = 4 // the solver did not converge; never classified
+	NoCoupling    Phase = 5 // the scheme gives no recoil here (k_t = 0): no spin–orbit coupling to classify
 )
 
 // All lists every code in order, for legends.
-var All = []Phase{NotComputed, SingleMinimum, PlaneWave, Stripe, NotConverged}
+var All = []Phase{NotComputed, SingleMinimum, PlaneWave, Stripe, NotConverged, NoCoupling}
 
 // String returns the phase name used in tables and JSON.
 func (p Phase) String() string {
@@ -41,6 +42,8 @@ func (p Phase) String() string {
 		return "stripe"
 	case NotConverged:
 		return "not-converged"
+	case NoCoupling:
+		return "no-coupling"
 	}
 	return fmt.Sprintf("phase(%d)", int8(p))
 }
