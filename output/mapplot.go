@@ -9,6 +9,7 @@ import (
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
+	"gonum.org/v1/plot/vg/vgimg"
 
 	"socmap/phases/label"
 )
@@ -133,6 +134,7 @@ func (mp MapPlot) WritePNG(w io.Writer) error {
 			continue
 		}
 		cx, cy := sx/float64(n), sy/float64(n)
+		// The cell of the phase nearest to its centroid.
 		best, bi := math.Inf(1), 0
 		for i, q := range d.Phase {
 			if q != ph {
@@ -207,7 +209,19 @@ func (mp MapPlot) WritePNG(w io.Writer) error {
 	p.X.Min, p.X.Max = extent(xv)
 	if !oneAxis {
 		p.Y.Min, p.Y.Max = extent(yv)
-		return renderPanels(w, 8*vg.Inch, 7*vg.Inch, []*plot.Plot{p}, []float64{1})
+		// The legend goes beside the map, never over it.
+		leg := p.Legend
+		p.Legend = plot.NewLegend()
+		leg.Top, leg.Left = true, true
+		leg.XOffs, leg.YOffs = vg.Points(6), -vg.Points(40)
+		width, height := 10.5*vg.Inch, 7*vg.Inch
+		img := vgimg.NewWith(vgimg.UseWH(width, height), vgimg.UseDPI(110))
+		dc := draw.New(img)
+		split := 7.6 * vg.Inch
+		p.Draw(draw.Canvas{Canvas: dc.Canvas, Rectangle: vg.Rectangle{Max: vg.Point{X: split, Y: height}}})
+		leg.Draw(draw.Canvas{Canvas: dc.Canvas, Rectangle: vg.Rectangle{Min: vg.Point{X: split}, Max: vg.Point{X: width, Y: height}}})
+		_, err := vgimg.PngCanvas{Canvas: img}.WriteTo(w)
+		return err
 	}
 	// One axis: the phase strip on top, contrast and |k1| below.
 	p.Legend = plot.NewLegend()
@@ -238,7 +252,7 @@ func (mp MapPlot) WritePNG(w io.Writer) error {
 	}
 	q.Add(plotter.NewGrid())
 	q.Legend.Top = true
-	return renderPanels(w, 8*vg.Inch, 6*vg.Inch, []*plot.Plot{p, q}, []float64{0.35, 0.65})
+	return renderAligned(w, 8*vg.Inch, 7*vg.Inch, []*plot.Plot{p, q})
 }
 
 // padGrid repeats a one-row grid so that the heat map has a height.

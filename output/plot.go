@@ -139,6 +139,27 @@ func (bp BandsPlot) WritePNG(w io.Writer) error {
 	return renderPanels(w, 8*vg.Inch, 8*vg.Inch, []*plot.Plot{top, bot}, []float64{0.65, 0.35})
 }
 
+// renderAligned stacks plots in equal rows with their data areas aligned
+// (plot.Align), for panels that share an x axis.
+func renderAligned(w io.Writer, width, height vg.Length, panels []*plot.Plot) error {
+	img := vgimg.NewWith(vgimg.UseWH(width, height), vgimg.UseDPI(110))
+	dc := draw.New(img)
+	rows := make([][]*plot.Plot, len(panels))
+	for i, p := range panels {
+		rows[i] = []*plot.Plot{p}
+		if !p.Legend.Left && p.Legend.XOffs == 0 {
+			p.Legend.XOffs = -vg.Points(12)
+		}
+	}
+	t := draw.Tiles{Rows: len(panels), Cols: 1, PadTop: vg.Points(4), PadBottom: vg.Points(4), PadLeft: vg.Points(4), PadRight: vg.Points(8), PadY: vg.Points(6)}
+	cs := plot.Align(rows, t, dc)
+	for i, p := range panels {
+		p.Draw(cs[i][0])
+	}
+	_, err := vgimg.PngCanvas{Canvas: img}.WriteTo(w)
+	return err
+}
+
 // renderPanels stacks plots vertically with the given height fractions and writes a PNG.
 func renderPanels(w io.Writer, width, height vg.Length, panels []*plot.Plot, frac []float64) error {
 	img := vgimg.NewWith(vgimg.UseWH(width, height), vgimg.UseDPI(110))

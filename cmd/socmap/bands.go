@@ -83,7 +83,7 @@ func modelSubtitle(mc modelChoice) string {
 	if mc.Model.ER == 0 {
 		return "effective model given directly"
 	}
-	return fmt.Sprintf("%s scheme, %s: k_R = %s µm⁻¹, E_R/h = %s Hz", mc.Scheme, mc.Atom.Name,
+	return fmt.Sprintf("%s scheme, %s: k_R = %s 1/µm, E_R/h = %s Hz", mc.Scheme, mc.Atom.Name,
 		output.Num(mc.Model.KR*1e-6, 4), output.Num(mc.Model.ERHz(), 4))
 }
 

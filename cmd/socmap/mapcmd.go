@@ -571,7 +571,7 @@ func symmetricBoundaries(l phases.Lab, sw phases.Sweep) []output.Boundary {
 	lo, hi := other.Values[0], other.Values[len(other.Values)-1]
 	var up, pw output.Boundary
 	up.Name = "stripe edge (closed form)"
-	pw.Name = "plane-wave | single-minimum: Ω = 4(1 − G2)"
+	pw.Name = "Ω = 4(1 − G2) (closed form)"
 	g2t := phases.TricriticalG2(g1)
 	for i := 0; i <= 400; i++ {
 		g2 := lo + (hi-lo)*float64(i)/400
