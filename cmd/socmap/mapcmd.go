@@ -276,7 +276,7 @@ func newMapCmd() *cobra.Command {
 	o := &mapOpts{}
 	c := &cobra.Command{
 		Use:   "map",
-		Short: "phase diagram over one or two parameters (variational mean-field theory)",
+		Short: "phase diagram over one or two parameters (variational theory or GPE ground states)",
 		Long: `Fills a one- or two-axis map with the mean-field phase (single-minimum,
 plane-wave, stripe), energy, stripe k1, contrast, ⟨σz⟩ and the energy gap to
 the competing phase. Axes: omega, delta (E_R), G1, G2 (E_R), density, ratio
