@@ -4,7 +4,7 @@ PY      := /usr/bin/python3
 BIN     := bin/socmap
 export CGO_ENABLED := 1
 
-.PHONY: all deps build test test-cluster refs vet h5check demo bench clean
+.PHONY: all deps build test test-cluster refs vet lint race h5check demo bench clean
 
 all: build
 
@@ -17,13 +17,24 @@ build: deps
 vet: deps
 	$(GO) vet ./...
 
+# Habits: gofmt-clean sources, go vet, staticcheck (pinned as a tool in go.mod).
+lint: vet
+	@bad=$$(gofmt -l $$(git ls-files '*.go' 2>/dev/null || find . -name '*.go')); \
+	if [ -n "$$bad" ]; then echo "gofmt: not formatted: $$bad"; exit 1; fi
+	$(GO) tool staticcheck ./...
+
+# The race detector on the packages that run goroutines (sweep workers,
+# solver threads, FFTW plan cache, the HDF5 lock, verify workers).
+race: deps
+	$(GO) test -race -short -count=1 ./phases/... ./gpe/... ./output/... ./floquet/...
+
 # Reference values from outside libraries (numpy/scipy), regenerated or
 # recomputed and compared on every run.
 refs: deps
 	$(PY) testdata/ref_physics.py
 	$(PY) testdata/ref_variational.py
-	$(PY) testdata/ref_gpe_linear.py --check
-	$(PY) testdata/ref_gpe_stripe.py --check
+	$(PY) testdata/ref_gpe_linear.py
+	$(PY) testdata/ref_gpe_stripe.py
 	$(PY) testdata/ref_calibrate.py
 
 # Outside readers of our HDF5 files: h5py and h5dump on a fixture of every
@@ -40,7 +51,9 @@ h5check: build
 
 test: deps vet refs
 	$(GO) test -count=1 ./...
-	CGO_ENABLED=0 $(GO) test -count=1 -tags purego ./gpe/...
+	CGO_ENABLED=0 $(GO) test -count=1 ./gpe/...
+	$(GO) test -count=1 -tags purego ./gpe/...
+	$(MAKE) --no-print-directory race
 	$(MAKE) --no-print-directory h5check
 	@echo "make test: all checks passed"
 

@@ -14,8 +14,8 @@ Self-check: for Omega = 0 the ground energy is w/2 exactly (the SOC term is a
 gauge shift; harmonic oscillator, common practice, no source).
 
 Usage:
-    /usr/bin/python3 testdata/ref_gpe_linear.py           # write ref_gpe_linear.json
-    /usr/bin/python3 testdata/ref_gpe_linear.py --check   # recompute, compare with the committed file
+    /usr/bin/python3 testdata/ref_gpe_linear.py           # recompute, compare with the committed file
+    /usr/bin/python3 testdata/ref_gpe_linear.py --write   # regenerate ref_gpe_linear.json
 Exits non-zero on failure, printing what it compared.
 """
 import json
@@ -87,7 +87,7 @@ def main():
         ok = False
     else:
         print(f"ok: Omega=0 case {c0['E0']:.12f} equals w/2 = {c0['omega_trap']/2} to 1e-8")
-    if "--check" in sys.argv:
+    if "--write" not in sys.argv:
         with open(OUT) as f:
             ref = json.load(f)
         for a, b in zip(ref["cases"], fresh["cases"]):

@@ -18,8 +18,8 @@ The chemical potential is not variational, its error starts at O(tau):
 mu0 = (8 mu(tau/4) - 6 mu(tau/2) + mu(tau))/3 (eliminating tau and tau^2).
 
 Usage:
-    /usr/bin/python3 testdata/ref_gpe_stripe.py           # write ref_gpe_stripe.json
-    /usr/bin/python3 testdata/ref_gpe_stripe.py --check   # recompute, compare with the committed file
+    /usr/bin/python3 testdata/ref_gpe_stripe.py           # recompute, compare with the committed file
+    /usr/bin/python3 testdata/ref_gpe_stripe.py --write   # regenerate ref_gpe_stripe.json
 """
 import json
 import math
@@ -127,7 +127,7 @@ def main():
     fresh = compute()
     ok = fresh["error_estimate"] < 1e-9
     print(("ok" if ok else "FAIL") + f": extrapolation error estimate {fresh['error_estimate']:.1e} (need < 1e-9)")
-    if "--check" in sys.argv:
+    if "--write" not in sys.argv:
         with open(OUT) as f:
             ref = json.load(f)
         d = abs(ref["E0"] - fresh["E0"])

@@ -13,7 +13,8 @@ testdata/ref_physics.json, which dispersion's Go tests read:
 * bands: eigenvalues and <σ_z> of the 2×2 effective Hamiltonian
   (k − σ_z)² + (Ω/2)σ_x + (δ/2)σ_z (units k_R, E_R) from scipy.linalg.eigh.
 
-Run: /usr/bin/python3 testdata/ref_physics.py  (make test does).
+Run: /usr/bin/python3 testdata/ref_physics.py          (recompute, compare; make test does)
+     /usr/bin/python3 testdata/ref_physics.py --write  (regenerate the JSON)
 """
 import json, os, sys
 import numpy as np
@@ -90,8 +91,38 @@ for Om, de in ((0.0, 0.0), (1.0, 0.0), (2.5, 0.0), (3.9, 0.0), (4.0, 0.0), (6.0,
 out["bands"] = bands
 
 path = os.path.join(os.path.dirname(os.path.abspath(__file__)), "ref_physics.json")
-tmp = path + ".tmp"
-with open(tmp, "w") as f:
-    json.dump(out, f, indent=0)
-os.replace(tmp, path)
-print(f"ref_physics.py: wrote {len(br)} Breit–Rabi levels and {len(bands)} band points to {path}")
+
+
+def close(a, b, where):
+    """Compares fresh and committed values: numbers to 1e-12 relative (libm
+    differences in the last digits are not a change of the reference)."""
+    if isinstance(a, dict):
+        if set(a) != set(b):
+            return [f"{where}: keys differ"]
+        return [m for k in a for m in close(a[k], b[k], f"{where}.{k}")]
+    if isinstance(a, list):
+        if len(a) != len(b):
+            return [f"{where}: length {len(a)} vs {len(b)}"]
+        return [m for i, (x, y) in enumerate(zip(a, b)) for m in close(x, y, f"{where}[{i}]")]
+    if isinstance(a, float) or isinstance(b, float):
+        if abs(a - b) <= 1e-12 * max(1.0, abs(a), abs(b)):
+            return []
+        return [f"{where}: committed {b!r} fresh {a!r}"]
+    return [] if a == b else [f"{where}: committed {b!r} fresh {a!r}"]
+
+
+if "--write" in sys.argv:
+    tmp = path + ".tmp"
+    with open(tmp, "w") as f:
+        json.dump(out, f, indent=0)
+    os.replace(tmp, path)
+    print(f"ref_physics.py: wrote {len(br)} Breit–Rabi levels and {len(bands)} band points to {path}")
+else:
+    with open(path) as f:
+        committed = json.load(f)
+    bad = close(json.loads(json.dumps(out)), committed, "ref_physics")
+    for m in bad[:20]:
+        print("FAIL:", m)
+    if bad:
+        sys.exit(1)
+    print(f"ref_physics.py: {len(br)} Breit–Rabi levels and {len(bands)} band points agree with {os.path.basename(path)}")

@@ -2,7 +2,7 @@
 // transforms on complex128 buffers for the gpe solver, with two backends:
 // FFTW3 through cgo (the default) and a pure-Go backend built on
 // gonum.org/v1/gonum/dsp/fourier (always compiled; the default under the
-// build tag purego, which also leaves FFTW out of the build).
+// build tag purego or in a build without cgo, which also leave FFTW out).
 //
 // Conventions (the usual DFT, common practice, no source):
 //
@@ -35,10 +35,11 @@ type Transform interface {
 type Backend int
 
 const (
-	// Default is FFTW unless the package was built with the tag purego.
+	// Default is FFTW unless the package was built with the tag purego or
+	// without cgo (CGO_ENABLED=0).
 	Default Backend = iota
 	// FFTW is FFTW3 through cgo (Debian libfftw3-dev), planned with
-	// FFTW_MEASURE. Not available under the build tag purego.
+	// FFTW_MEASURE. Not available under the build tag purego or without cgo.
 	FFTW
 	// Gonum is the pure-Go backend: one-dimensional transforms of
 	// gonum.org/v1/gonum/dsp/fourier applied along each axis in turn.

@@ -1,4 +1,4 @@
-//go:build !purego
+//go:build cgo && !purego
 
 package fft
 
@@ -138,7 +138,7 @@ func (f *fftwFFT) Close() {}
 
 // LoadWisdom imports FFTW wisdom (earlier planning results) from a file, so
 // that FFTW_MEASURE plans of known shapes are made at once. Optional; under
-// the tag purego it does nothing.
+// the tag purego or without cgo it does nothing.
 func LoadWisdom(path string) error {
 	cs := C.CString(path)
 	defer C.free(unsafe.Pointer(cs))
