@@ -36,9 +36,18 @@ func newDemoCmd() *cobra.Command {
 		Short: "run the built-in example plan end to end into ./socmap-demo/",
 		Long: `Runs socmap on a built-in example plan (an invented 87Rb shaking-scheme
 setting of our own, printed into the output folder as plan.toml) and writes
-every result, plot and a short report listing each file to --dir.`,
+every result, plot and a short report listing each file to --dir. An existing,
+non-empty --dir is refused unless --force is given.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
+			if dir == "" {
+				return usagef("--dir \"\": give a folder for the demo's files")
+			}
+			if entries, err := os.ReadDir(dir); err == nil && len(entries) > 0 && !g.force {
+				return usagef("--dir %q: exists and is not empty (an earlier demo, perhaps with an edited plan.toml); use --force to overwrite it or choose another --dir", dir)
+			} else if err != nil && !os.IsNotExist(err) {
+				return usagef("--dir %q: %v", dir, err)
+			}
 			if err := os.MkdirAll(dir, 0o755); err != nil {
 				return fmt.Errorf("--dir %q: %v", dir, err)
 			}
