@@ -51,7 +51,10 @@ func planSettings(data map[string]any, prefix string, out map[string]string) err
 	return nil
 }
 
+// readPlanText decodes a plan. A leading UTF-8 byte-order mark (as some
+// editors and spreadsheets write it) is dropped.
 func readPlanText(text, name string) (map[string]string, error) {
+	text = strings.TrimPrefix(text, "\ufeff")
 	var data map[string]any
 	if _, err := toml.Decode(text, &data); err != nil {
 		return nil, usagef("--plan %s: not valid TOML: %v", name, strings.ReplaceAll(err.Error(), "\n", " "))
