@@ -131,7 +131,7 @@ func (r *GroundResult) WriteH5(w *Writer) {
 	w.Scalar("/model/norm", m.Norm, "dimensionless", "∫|ψ|² dV: atom number (trap) or box volume (uniform box, mean density 1)")
 	w.Attr("/model", "potential", m.Potential.Kind.String())
 	if m.Potential.Kind == gpe.Harmonic {
-		w.Array("/model/trap_omega", m.Potential.Omega[:g.Dim], nil, "E_R/ħ", "harmonic trap angular frequencies")
+		w.Array("/model/trap_omega", m.Potential.AngularFreq[:g.Dim], nil, "E_R/ħ", "harmonic trap angular frequencies")
 	}
 	if r.Units != nil {
 		w.Scalar("/units/k_R", r.Units.KR, "1/m", "recoil wavenumber: unit of momentum")

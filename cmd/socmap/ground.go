@@ -262,7 +262,7 @@ func setupGround(mf *modelFlags, inf *interFlags, tf *trapFlags, gf *gridFlags) 
 		radii := gpe.ThomasFermiRadii(dims, m0, mu)
 		for a := 0; a < dims; a++ {
 			if lengths[a] == 0 {
-				r := math.Max(radii[a], 4*gpe.OscillatorLength(m0.Potential.Omega[a]))
+				r := math.Max(radii[a], 4*gpe.OscillatorLength(m0.Potential.AngularFreq[a]))
 				lengths[a] = 2.6 * r
 			}
 		}
