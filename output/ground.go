@@ -11,8 +11,8 @@ import (
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
 
-	"socmap/gpe"
 	"socmap/dispersion"
+	"socmap/gpe"
 	"socmap/output/h5"
 	"socmap/phases"
 	"socmap/phases/label"
