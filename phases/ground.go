@@ -283,7 +283,11 @@ func (p GroundProblem) setupTrap(su *GroundSetup, model dispersion.Model, length
 		}
 	}
 	if dims < 3 {
-		su.Notes = append(su.Notes, fmt.Sprintf("reduced %dD couplings for tight transverse confinement (DESIGN.md §1)", dims))
+		form := "g_1D = g/(2π a⊥²)"
+		if dims == 2 {
+			form = "g_2D = g/(√(2π) a_z)"
+		}
+		su.Notes = append(su.Notes, fmt.Sprintf("reduced %dD couplings for tight transverse confinement (%s)", dims, form))
 	}
 	return nil
 }
