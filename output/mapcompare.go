@@ -3,6 +3,7 @@ package output
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"socmap/phases"
 )
@@ -20,6 +21,13 @@ func CompareMapSpecs(a, b MapSpec, nameA, nameB string) error {
 	}
 	if a.Method != b.Method {
 		return differ("method", quoteText(a.Method), quoteText(b.Method))
+	}
+	if ta, tb := typedKey(a.Key), typedKey(b.Key); ta != tb {
+		older := nameA
+		if tb {
+			older = nameB
+		}
+		return inputErrorf("%s and %s differ: %s holds its settings as typed on the command line (a socmap from before map identities); compute it again, or resume or merge it with that socmap", nameA, nameB, older)
 	}
 	if k, va, vb, ok := phases.ParseIdentity(a.Key).Diff(phases.ParseIdentity(b.Key)); ok {
 		return differ("setting "+k, quoteValue(va), quoteValue(vb))
@@ -56,6 +64,14 @@ func CompareMapSpecs(a, b MapSpec, nameA, nameB string) error {
 		}
 	}
 	return nil
+}
+
+// typedKey reports whether a settings key is in the form of socmap
+// versions before map identities: the effective plan's text, headed
+// "# socmap VERSION map: effective settings".
+func typedKey(key string) bool {
+	first, _, _ := strings.Cut(key, "\n")
+	return strings.HasPrefix(first, "# socmap ") && strings.HasSuffix(first, ": effective settings")
 }
 
 func quoteText(s string) string { return fmt.Sprintf("%q", s) }

@@ -80,10 +80,11 @@ same as --out FILE.png.`,
 				fmt.Fprintf(cmd.ErrOrStderr(), "socmap merge: warning: %d of %d points are in no input (%s); written with done = 0\n", n, res.Points, first)
 			}
 			info := output.RunInfo{Version: version, CommandLine: strings.Join(os.Args, " "), Plan: res.Info.Plan, Kind: "map"}
-			if err := output.WriteMapFile(h5out, g.force, info, d); err != nil {
+			r := &output.MapResult{Data: d, Problem: problemFromPlan(res.Info.Plan)}
+			if err := r.WriteH5(h5out, g.force, info); err != nil {
 				return err
 			}
-			if err := writeMapOuts(others, &output.MapResult{Data: d, Problem: problemFromPlan(res.Info.Plan)}); err != nil {
+			if err := writeMapOuts(others, r); err != nil {
 				return err
 			}
 			if g.json {
