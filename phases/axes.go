@@ -112,11 +112,14 @@ var Axes = []AxisDef{
 		Overrides: []string{"angle"}, set: ramanSetting(AxisCrossingAngle, func(p *dispersion.Raman, v float64) { p.Angle = v })},
 }
 
-func shakeSetting(axis string, f func(p *dispersion.Shake, v float64)) func(l *Lab, v float64) error {
+// schemeSetting returns a setter of one setting of the scheme type S (Shake
+// or Raman); a lab with another scheme is refused, naming the axis.
+func schemeSetting[S dispersion.Scheme](axis string, f func(p *S, v float64)) func(l *Lab, v float64) error {
 	return func(l *Lab, v float64) error {
-		s, ok := l.Scheme.(dispersion.Shake)
+		s, ok := l.Scheme.(S)
 		if !ok {
-			return fmt.Errorf("axis %q needs the shake scheme (this map uses %q)", axis, l.SchemeName())
+			var want S
+			return fmt.Errorf("axis %q needs the %s scheme (this map uses %q)", axis, want.Name(), l.SchemeName())
 		}
 		f(&s, v)
 		l.Scheme = s
@@ -124,16 +127,12 @@ func shakeSetting(axis string, f func(p *dispersion.Shake, v float64)) func(l *L
 	}
 }
 
+func shakeSetting(axis string, f func(p *dispersion.Shake, v float64)) func(l *Lab, v float64) error {
+	return schemeSetting(axis, f)
+}
+
 func ramanSetting(axis string, f func(p *dispersion.Raman, v float64)) func(l *Lab, v float64) error {
-	return func(l *Lab, v float64) error {
-		s, ok := l.Scheme.(dispersion.Raman)
-		if !ok {
-			return fmt.Errorf("axis %q needs the raman scheme (this map uses %q)", axis, l.SchemeName())
-		}
-		f(&s, v)
-		l.Scheme = s
-		return nil
-	}
+	return schemeSetting(axis, f)
 }
 
 // LookupAxis returns the table entry of the named axis.
