@@ -105,7 +105,7 @@ func NewDrive(p dispersion.Shake) (*Drive, error) {
 	if p.Pulse == dispersion.PulseContinuous {
 		d.RabiPeak = 2 * math.Pi * p.RabiHz
 	}
-	d.Tc = p.Phase / d.Omega
+	d.Tc = p.PulsePhase / d.Omega
 	return d, nil
 }
 

@@ -175,7 +175,7 @@ func Verify(p dispersion.Shake, s Settings) (*Result, error) {
 	}
 	r := &Result{Method: s.Method, Model: d.Result, Windows: s.Windows, TimeS: float64(s.Windows) * d.Period,
 		RabiModelHz: p.RabiHz, KtModel: d.Result.KtMean, SlopeModel: d.Result.DopplerHzPerMmS}
-	r.Warnings = append(r.Warnings, d.Result.Warnings...)
+	r.Warnings = append(r.Warnings, dispersion.WarningTexts(d.Result.Warnings)...)
 	tint := r.TimeS
 	// Velocity spread: Doppler rms = Resolution / t_int.
 	sigV := s.Resolution / tint * 2 * math.Pi / math.Abs(d.Result.KtMean)

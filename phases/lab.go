@@ -87,7 +87,7 @@ func (l Lab) Set(name string, v float64) (Lab, error) {
 		case "shake":
 			l.Shake.ShakeHz = v
 		case "phase":
-			l.Shake.Phase = v
+			l.Shake.PulsePhase = v
 		case "bias":
 			l.Shake.Bias = v
 		}

@@ -147,7 +147,7 @@ planned couplings give a stripe.`,
 				}
 			}
 			// Limits of each scheme.
-			sides[0].limits = append(sides[0].limits, shr.Warnings...)
+			sides[0].limits = append(sides[0].limits, dispersion.WarningTexts(shr.Warnings)...)
 			if sides[0].mid.Status == phases.Converged && sides[0].window.Found {
 				per := sides[0].mid.Period / math.Abs(shr.Model.KR)
 				amp := math.Max(shr.MicroAmpUp, shr.MicroAmpDown)
@@ -172,7 +172,7 @@ planned couplings give a stripe.`,
 				sides[1].limits = append(sides[1].limits, fmt.Sprintf("photon scattering ≈ %s /s at mid-window coupling (two-level estimate, %s %s GHz away): heating ≈ %s E_R/s",
 					output.Num(rm.ScatterRate, 3), rm.NearestLine, output.Num(rm.LineDetuningHz/1e9, 4), output.Num(rm.HeatingER, 3)))
 			}
-			sides[1].limits = append(sides[1].limits, rar.Warnings...)
+			sides[1].limits = append(sides[1].limits, dispersion.WarningTexts(rar.Warnings)...)
 			doc := compareJSON(sides, density, sh, ra)
 			if g.json {
 				return writeJSON(cmd.OutOrStdout(), doc)

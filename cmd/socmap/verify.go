@@ -218,7 +218,7 @@ func verifyJSON(p dispersion.Shake, r *floquet.Result) map[string]any {
 	}
 	return map[string]any{
 		"command": "verify", "atom": p.Species.Name, "pulse": p.Pulse.String(), "pulse_width_s": p.PulseWidth,
-		"shake_hz": p.ShakeHz, "phase_rad": p.Phase, "rabi_hz": p.RabiHz,
+		"shake_hz": p.ShakeHz, "phase_rad": p.PulsePhase, "rabi_hz": p.RabiHz,
 		"method": r.Method.String(), "status": r.Status.String(),
 		"k_t_model_per_m": r.KtModel, "k_t_measured_per_m": n(r.KtMeasured), "k_t_measured_err_per_m": n(r.KtErr),
 		"k_t_deviation":                   n(floquet.Deviation(r.KtMeasured, r.KtModel)),
@@ -251,7 +251,7 @@ func verifyTable(p dispersion.Shake, r *floquet.Result) *output.Table {
 		pulse += " " + N(p.PulseWidth*1e6, 3) + " µs"
 	}
 	t := &output.Table{Title: fmt.Sprintf("Shaken dynamics without the cycle average: %s %v↔%v, %s G/cm at %s kHz, %s pulses at θ = %s°",
-		p.Species.Name, p.Up, p.Down, N(p.Gradient*100, 4), N(p.ShakeHz/1e3, 4), pulse, N(deg(p.Phase), 4))}
+		p.Species.Name, p.Up, p.Down, N(p.Gradient*100, 4), N(p.ShakeHz/1e3, 4), pulse, N(deg(p.PulsePhase), 4))}
 	t.Section("Measurement")
 	t.Row("solver", r.Method.String(), "")
 	t.Row("interrogation", fmt.Sprintf("%d periods = %s ms", r.Windows, N(r.TimeS*1e3, 4)), "")
