@@ -110,7 +110,7 @@ type Spectrum struct {
 	Velocity      float64   // mean velocity of the atoms, m/s
 	DetuningHz    []float64 // RF detuning f_RF − |f0|, Hz (coarse and fine scans, sorted)
 	Flipped       []float64 // flipped fraction after the interrogation
-	Fit           LineFit   // fit of the fine scan
+	Fit           dispersion.LineFit   // fit of the fine scan
 	ModelCentreHz float64   // the effective model's resonance (Drive.ModelResonanceHz)
 }
 
@@ -317,11 +317,11 @@ func Verify(p dispersion.Shake, s Settings) (*Result, error) {
 			ff[k], fp[k] = j.detHz, j.flip
 		}
 		c0 := ff[len(ff)/2]
-		lf, err := FitLine(ff, fp, c0, 0.4/tint)
+		lf, err := dispersion.FitLine(ff, fp, c0, 0.4/tint)
 		if err != nil {
 			r.Status = FitFailed
 			r.Warnings = append(r.Warnings, fmt.Sprintf("line fit at v = %.3g mm/s failed: %v", sp.Velocity*1e3, err))
-			sp.Fit = LineFit{CentreHz: math.NaN(), CentreErrHz: math.NaN()}
+			sp.Fit = dispersion.LineFit{CentreHz: math.NaN(), CentreErrHz: math.NaN()}
 			continue
 		}
 		sp.Fit = lf
@@ -330,7 +330,7 @@ func Verify(p dispersion.Shake, s Settings) (*Result, error) {
 		es = append(es, lf.CentreErrHz)
 	}
 	r.InterceptModelHz = d.ModelResonanceHz(0)
-	if lin, err := FitLinear(vs, cs, nil); err == nil {
+	if lin, err := dispersion.FitLinear(vs, cs, nil); err == nil {
 		r.SlopeMeasured, r.SlopeErr = lin.Slope, lin.SlopeErr
 		r.InterceptMeasuredHz = d.SignF0 * lin.Intercept
 		r.KtMeasured = 2 * math.Pi * lin.Slope * 1e3
@@ -357,7 +357,7 @@ func Verify(p dispersion.Shake, s Settings) (*Result, error) {
 		jt := &job{v: s.Velocities[i0], detHz: c, windows: s.Windows, trace: make([]float64, s.Windows)}
 		runAll([]*job{j, jt})
 		r.RabiTrace = j.trace
-		r.RabiMeasuredHz, _ = FitRabiTrace(j.trace, d.Period, p.RabiHz, dopplerRMS)
+		r.RabiMeasuredHz, _ = dispersion.FitRabiTrace(j.trace, d.Period, p.RabiHz, dopplerRMS)
 		r.TransferMeasured = jt.transfer
 	}
 	// Verify's own findings, in words.

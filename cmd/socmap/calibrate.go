@@ -12,7 +12,6 @@ import (
 	"github.com/spf13/cobra"
 
 	"socmap/dispersion"
-	"socmap/floquet"
 	"socmap/output"
 )
 
@@ -57,20 +56,20 @@ drive (b_eff sin(ωt − θ_lag)). k_t = 2π sgn(f0) × slope.`,
 			if err != nil {
 				return usagef("--data %q: cannot read: %v", data, err)
 			}
-			theta, slopes, err := floquet.ReadCalibrationCSV(fh)
+			theta, slopes, err := dispersion.ReadCalibrationCSV(fh)
 			fh.Close()
 			if err != nil {
-				return usagef("--data %q: %v", data, strings.TrimPrefix(err.Error(), floquet.ErrBadData.Error()+": "))
+				return usagef("--data %q: %v", data, strings.TrimPrefix(err.Error(), dispersion.ErrBadData.Error()+": "))
 			}
 			sgn := signF0(p)
 			kt := make([]float64, len(slopes))
 			for i, s := range slopes {
-				kt[i] = floquet.SlopeToKt(s, sgn)
+				kt[i] = dispersion.SlopeToKt(s, sgn)
 			}
-			cal, err := floquet.Calibrate(p, theta, kt)
+			cal, err := dispersion.Calibrate(p, theta, kt)
 			if err != nil {
-				if errors.Is(err, floquet.ErrBadData) {
-					return usagef("--data %q: %v", data, strings.TrimPrefix(err.Error(), floquet.ErrBadData.Error()+": "))
+				if errors.Is(err, dispersion.ErrBadData) {
+					return usagef("--data %q: %v", data, strings.TrimPrefix(err.Error(), dispersion.ErrBadData.Error()+": "))
 				}
 				return usagef("%v", err)
 			}
@@ -106,7 +105,7 @@ drive (b_eff sin(ωt − θ_lag)). k_t = 2π sgn(f0) × slope.`,
 	return c
 }
 
-func calibrateJSON(p dispersion.Shake, c floquet.Calibration, theta, slopes, kt []float64) map[string]any {
+func calibrateJSON(p dispersion.Shake, c dispersion.Calibration, theta, slopes, kt []float64) map[string]any {
 	ph := make([]float64, len(theta))
 	for i, t := range theta {
 		ph[i] = deg(t)
@@ -123,7 +122,7 @@ func calibrateJSON(p dispersion.Shake, c floquet.Calibration, theta, slopes, kt 
 	}
 }
 
-func calibrateTable(p dispersion.Shake, c floquet.Calibration) *output.Table {
+func calibrateTable(p dispersion.Shake, c dispersion.Calibration) *output.Table {
 	N := output.Num
 	t := &output.Table{Title: fmt.Sprintf("Recoil calibration: %s %v↔%v, B0 = %s G, nominal %s G/cm at %s kHz (sine)",
 		p.Species.Name, p.Up, p.Down, N(p.Bias/dispersion.Gauss, 4), N(p.Gradient*100, 4), N(p.ShakeHz/1e3, 4))}
@@ -145,7 +144,7 @@ func calibrateTable(p dispersion.Shake, c floquet.Calibration) *output.Table {
 	return t
 }
 
-func calibrateH5(w *output.Writer, c floquet.Calibration, theta, kt []float64) {
+func calibrateH5(w *output.Writer, c dispersion.Calibration, theta, kt []float64) {
 	w.Array("/data/phase", theta, nil, "rad", "pulse phase θ")
 	w.Array("/data/k_t", kt, nil, "1/m", "recoil from the measured Doppler slope, 2π sgn(f0) × slope")
 	w.Scalar("/fit/k_max", c.KMax, "1/m", "fitted amplitude of k_t(θ) = k_max cos(θ − θ_lag) (sign of the nominal)")
