@@ -12,7 +12,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"socmap/dispersion"
-	"socmap/floquet"
+	"socmap/gpe"
 	"socmap/output"
 )
 
@@ -60,7 +60,7 @@ type sweepSpec struct {
 	name string
 	vals []float64
 	unit string // SI unit name
-	set  func(p *dispersion.Shake, x float64)
+	axis gpe.VerifyAxis
 }
 
 func parseSweep(s string) (*sweepSpec, error) {
@@ -74,10 +74,10 @@ func parseSweep(s string) (*sweepSpec, error) {
 	switch sp.name {
 	case "pulse-width":
 		kind, sp.unit = KindTime, "s"
-		sp.set = func(p *dispersion.Shake, x float64) { p.PulseWidth = x }
+		sp.axis = gpe.VerifyPulseWidth
 	case "shake":
 		kind, sp.unit = KindFrequency, "Hz"
-		sp.set = func(p *dispersion.Shake, x float64) { p.ShakeHz = x }
+		sp.axis = gpe.VerifyShakeFreq
 	default:
 		return nil, usagef("--x %q: the swept setting must be pulse-width or shake", s)
 	}
@@ -108,13 +108,13 @@ func runVerify(cmd *cobra.Command, f *verifyFlags) error {
 	if err := checkOuts(f.outs, ".h5", ".json", ".png"); err != nil {
 		return err
 	}
-	var s floquet.Settings
+	var s gpe.VerifySettings
 	switch f.method {
 	case "auto":
 	case "delta":
-		s.Method = floquet.DeltaPulses
+		s.Method = gpe.VerifyDeltaPulses
 	case "realtime":
-		s.Method = floquet.RealTimeSplitStep
+		s.Method = gpe.VerifyRealTime
 	default:
 		return usagef("--method %q: allowed: auto, delta, realtime", f.method)
 	}
@@ -157,7 +157,7 @@ func runVerify(cmd *cobra.Command, f *verifyFlags) error {
 		if progress {
 			fmt.Fprintln(os.Stderr, "verify: simulating flip spectra …")
 		}
-		r, err := floquet.Verify(p, s)
+		r, err := gpe.Verify(p, s)
 		if err != nil {
 			return verifyErr(err)
 		}
@@ -172,12 +172,16 @@ func runVerify(cmd *cobra.Command, f *verifyFlags) error {
 		}
 		return verifyTable(p, r).Write(cmd.OutOrStdout())
 	}
-	var pts []floquet.SweepPoint
+	var pts []gpe.VerifySweepPoint
 	for i, x := range sw.vals {
 		if progress {
 			fmt.Fprintf(os.Stderr, "verify: sweep %s point %d of %d …\n", sw.name, i+1, len(sw.vals))
 		}
-		pts = append(pts, floquet.Sweep(p, s, []float64{x}, sw.set)...)
+		one, err := gpe.VerifySweep(p, s, sw.axis, []float64{x}, nil)
+		if err != nil {
+			return usagef("--x %q: %v", f.x, err)
+		}
+		pts = append(pts, one...)
 	}
 	doc := sweepJSON(p, sw, pts)
 	for _, o := range f.outs {
@@ -203,7 +207,7 @@ func isTerminal(f *os.File) bool {
 	return err == nil && st.Mode()&os.ModeCharDevice != 0
 }
 
-func verifyJSON(p dispersion.Shake, r *floquet.Result) map[string]any {
+func verifyJSON(p dispersion.Shake, r *gpe.VerifyResult) map[string]any {
 	n := output.JSONNum
 	var spectra []map[string]any
 	for _, s := range r.Spectra {
@@ -212,18 +216,15 @@ func verifyJSON(p dispersion.Shake, r *floquet.Result) map[string]any {
 			"model_centre_hz": s.ModelCentreHz, "detuning_hz": s.DetuningHz, "flipped": s.Flipped,
 		})
 	}
-	w := r.Warnings
-	if w == nil {
-		w = []string{}
-	}
+	w, _ := warningsJSON(r.Warnings)
 	return map[string]any{
 		"command": "verify", "atom": p.Species.Name, "pulse": p.Pulse.String(), "pulse_width_s": p.PulseWidth,
 		"shake_hz": p.ShakeHz, "phase_rad": p.PulsePhase, "rabi_hz": p.RabiHz,
 		"method": r.Method.String(), "status": r.Status.String(),
 		"k_t_model_per_m": r.KtModel, "k_t_measured_per_m": n(r.KtMeasured), "k_t_measured_err_per_m": n(r.KtErr),
-		"k_t_deviation":                   n(floquet.Deviation(r.KtMeasured, r.KtModel)),
+		"k_t_deviation":                   n(gpe.Deviation(r.KtMeasured, r.KtModel)),
 		"doppler_slope_model_hz_per_mm_s": r.SlopeModel, "doppler_slope_measured_hz_per_mm_s": n(r.SlopeMeasured),
-		"doppler_slope_err_hz_per_mm_s": n(r.SlopeErr), "doppler_slope_deviation": n(floquet.Deviation(r.SlopeMeasured, r.SlopeModel)),
+		"doppler_slope_err_hz_per_mm_s": n(r.SlopeErr), "doppler_slope_deviation": n(gpe.Deviation(r.SlopeMeasured, r.SlopeModel)),
 		"resonance_v0_model_hz": r.InterceptModelHz, "resonance_v0_measured_hz": n(r.InterceptMeasuredHz),
 		"transfer_model_per_m": r.KtModel, "transfer_measured_per_m": n(r.TransferMeasured),
 		"rabi_model_hz": r.RabiModelHz, "rabi_measured_hz": n(r.RabiMeasuredHz),
@@ -237,14 +238,14 @@ func verifyJSON(p dispersion.Shake, r *floquet.Result) map[string]any {
 }
 
 func pct(measured, model float64) string {
-	d := floquet.Deviation(measured, model)
+	d := gpe.Deviation(measured, model)
 	if math.IsNaN(d) || math.IsInf(d, 0) {
 		return "n/a"
 	}
 	return fmt.Sprintf("%+.2f%%", 100*d)
 }
 
-func verifyTable(p dispersion.Shake, r *floquet.Result) *output.Table {
+func verifyTable(p dispersion.Shake, r *gpe.VerifyResult) *output.Table {
 	N := output.Num
 	pulse := p.Pulse.String()
 	if p.Pulse == dispersion.PulseRect || p.Pulse == dispersion.PulseGauss {
@@ -282,14 +283,14 @@ func verifyTable(p dispersion.Shake, r *floquet.Result) *output.Table {
 		t.Text("none")
 	}
 	for _, w := range r.Warnings {
-		t.Text("! " + w)
+		t.Text("! " + w.Text)
 	}
 	t.Section("Caution")
 	t.Text(cautionCoils)
 	return t
 }
 
-func sweepJSON(p dispersion.Shake, sw *sweepSpec, pts []floquet.SweepPoint) map[string]any {
+func sweepJSON(p dispersion.Shake, sw *sweepSpec, pts []gpe.VerifySweepPoint) map[string]any {
 	n := output.JSONNum
 	var rows []map[string]any
 	for _, pt := range pts {
@@ -299,18 +300,18 @@ func sweepJSON(p dispersion.Shake, sw *sweepSpec, pts []floquet.SweepPoint) map[
 		} else {
 			r := pt.Result
 			row["k_t_model_per_m"], row["k_t_measured_per_m"] = r.KtModel, n(r.KtMeasured)
-			row["k_t_deviation"] = n(floquet.Deviation(r.KtMeasured, r.KtModel))
+			row["k_t_deviation"] = n(gpe.Deviation(r.KtMeasured, r.KtModel))
 			row["doppler_slope_model_hz_per_mm_s"], row["doppler_slope_measured_hz_per_mm_s"] = r.SlopeModel, n(r.SlopeMeasured)
 			row["rabi_model_hz"], row["rabi_measured_hz"] = r.RabiModelHz, n(r.RabiMeasuredHz)
 			row["transfer_measured_per_m"] = n(r.TransferMeasured)
-			row["warnings"] = r.Warnings
+			row["warnings"], _ = warningsJSON(r.Warnings)
 		}
 		rows = append(rows, row)
 	}
 	return map[string]any{"command": "verify", "atom": p.Species.Name, "sweep": sw.name, "x_unit": sw.unit, "points": rows}
 }
 
-func sweepTable(p dispersion.Shake, sw *sweepSpec, pts []floquet.SweepPoint) *output.Table {
+func sweepTable(p dispersion.Shake, sw *sweepSpec, pts []gpe.VerifySweepPoint) *output.Table {
 	N := output.Num
 	t := &output.Table{Title: fmt.Sprintf("Deviation of the effective model against %s (%s %v↔%v)", sw.name, p.Species.Name, p.Up, p.Down)}
 	t.Columns(sw.name, []string{"k_t model", "k_t measured", "dev", "Rabi model", "Rabi meas.", "dev", "warnings"}, "")
@@ -334,8 +335,8 @@ func sweepTable(p dispersion.Shake, sw *sweepSpec, pts []floquet.SweepPoint) *ou
 			continue
 		}
 		for _, w := range pt.Result.Warnings {
-			if strings.Contains(w, "ħω is only") || strings.Contains(w, "repeats every") || strings.Contains(w, "pulses are long") {
-				t.Text(fmt.Sprintf("! at %s: %s", N(pt.X, 4)+" "+sw.unit, w))
+			if w.Code == dispersion.WarnShakeVsRecoil || w.Code == gpe.WarnCombOverlap || w.Code == dispersion.WarnLongPulses {
+				t.Text(fmt.Sprintf("! at %s: %s", N(pt.X, 4)+" "+sw.unit, w.Text))
 			}
 		}
 	}
@@ -345,7 +346,7 @@ func sweepTable(p dispersion.Shake, sw *sweepSpec, pts []floquet.SweepPoint) *ou
 	return t
 }
 
-func writeVerifyOut(cmd *cobra.Command, path string, doc map[string]any, p dispersion.Shake, r *floquet.Result, sw *sweepSpec, pts []floquet.SweepPoint) error {
+func writeVerifyOut(cmd *cobra.Command, path string, doc map[string]any, p dispersion.Shake, r *gpe.VerifyResult, sw *sweepSpec, pts []gpe.VerifySweepPoint) error {
 	if strings.ToLower(filepath.Ext(path)) == ".png" {
 		return output.WriteFileAtomic(path, g.force, func(w io.Writer) error {
 			if r != nil {
@@ -363,7 +364,7 @@ func writeVerifyOut(cmd *cobra.Command, path string, doc map[string]any, p dispe
 	})
 }
 
-func verifyPlot(p dispersion.Shake, r *floquet.Result) output.VerifyPlot {
+func verifyPlot(p dispersion.Shake, r *gpe.VerifyResult) output.VerifyPlot {
 	vp := output.VerifyPlot{Title: fmt.Sprintf("socmap verify: %s, %s pulses, %s kHz", p.Species.Name, p.Pulse, output.Num(p.ShakeHz/1e3, 3))}
 	for _, s := range r.Spectra {
 		vp.Velocities = append(vp.Velocities, s.Velocity*1e3)
@@ -383,7 +384,7 @@ func signF0(p dispersion.Shake) float64 {
 	return math.Copysign(1, p.Species.TransitionHz(p.Up, p.Down, p.Bias))
 }
 
-func sweepPlot(sw *sweepSpec, pts []floquet.SweepPoint) output.SweepPlot {
+func sweepPlot(sw *sweepSpec, pts []gpe.VerifySweepPoint) output.SweepPlot {
 	sp := output.SweepPlot{Title: "socmap verify: effective model against the shaken dynamics"}
 	if sw.name == "pulse-width" {
 		sp.XLabel = "pulse width (µs)"
@@ -399,8 +400,8 @@ func sweepPlot(sw *sweepSpec, pts []floquet.SweepPoint) output.SweepPlot {
 		}
 		dk, dr := math.NaN(), math.NaN()
 		if pt.Err == nil {
-			dk = 100 * floquet.Deviation(pt.Result.KtMeasured, pt.Result.KtModel)
-			dr = 100 * floquet.Deviation(pt.Result.RabiMeasuredHz, pt.Result.RabiModelHz)
+			dk = 100 * gpe.Deviation(pt.Result.KtMeasured, pt.Result.KtModel)
+			dr = 100 * gpe.Deviation(pt.Result.RabiMeasuredHz, pt.Result.RabiModelHz)
 		}
 		sp.X = append(sp.X, x)
 		sp.Series[0] = append(sp.Series[0], dk)
@@ -410,7 +411,7 @@ func sweepPlot(sw *sweepSpec, pts []floquet.SweepPoint) output.SweepPlot {
 	return sp
 }
 
-func verifyH5(w *output.Writer, p dispersion.Shake, r *floquet.Result) {
+func verifyH5(w *output.Writer, p dispersion.Shake, r *gpe.VerifyResult) {
 	w.WriteShake(p, r.Model)
 	v := "/verify/"
 	w.Scalar(v+"k_t_model", r.KtModel, "1/m", "effective model k_t (pulse-envelope mean)")
@@ -432,7 +433,7 @@ func verifyH5(w *output.Writer, p dispersion.Shake, r *floquet.Result) {
 	w.Scalar(v+"norm_deviation", r.NormDev, "dimensionless", "largest |norm − 1| over all runs")
 	w.Attr("/verify", "method", r.Method.String())
 	w.Attr("/verify", "status", r.Status.String())
-	w.Attr("/verify", "warnings", strings.Join(r.Warnings, "\n"))
+	w.Attr("/verify", "warnings", strings.Join(dispersion.WarningTexts(r.Warnings), "\n"))
 	var vel, cen, cerr, mcen []float64
 	for i, s := range r.Spectra {
 		vel = append(vel, s.Velocity)
@@ -450,7 +451,7 @@ func verifyH5(w *output.Writer, p dispersion.Shake, r *floquet.Result) {
 	w.Array("/spectra/model_centre", mcen, nil, "Hz", "effective model's resonance (RF detuning)")
 }
 
-func sweepH5(w *output.Writer, sw *sweepSpec, pts []floquet.SweepPoint) {
+func sweepH5(w *output.Writer, sw *sweepSpec, pts []gpe.VerifySweepPoint) {
 	var xs, km, kmeas, rm, rmeas []float64
 	for _, pt := range pts {
 		xs = append(xs, pt.X)

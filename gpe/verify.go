@@ -1,4 +1,4 @@
-package floquet
+package gpe
 
 import (
 	"errors"
@@ -11,25 +11,50 @@ import (
 	"socmap/dispersion"
 )
 
-// Method selects the solver of Verify.
-type Method int
+// VerifyMethod selects the solver of Verify.
+type VerifyMethod int
 
 const (
-	// Auto: DeltaPulses for delta pulses, RealTimeSplitStep otherwise.
-	Auto Method = iota
-	// DeltaPulses: the exact pulse-by-pulse solution (finite pulses are
-	// replaced by delta pulses of the same area at the same phase).
-	DeltaPulses
-	// RealTimeSplitStep: the real-time split-step simulation.
-	RealTimeSplitStep
+	// VerifyAuto: VerifyDeltaPulses for delta pulses, VerifyRealTime otherwise.
+	VerifyAuto VerifyMethod = iota
+	// VerifyDeltaPulses: the exact pulse-by-pulse solution (DeltaSolver;
+	// finite pulses are replaced by delta pulses of the same area at the
+	// same phase).
+	VerifyDeltaPulses
+	// VerifyRealTime: the lab-frame real-time split-step simulation
+	// (LabFrame).
+	VerifyRealTime
 )
 
-func (m Method) String() string {
+func (m VerifyMethod) String() string {
 	return [...]string{"auto", "delta-exact", "real-time split-step"}[m]
 }
 
-// Settings of a verification run. The zero value gives the documented defaults.
-type Settings struct {
+// Codes of the warnings Verify adds to those of the effective model
+// (dispersion.Warning; the model's own codes are dispersion's Warn…).
+const (
+	// WarnLineFit: the line fit of one spectrum failed (status VerifyFitFailed).
+	WarnLineFit = "line-fit-failed"
+	// WarnDopplerFit: the Doppler slope could not be fitted (status
+	// VerifyFitFailed).
+	WarnDopplerFit = "doppler-fit-failed"
+	// WarnDopplerUnweighted: some resonance centre has no usable standard
+	// error, so the Doppler slope is an unweighted fit whose error comes from
+	// the scatter of the centres (none for two velocities).
+	WarnDopplerUnweighted = "doppler-fit-unweighted"
+	// WarnKtDeviation: measured k_t deviates from the model's by more than 1 %.
+	WarnKtDeviation = "k_t-deviation"
+	// WarnRabiDeviation: the effective Rabi frequency deviates from the
+	// cycle average by more than 5 %.
+	WarnRabiDeviation = "rabi-deviation"
+	// WarnCombOverlap: the resonances of the velocity classes span more than
+	// half the comb spacing f_shake of the pulse train's spectrum.
+	WarnCombOverlap = "comb-overlap"
+)
+
+// VerifySettings of a verification run. The zero value gives the documented
+// defaults.
+type VerifySettings struct {
 	// Velocities are the mean velocities (m/s) of the atoms, one spectrum
 	// each. Default: j·ħ|k_t|/2m, j = −2…2 (five classes whose resonances
 	// span ±8E_R/h around the v = 0 line).
@@ -53,8 +78,8 @@ type Settings struct {
 	SigmaX float64
 	// Workers run simulations in parallel. Default runtime.GOMAXPROCS(0).
 	Workers int
-	// Method: default Auto.
-	Method Method
+	// Method: default VerifyAuto.
+	Method VerifyMethod
 	// Refine divides the real-time step while the RF is on by this factor
 	// (convergence checks). Default 1.
 	Refine int
@@ -62,7 +87,7 @@ type Settings struct {
 	MaxWindows int
 }
 
-func (s *Settings) defaults(d *Drive) error {
+func (s *VerifySettings) defaults(d *ShakeDrive) error {
 	if s.Windows == 0 {
 		if !(d.Shake.RabiHz > 0) {
 			return errors.New("verify needs a Rabi frequency > 0 (the spectra are flip spectra)")
@@ -96,10 +121,10 @@ func (s *Settings) defaults(d *Drive) error {
 	if len(s.Velocities) < 2 {
 		return errors.New("need at least two mean velocities for a Doppler slope")
 	}
-	if s.Method == Auto {
-		s.Method = RealTimeSplitStep
+	if s.Method == VerifyAuto {
+		s.Method = VerifyRealTime
 		if d.Shake.Pulse == dispersion.PulseDelta {
-			s.Method = DeltaPulses
+			s.Method = VerifyDeltaPulses
 		}
 	}
 	return nil
@@ -107,41 +132,50 @@ func (s *Settings) defaults(d *Drive) error {
 
 // Spectrum is the flipped fraction against RF detuning for one mean velocity.
 type Spectrum struct {
-	Velocity      float64   // mean velocity of the atoms, m/s
-	DetuningHz    []float64 // RF detuning f_RF − |f0|, Hz (coarse and fine scans, sorted)
-	Flipped       []float64 // flipped fraction after the interrogation
-	Fit           dispersion.LineFit   // fit of the fine scan
-	ModelCentreHz float64   // the effective model's resonance (Drive.ModelResonanceHz)
+	Velocity      float64            // mean velocity of the atoms, m/s
+	DetuningHz    []float64          // RF detuning f_RF − |f0|, Hz (coarse and fine scans, sorted)
+	Flipped       []float64          // flipped fraction after the interrogation
+	Fit           dispersion.LineFit // fit of the fine scan
+	ModelCentreHz float64            // the effective model's resonance (ShakeDrive.ModelResonanceHz)
 }
 
-// Status of a Result.
-type Status int
+// VerifyStatus of a VerifyResult.
+type VerifyStatus int
 
 const (
-	OK        Status = iota
-	FitFailed        // a line fit failed; the affected numbers are NaN
+	VerifyOK        VerifyStatus = iota
+	VerifyFitFailed              // a line fit failed; the affected numbers are NaN
 )
 
-func (s Status) String() string { return [...]string{"ok", "fit-failed"}[s] }
+func (s VerifyStatus) String() string { return [...]string{"ok", "fit-failed"}[s] }
 
-// Result of Verify: the effective model's prediction beside each measured value.
-type Result struct {
-	Status   Status
-	Method   Method
+// VerifyResult of Verify: the effective model's prediction beside each
+// measured value.
+type VerifyResult struct {
+	Status   VerifyStatus
+	Method   VerifyMethod
 	Model    dispersion.ShakeResult
+	SignF0   float64 // sgn(f0) of the transition, f0 = (E↓ − E↑)/h
 	Spectra  []Spectrum
 	Windows  int     // interrogation, shaking periods
 	TimeS    float64 // interrogation time, s
 	SigmaV   float64 // rms velocity spread of the atoms, m/s
-	Grid     Grid    // real-time grid (zero for DeltaPulses)
+	Grid     LabGrid // real-time grid (zero for VerifyDeltaPulses)
 	Dt       float64 // split step while the RF is on, s
 	Steps    int     // split steps per shaking period
 	Runs     int     // simulations made
 	NormDev  float64 // largest |norm − 1| over all real-time runs
-	Warnings []string
+	Warnings []dispersion.Warning
 
-	// Doppler slope of the resonance: d(sgn(f0)(f_RF − |f0|))/dv, Hz per mm/s.
+	// Doppler slope of the resonance: d(sgn(f0)(f_RF − |f0|))/dv, Hz per
+	// mm/s. The measured slope is the weighted straight-line fit
+	// (dispersion.FitLinear) of the fitted centres against velocity with the
+	// centres' standard errors as weights; SlopeErr is those errors
+	// propagated (finite for two velocities). SlopeChi2 is the fit's χ² per
+	// degree of freedom (NaN for two velocities): ≫ 1 means the centres
+	// scatter about the line more than their errors say.
 	SlopeModel, SlopeMeasured, SlopeErr float64
+	SlopeChi2                           float64
 	KtModel, KtMeasured, KtErr          float64 // k_t = 2π × slope, 1/m
 	// Resonance at v = 0, RF detuning f_RF − |f0| in Hz.
 	InterceptModelHz, InterceptMeasuredHz float64
@@ -162,8 +196,8 @@ func Deviation(measured, model float64) float64 { return measured/model - 1 }
 // setting p without the cycle average, and compares the resonance positions,
 // Doppler slope, momentum transfer and effective Rabi frequency with the
 // effective model of p.Evaluate.
-func Verify(p dispersion.Shake, s Settings) (*Result, error) {
-	d, err := NewDrive(p)
+func Verify(p dispersion.Shake, s VerifySettings) (*VerifyResult, error) {
+	d, err := NewShakeDrive(p)
 	if err != nil {
 		return nil, err
 	}
@@ -173,9 +207,12 @@ func Verify(p dispersion.Shake, s Settings) (*Result, error) {
 	if err := s.defaults(d); err != nil {
 		return nil, err
 	}
-	r := &Result{Method: s.Method, Model: d.Result, Windows: s.Windows, TimeS: float64(s.Windows) * d.Period,
+	r := &VerifyResult{Method: s.Method, Model: d.Result, SignF0: d.SignF0, Windows: s.Windows, TimeS: float64(s.Windows) * d.Period,
 		RabiModelHz: p.RabiHz, KtModel: d.Result.KtMean, SlopeModel: d.Result.DopplerHzPerMmS}
-	r.Warnings = append(r.Warnings, dispersion.WarningTexts(d.Result.Warnings)...)
+	r.Warnings = append(r.Warnings, d.Result.Warnings...)
+	warn := func(code, format string, a ...any) {
+		r.Warnings = append(r.Warnings, dispersion.Warning{Code: code, Text: fmt.Sprintf(format, a...)})
+	}
 	tint := r.TimeS
 	// Velocity spread: Doppler rms = Resolution / t_int.
 	sigV := s.Resolution / tint * 2 * math.Pi / math.Abs(d.Result.KtMean)
@@ -187,13 +224,13 @@ func Verify(p dispersion.Shake, s Settings) (*Result, error) {
 	sigX := 1 / (2 * sigK)
 	dopplerRMS := math.Abs(d.Result.KtMean) * sigV // rms Doppler shift k_t σ_v, rad/s
 
-	var sim func(job *job)
+	var sim func(job *verifyJob)
 	var closeAll func()
 	var mu sync.Mutex
 	switch s.Method {
-	case DeltaPulses:
+	case VerifyDeltaPulses:
 		ds := NewDeltaSolver(d)
-		sim = func(j *job) {
+		sim = func(j *verifyJob) {
 			q0 := d.Mass * j.v / dispersion.Hbar
 			j.flip = ds.FlipPacket(q0, sigK, d.Detuning(j.detHz), j.windows, j.trace)
 			if j.trace == nil {
@@ -203,14 +240,14 @@ func Verify(p dispersion.Shake, s Settings) (*Result, error) {
 		}
 		closeAll = func() {}
 	default:
-		g := GridFor(d, s.Velocities, tint*2, sigX)
-		rt, err := newRealTime(d, g, s.Refine)
+		g := LabGridFor(d, s.Velocities, tint*2, sigX)
+		rt, err := newLabFrame(d, g, s.Refine)
 		if err != nil {
 			return nil, err
 		}
 		r.Grid, r.Dt, r.Steps = g, rt.Dt, rt.StepsPerWindow()
-		pool := make(chan *Worker, s.Workers)
-		var all []*Worker
+		pool := make(chan *LabWorker, s.Workers)
+		var all []*LabWorker
 		for i := 0; i < s.Workers; i++ {
 			w, err := rt.NewWorker()
 			if err != nil {
@@ -224,7 +261,7 @@ func Verify(p dispersion.Shake, s Settings) (*Result, error) {
 				w.Close()
 			}
 		}
-		sim = func(j *job) {
+		sim = func(j *verifyJob) {
 			w := <-pool
 			defer func() { pool <- w }()
 			q0 := d.Mass * j.v / dispersion.Hbar
@@ -241,8 +278,8 @@ func Verify(p dispersion.Shake, s Settings) (*Result, error) {
 		}
 	}
 	defer closeAll()
-	runAll := func(jobs []*job) {
-		ch := make(chan *job)
+	runAll := func(jobs []*verifyJob) {
+		ch := make(chan *verifyJob)
 		var wg sync.WaitGroup
 		for i := 0; i < s.Workers; i++ {
 			wg.Add(1)
@@ -263,8 +300,8 @@ func Verify(p dispersion.Shake, s Settings) (*Result, error) {
 
 	nv := len(s.Velocities)
 	r.Spectra = make([]Spectrum, nv)
-	coarse := make([][]*job, nv)
-	var jobs []*job
+	coarse := make([][]*verifyJob, nv)
+	var jobs []*verifyJob
 	for i, v := range s.Velocities {
 		c := d.ModelResonanceHz(v)
 		r.Spectra[i] = Spectrum{Velocity: v, ModelCentreHz: c}
@@ -272,13 +309,13 @@ func Verify(p dispersion.Shake, s Settings) (*Result, error) {
 		lo, hi = math.Min(lo, c)-3/tint, math.Max(hi, c)+3/tint
 		nc := max(s.CoarsePoints, min(241, int(math.Ceil((hi-lo)/(0.5/tint)))+1))
 		for k := 0; k < nc; k++ {
-			j := &job{v: v, detHz: lo + (hi-lo)*float64(k)/float64(nc-1), windows: s.Windows}
+			j := &verifyJob{v: v, detHz: lo + (hi-lo)*float64(k)/float64(nc-1), windows: s.Windows}
 			coarse[i] = append(coarse[i], j)
 			jobs = append(jobs, j)
 		}
 	}
 	runAll(jobs)
-	fine := make([][]*job, nv)
+	fine := make([][]*verifyJob, nv)
 	jobs = jobs[:0]
 	for i, v := range s.Velocities {
 		ib := 0
@@ -297,7 +334,7 @@ func Verify(p dispersion.Shake, s Settings) (*Result, error) {
 			}
 		}
 		for k := 0; k < s.FinePoints; k++ {
-			j := &job{v: v, detHz: fc + 0.6/tint*(2*float64(k)/float64(s.FinePoints-1)-1), windows: s.Windows}
+			j := &verifyJob{v: v, detHz: fc + 0.6/tint*(2*float64(k)/float64(s.FinePoints-1)-1), windows: s.Windows}
 			fine[i] = append(fine[i], j)
 			jobs = append(jobs, j)
 		}
@@ -306,7 +343,7 @@ func Verify(p dispersion.Shake, s Settings) (*Result, error) {
 	var vs, cs, es []float64
 	for i := range s.Velocities {
 		sp := &r.Spectra[i]
-		all := append(append([]*job(nil), coarse[i]...), fine[i]...)
+		all := append(append([]*verifyJob(nil), coarse[i]...), fine[i]...)
 		sort.Slice(all, func(a, b int) bool { return all[a].detHz < all[b].detHz })
 		for _, j := range all {
 			sp.DetuningHz = append(sp.DetuningHz, j.detHz)
@@ -319,8 +356,8 @@ func Verify(p dispersion.Shake, s Settings) (*Result, error) {
 		c0 := ff[len(ff)/2]
 		lf, err := dispersion.FitLine(ff, fp, c0, 0.4/tint)
 		if err != nil {
-			r.Status = FitFailed
-			r.Warnings = append(r.Warnings, fmt.Sprintf("line fit at v = %.3g mm/s failed: %v", sp.Velocity*1e3, err))
+			r.Status = VerifyFitFailed
+			warn(WarnLineFit, "line fit at v = %.3g mm/s failed: %v", sp.Velocity*1e3, err)
 			sp.Fit = dispersion.LineFit{CentreHz: math.NaN(), CentreErrHz: math.NaN()}
 			continue
 		}
@@ -330,18 +367,30 @@ func Verify(p dispersion.Shake, s Settings) (*Result, error) {
 		es = append(es, lf.CentreErrHz)
 	}
 	r.InterceptModelHz = d.ModelResonanceHz(0)
-	if lin, err := dispersion.FitLinear(vs, cs, nil); err == nil {
+	// Weighted by the centres' standard errors when every one is usable;
+	// otherwise unweighted, and said so.
+	sy := es
+	for _, e := range es {
+		if !(e > 0) || math.IsInf(e, 0) {
+			sy = nil
+		}
+	}
+	if sy == nil && len(es) > 0 {
+		warn(WarnDopplerUnweighted, "some resonance centre has no standard error: the Doppler slope is an unweighted fit, its error from the scatter of %d centres", len(es))
+	}
+	if lin, err := dispersion.FitLinear(vs, cs, sy); err == nil {
 		r.SlopeMeasured, r.SlopeErr = lin.Slope, lin.SlopeErr
 		r.InterceptMeasuredHz = d.SignF0 * lin.Intercept
 		r.KtMeasured = 2 * math.Pi * lin.Slope * 1e3
 		r.KtErr = 2 * math.Pi * lin.SlopeErr * 1e3
-		if math.IsNaN(r.SlopeErr) {
-			r.SlopeErr, r.KtErr = 0, 0 // two velocities: exact line, no residual
+		r.SlopeChi2 = math.NaN()
+		if lin.Weighted && lin.DoF > 0 {
+			r.SlopeChi2 = lin.Chi2 / float64(lin.DoF)
 		}
 	} else {
-		r.Status = FitFailed
-		r.SlopeMeasured, r.KtMeasured, r.SlopeErr, r.KtErr, r.InterceptMeasuredHz = math.NaN(), math.NaN(), math.NaN(), math.NaN(), math.NaN()
-		r.Warnings = append(r.Warnings, "Doppler slope: "+err.Error())
+		r.Status = VerifyFitFailed
+		r.SlopeMeasured, r.KtMeasured, r.SlopeErr, r.KtErr, r.InterceptMeasuredHz, r.SlopeChi2 = math.NaN(), math.NaN(), math.NaN(), math.NaN(), math.NaN(), math.NaN()
+		warn(WarnDopplerFit, "Doppler slope: %v", err)
 	}
 	// Flip dynamics at resonance for the velocity class nearest v = 0.
 	i0 := 0
@@ -352,32 +401,32 @@ func Verify(p dispersion.Shake, s Settings) (*Result, error) {
 	}
 	r.TransferMeasured, r.RabiMeasuredHz = math.NaN(), math.NaN()
 	if c := r.Spectra[i0].Fit.CentreHz; !math.IsNaN(c) {
-		j := &job{v: s.Velocities[i0], detHz: c, windows: 2 * s.Windows, trace: make([]float64, 2*s.Windows)}
+		j := &verifyJob{v: s.Velocities[i0], detHz: c, windows: 2 * s.Windows, trace: make([]float64, 2*s.Windows)}
 		// the transfer is read at the first π time: run it separately
-		jt := &job{v: s.Velocities[i0], detHz: c, windows: s.Windows, trace: make([]float64, s.Windows)}
-		runAll([]*job{j, jt})
+		jt := &verifyJob{v: s.Velocities[i0], detHz: c, windows: s.Windows, trace: make([]float64, s.Windows)}
+		runAll([]*verifyJob{j, jt})
 		r.RabiTrace = j.trace
 		r.RabiMeasuredHz, _ = dispersion.FitRabiTrace(j.trace, d.Period, p.RabiHz, dopplerRMS)
 		r.TransferMeasured = jt.transfer
 	}
 	// Verify's own findings, in words.
 	if dv := Deviation(r.KtMeasured, r.KtModel); math.Abs(dv) > 0.01 {
-		r.Warnings = append(r.Warnings, fmt.Sprintf("measured k_t deviates from the effective model by %+.1f%%: the interrogation resolves the momentum spread of a pulse and the line sits near the stationary point of κ(t) (delta-pulse k_t %.4g 1/m), not at the envelope mean", 100*dv, d.Result.KtDelta))
+		warn(WarnKtDeviation, "measured k_t deviates from the effective model by %+.1f%%: the interrogation resolves the momentum spread of a pulse and the line sits near the stationary point of κ(t) (delta-pulse k_t %.4g 1/m), not at the envelope mean", 100*dv, d.Result.KtDelta)
 	}
 	if dv := Deviation(r.RabiMeasuredHz, r.RabiModelHz); math.Abs(dv) > 0.05 {
-		r.Warnings = append(r.Warnings, fmt.Sprintf("effective Rabi frequency %.3g Hz deviates from the cycle average by %+.0f%%", r.RabiMeasuredHz, 100*dv))
+		warn(WarnRabiDeviation, "effective Rabi frequency %.3g Hz deviates from the cycle average by %+.0f%%", r.RabiMeasuredHz, 100*dv)
 	}
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for _, sp := range r.Spectra {
 		lo, hi = math.Min(lo, sp.ModelCentreHz), math.Max(hi, sp.ModelCentreHz)
 	}
 	if hi-lo > p.ShakeHz/2 {
-		r.Warnings = append(r.Warnings, fmt.Sprintf("the pulse train's spectrum repeats every f_shake = %.4g Hz, but the resonances of these velocities span %.4g Hz: lines of different velocity classes and sidebands overlap, a thermal sample's spectrum cannot tell them apart (ħω not ≫ E_R)", p.ShakeHz, hi-lo))
+		warn(WarnCombOverlap, "the pulse train's spectrum repeats every f_shake = %.4g Hz, but the resonances of these velocities span %.4g Hz: lines of different velocity classes and sidebands overlap, a thermal sample's spectrum cannot tell them apart (ħω not ≫ E_R)", p.ShakeHz, hi-lo)
 	}
 	return r, nil
 }
 
-type job struct {
+type verifyJob struct {
 	v, detHz float64
 	windows  int
 	trace    []float64
@@ -385,35 +434,81 @@ type job struct {
 	transfer float64
 }
 
-// SweepPoint is one setting of a deviation sweep.
-type SweepPoint struct {
-	X      float64 // the swept value (SI)
-	Result *Result
+// VerifyAxis is a setting that VerifySweep varies.
+type VerifyAxis int
+
+const (
+	VerifyPulseWidth VerifyAxis = iota // pulse width (s): rectangular duration or gaussian FWHM
+	VerifyShakeFreq                    // shaking frequency f_shake (Hz)
+)
+
+// Name is the axis's name on the command line ("pulse-width", "shake").
+func (a VerifyAxis) Name() string { return [...]string{"pulse-width", "shake"}[a] }
+
+// Unit is the SI unit of the axis values.
+func (a VerifyAxis) Unit() string { return [...]string{"s", "Hz"}[a] }
+
+// Set writes x into p.
+func (a VerifyAxis) Set(p *dispersion.Shake, x float64) {
+	switch a {
+	case VerifyPulseWidth:
+		p.PulseWidth = x
+	case VerifyShakeFreq:
+		p.ShakeHz = x
+	}
+}
+
+// ParseVerifyAxis reads an axis name ("pulse-width" or "shake").
+func ParseVerifyAxis(name string) (VerifyAxis, error) {
+	for _, a := range []VerifyAxis{VerifyPulseWidth, VerifyShakeFreq} {
+		if a.Name() == name {
+			return a, nil
+		}
+	}
+	return 0, fmt.Errorf("%w: unknown verify sweep setting %q; allowed: pulse-width, shake", dispersion.ErrBadInput, name)
+}
+
+// VerifySweepPoint is one setting of a deviation sweep.
+type VerifySweepPoint struct {
+	X      float64 // the swept value (SI, VerifyAxis.Unit)
+	Result *VerifyResult
 	Err    error // the setting was refused (e.g. pulse longer than the period)
 }
 
-// Sweep runs Verify for each value of a setting: set writes the value into
-// a copy of p. Errors of single settings are kept in the points.
-func Sweep(p dispersion.Shake, s Settings, xs []float64, set func(p *dispersion.Shake, x float64)) []SweepPoint {
-	out := make([]SweepPoint, len(xs))
+// VerifySweep runs Verify for each value xs of the axis, in order, with the
+// other settings of p and s. Errors of single settings are kept in the
+// points; the error returned is for a sweep that cannot run at all (a
+// pulse-width sweep of delta pulses or of a continuous drive, no values).
+// progress (may be nil) is called before each point with its index and the
+// number of points.
+func VerifySweep(p dispersion.Shake, s VerifySettings, axis VerifyAxis, xs []float64, progress func(i, n int)) ([]VerifySweepPoint, error) {
+	if len(xs) == 0 {
+		return nil, fmt.Errorf("%w: a verify sweep needs at least one value", dispersion.ErrBadInput)
+	}
+	if axis == VerifyPulseWidth && (p.Pulse == dispersion.PulseDelta || p.Pulse == dispersion.PulseContinuous) {
+		return nil, fmt.Errorf("%w: a pulse-width sweep needs rectangular or gaussian pulses, not %v", dispersion.ErrBadInput, p.Pulse)
+	}
+	out := make([]VerifySweepPoint, len(xs))
 	for i, x := range xs {
+		if progress != nil {
+			progress(i, len(xs))
+		}
 		q := p
-		set(&q, x)
+		axis.Set(&q, x)
 		ss := s
-		ss.Velocities = append([]float64(nil), s.Velocities...)
-		if s.Velocities == nil {
-			ss.Velocities = nil
+		if s.Velocities != nil {
+			ss.Velocities = append([]float64(nil), s.Velocities...)
 		}
 		r, err := Verify(q, ss)
-		out[i] = SweepPoint{X: x, Result: r, Err: err}
+		out[i] = VerifySweepPoint{X: x, Result: r, Err: err}
 	}
-	return out
+	return out, nil
 }
 
 // resonanceRange returns the lowest and highest RF detuning (Hz) at which an
 // atom of mean velocity v is resonant with a flip that transfers some κ of
 // the RF-on part of the cycle: sgn(f0)(κv/2π + ħκ²/4πm − micromotion shift).
-func (d *Drive) resonanceRange(v float64) (lo, hi float64) {
+func (d *ShakeDrive) resonanceRange(v float64) (lo, hi float64) {
 	k1, k2 := d.kappaRange()
 	f := func(k float64) float64 {
 		return d.SignF0 * (k*v/(2*math.Pi) + dispersion.Hbar*k*k/(4*math.Pi*d.Mass) - d.Result.MicroShiftHz)
