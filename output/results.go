@@ -117,8 +117,7 @@ func (w *Writer) WriteShake(p dispersion.Shake, r dispersion.ShakeResult) {
 	w.Scalar(o+"delta_total", r.DeltaHz, "Hz", "effective δ/2π including the micromotion shift")
 	w.Scalar(o+"quadratic_zeeman", r.QuadZeemanHz, "Hz", "quadratic Zeeman shift q/h of the manifold (NaN if n/a)")
 	w.Scalar(o+"neighbour_detuning", r.NeighbourHz, "Hz", "detuning of the nearest other RF transition (NaN if none)")
-	w.Attr("/results", "warnings", joinLines(dispersion.WarningTexts(r.Warnings)))
-	w.Attr("/results", "warning_codes", joinLines(dispersion.WarningCodes(r.Warnings)))
+	w.writeWarnings("/results", r.Warnings)
 }
 
 // WriteRaman writes the inputs and results of the Raman scheme.
@@ -133,8 +132,7 @@ func (w *Writer) WriteRaman(p dispersion.Raman, r dispersion.RamanResult) {
 	w.Scalar("/results/line_detuning", r.LineDetuningHz, "Hz", "single-photon detuning from the nearest D line ("+r.NearestLine+")")
 	w.Scalar("/results/scattering_rate", r.ScatterRate, "1/s", "photon scattering rate, two-level estimate Γ Ω/|Δ|")
 	w.Scalar("/results/heating", r.HeatingER, "E_R/s", "heating rate estimate, 2E_R per scattered photon")
-	w.Attr("/results", "warnings", joinLines(dispersion.WarningTexts(r.Warnings)))
-	w.Attr("/results", "warning_codes", joinLines(dispersion.WarningCodes(r.Warnings)))
+	w.writeWarnings("/results", r.Warnings)
 }
 
 // WriteBands writes sampled bands and their minima.

@@ -13,13 +13,10 @@ import (
 	"socmap/output"
 )
 
-// Safety cautions shown with scheme outputs (common practice, no source).
-var (
-	cautionCoils = "Gradient coils: tens to hundreds of amperes switched at kHz rates store energy and " +
-		"produce voltage transients; use rated drivers, interlocks and coil cooling. RF amplifiers: never run " +
-		"them unloaded, and keep antennas clear of people. Follow your local rules and your lab's safety officer."
-	cautionLasers = "Raman beams are class 3B/4 lasers: wear the specified eyewear, enclose the beam paths and " +
-		"follow your local laser rules and your lab's laser safety officer."
+// Safety cautions shown with scheme outputs (the texts live in output).
+const (
+	cautionCoils  = output.CautionCoils
+	cautionLasers = output.CautionLasers
 )
 
 func newSchemeCmd() *cobra.Command {
@@ -73,7 +70,7 @@ coefficient, RF recoil enhancement and the validity of the cycle average.`,
 
 func shakeJSON(p dispersion.Shake, r dispersion.ShakeResult, info dispersion.BandInfo) map[string]any {
 	n := output.JSONNum
-	w, wc := warningsJSON(r.Warnings)
+	w, wc := output.WarningsJSON(r.Warnings)
 	return map[string]any{
 		"scheme": "shake", "atom": p.Species.Name, "up": p.Up.String(), "down": p.Down.String(),
 		"bias_T": p.Bias, "gradient_T_per_m": p.Gradient, "shake_hz": p.ShakeHz, "waveform": p.Waveform.Name(),
@@ -94,16 +91,6 @@ func shakeJSON(p dispersion.Shake, r dispersion.ShakeResult, info dispersion.Ban
 		"warnings": w, "warning_codes": wc, "cautions": []string{cautionCoils},
 		"note": "two-level model of the pair; couplings to the other sublevels are not included",
 	}
-}
-
-// warningsJSON returns the texts and codes of ws for a JSON document
-// (empty lists, not null, when there are none).
-func warningsJSON(ws []dispersion.Warning) (texts, codes []string) {
-	texts, codes = []string{}, []string{}
-	for _, w := range ws {
-		texts, codes = append(texts, w.Text), append(codes, w.Code)
-	}
-	return texts, codes
 }
 
 func minimaJSON(info dispersion.BandInfo) []map[string]any {
@@ -226,7 +213,7 @@ func newRamanCmd() *cobra.Command {
 }
 
 func ramanJSON(p dispersion.Raman, r dispersion.RamanResult, info dispersion.BandInfo) map[string]any {
-	w, wc := warningsJSON(r.Warnings)
+	w, wc := output.WarningsJSON(r.Warnings)
 	return map[string]any{
 		"scheme": "raman", "atom": p.Species.Name, "wavelength_m": p.Wavelength, "angle_rad": p.Angle,
 		"k_R_per_m": r.Model.KR, "E_R_hz": r.Model.ERHz(), "omega_hz": p.RabiHz, "delta_hz": p.DetuningHz,
