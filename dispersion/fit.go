@@ -8,6 +8,11 @@ import (
 	"gonum.org/v1/gonum/mat"
 )
 
+// The fits of spin-flip spectroscopy: the line centre of a spectrum
+// (FitLine), the Doppler slope through the centres and the slope per pulse
+// phase of a calibration (FitLinear), and the effective Rabi frequency of the
+// flip dynamics (FitRabiTrace). gpe.Verify and Calibrate use them.
+
 // LineFit is the fit of the main lobe of one flip spectrum to a gaussian
 //
 //	P(f) = a exp(−(f − f_c)²/2w²).

@@ -173,7 +173,11 @@ type VerifyResult struct {
 	// centres' standard errors as weights; SlopeErr is those errors
 	// propagated (finite for two velocities). SlopeChi2 is the fit's χ² per
 	// degree of freedom (NaN for two velocities): ≫ 1 means the centres
-	// scatter about the line more than their errors say.
+	// scatter about the line more than their errors say. Values ≪ 1 are
+	// common: a centre's error comes from the misfit of the gaussian to the
+	// line shape (dispersion.LineFit), which is much the same for every
+	// velocity class and moves the centres alike, so it overstates their
+	// scatter about the line; the slope error is then conservative.
 	SlopeModel, SlopeMeasured, SlopeErr float64
 	SlopeChi2                           float64
 	KtModel, KtMeasured, KtErr          float64 // k_t = 2π × slope, 1/m
@@ -183,8 +187,8 @@ type VerifyResult struct {
 	// from the velocity class nearest v = 0; model: k_t.
 	TransferMeasured float64
 	// Effective Rabi frequency Ω/2π from the flip dynamics at resonance (Hz),
-	// fitted with the sample's known Doppler spread (FitRabiTrace); model:
-	// the cycle-averaged Rabi frequency.
+	// fitted with the sample's known Doppler spread
+	// (dispersion.FitRabiTrace); model: the cycle-averaged Rabi frequency.
 	RabiModelHz, RabiMeasuredHz float64
 	RabiTrace                   []float64 // flipped fraction after each period at resonance
 }
