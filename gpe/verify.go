@@ -42,6 +42,12 @@ const (
 	// error, so the Doppler slope is an unweighted fit whose error comes from
 	// the scatter of the centres (none for two velocities).
 	WarnDopplerUnweighted = "doppler-fit-unweighted"
+	// WarnDopplerScatter: the centres scatter about the weighted Doppler
+	// line by more than their errors allow (χ²/dof > DopplerChi2Limit): the
+	// resonance is not linear in the velocity at that level, and the
+	// propagated slope error understates the uncertainty. The text gives
+	// the error scaled by √(χ²/dof) beside it.
+	WarnDopplerScatter = "doppler-fit-scatter"
 	// WarnKtDeviation: measured k_t deviates from the model's by more than 1 %.
 	WarnKtDeviation = "k_t-deviation"
 	// WarnRabiDeviation: the effective Rabi frequency deviates from the
@@ -51,6 +57,13 @@ const (
 	// half the comb spacing f_shake of the pulse train's spectrum.
 	WarnCombOverlap = "comb-overlap"
 )
+
+// DopplerChi2Limit is the χ² per degree of freedom of the Doppler line fit
+// above which Verify warns (WarnDopplerScatter). A choice of this project
+// (common practice, no source): for three degrees of freedom (the default
+// five velocities) a reduced χ² above 4 happens by chance in 0.7 % of cases
+// (scipy.stats.chi2.sf(12, 3) = 0.0074).
+const DopplerChi2Limit = 4.0
 
 // VerifySettings of a verification run. The zero value gives the documented
 // defaults.
@@ -390,6 +403,11 @@ func Verify(p dispersion.Shake, s VerifySettings) (*VerifyResult, error) {
 		r.SlopeChi2 = math.NaN()
 		if lin.Weighted && lin.DoF > 0 {
 			r.SlopeChi2 = lin.Chi2 / float64(lin.DoF)
+			if r.SlopeChi2 > DopplerChi2Limit {
+				b := math.Sqrt(r.SlopeChi2)
+				warn(WarnDopplerScatter, "the resonance centres scatter about the Doppler line by √(χ²/dof) = %.2g × their errors (χ²/dof = %.3g, %d degrees of freedom): the resonance is not linear in the velocity at this level; the propagated slope error ±%.2g Hz per mm/s understates the uncertainty, scaled by √(χ²/dof) it is ±%.2g Hz per mm/s",
+					b, r.SlopeChi2, lin.DoF, lin.SlopeErr, b*lin.SlopeErr)
+			}
 		}
 	} else {
 		r.Status = VerifyFitFailed

@@ -1,6 +1,7 @@
 package gpe
 
 import (
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -390,5 +391,36 @@ func TestVerifyDopplerFitWeighted(t *testing.T) {
 	}
 	if r.SlopeMeasured != lf.Slope || r.SlopeErr != lf.SlopeErr || math.Abs(r.SlopeChi2-lf.Chi2) > 1e-12*lf.Chi2+1e-300 {
 		t.Errorf("three velocities: slope %g ± %g (χ²/dof %g), weighted fit of the centres %g ± %g (χ² %g)", r.SlopeMeasured, r.SlopeErr, r.SlopeChi2, lf.Slope, lf.SlopeErr, lf.Chi2)
+	}
+}
+
+// The demo setting (30 µs pulses, real time): the five centres are not on a
+// straight line within their errors (χ²/dof ≈ 60), and Verify says so with
+// the error scaled by √(χ²/dof) beside the propagated one; delta pulses
+// (centres on a line) do not trip the warning.
+func TestVerifyDopplerScatterWarning(t *testing.T) {
+	if testing.Short() {
+		t.Skip("long")
+	}
+	for _, c := range []struct {
+		pulse dispersion.PulseShape
+		want  bool
+	}{{dispersion.PulseDelta, false}, {dispersion.PulseRect, true}} {
+		p := demoShake(t)
+		p.Pulse = c.pulse
+		r, err := Verify(p, VerifySettings{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		got := dispersion.HasWarning(r.Warnings, WarnDopplerScatter)
+		if got != c.want || got != (r.SlopeChi2 > DopplerChi2Limit) {
+			t.Errorf("%v: χ²/dof %.3g, scatter warning %v (want %v)", c.pulse, r.SlopeChi2, got, c.want)
+		}
+		if got {
+			scaled := fmt.Sprintf("±%.2g Hz per mm/s", math.Sqrt(r.SlopeChi2)*r.SlopeErr)
+			if txt := strings.Join(dispersion.WarningTexts(r.Warnings), "\n"); !strings.Contains(txt, scaled) {
+				t.Errorf("%v: warning lacks the scaled error %s: %s", c.pulse, scaled, txt)
+			}
+		}
 	}
 }

@@ -98,6 +98,9 @@ func (vr *VerifyResult) Table() *Table {
 	t.Columns("momentum transfer per flip (1/m)", []string{N(r.KtModel, 5), N(r.TransferMeasured, 5), pct(r.TransferMeasured, r.KtModel)}, "")
 	t.Columns("effective Rabi Ω/2π (Hz)", []string{N(r.RabiModelHz, 4), N(r.RabiMeasuredHz, 4), pct(r.RabiMeasuredHz, r.RabiModelHz)}, "")
 	t.Text(fmt.Sprintf("model k_t is the pulse-envelope mean (delta pulse at θ: %s 1/m, rms spread over the pulse %s 1/m)", N(r.Model.KtDelta, 5), N(r.Model.KtSpread, 3)))
+	if !math.IsNaN(r.SlopeChi2) {
+		t.Text(fmt.Sprintf("measured slope: straight line through the centres weighted by their errors, χ²/dof = %s", N(r.SlopeChi2, 3)))
+	}
 	t.Section("Warnings")
 	if len(r.Warnings) == 0 {
 		t.Text("none")
