@@ -89,7 +89,7 @@ var Axes = []AxisDef{
 	{Name: AxisShakeFrequency, Kind: dispersion.KindFrequency, Unit: "Hz", Label: "shaking frequency  [kHz]", Scale: 1e-3,
 		Overrides: []string{"shake"}, set: shakeSetting(AxisShakeFrequency, func(p *dispersion.Shake, v float64) { p.ShakeHz = v })},
 	{Name: AxisPulseAngle, Kind: dispersion.KindAngle, Unit: "rad", Label: "pulse phase θ  [deg]", Scale: 180 / math.Pi,
-		Overrides: []string{"phase"}, set: shakeSetting(AxisPulseAngle, func(p *dispersion.Shake, v float64) { p.Phase = v })},
+		Overrides: []string{"phase"}, set: shakeSetting(AxisPulseAngle, func(p *dispersion.Shake, v float64) { p.PulsePhase = v })},
 	{Name: AxisBias, Kind: dispersion.KindField, Unit: "T", Label: "bias field  [G]", Scale: 1e4,
 		Overrides: []string{"bias"}, set: shakeSetting(AxisBias, func(p *dispersion.Shake, v float64) { p.Bias = v })},
 	{Name: AxisRabi, Kind: dispersion.KindFrequency, Unit: "Hz", Label: "Rabi frequency Ω/2π  [Hz]", Scale: 1,
