@@ -6,7 +6,6 @@ import (
 	"os"
 	"sort"
 	"testing"
-
 )
 
 // Plane-wave, single-minimum and stripe spectra against a dense numpy
