@@ -52,7 +52,7 @@ type BraggResult struct {
 //	K_τ(Δ) = 2 sin²(Δτ/2) / (π τ Δ²),   K_τ(0) = τ/(2π),
 //
 // (∫ sin²(aΔ)/Δ² dΔ = πa). Its full width at half maximum is
-// 4·1.39155737/τ = 5.5662295/τ (sinc²(x) = ½ at x = 1.39155737).
+// 4·1.3915573783/τ = 5.5662295/τ (sinc²(x) = ½ at x = 1.3915573783, scipy brentq).
 func BraggKernel(delta, tau float64) float64 {
 	x := 0.5 * delta * tau
 	if math.Abs(x) < 1e-6 {
@@ -63,7 +63,7 @@ func BraggKernel(delta, tau float64) float64 {
 }
 
 // BraggFWHM is the FWHM (E_R) of BraggKernel for a pulse of duration τ (ħ/E_R).
-func BraggFWHM(tau float64) float64 { return 4 * 1.3915573646 / tau }
+func BraggFWHM(tau float64) float64 { return 4 * 1.3915573782515103 / tau }
 
 func bragg(sp spectrum, p BraggProblem) (BraggResult, error) {
 	r := BraggResult{Q: p.Q, Duration: p.Duration}
