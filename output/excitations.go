@@ -80,10 +80,7 @@ func (r *ExcitationsResult) Table() *Table {
 	}
 	t.Section("Sound and effective mass")
 	for i := range res.CPlusX {
-		name := "phase branch"
-		if i == 1 {
-			name = "translation branch"
-		}
+		name := fmt.Sprintf("gapless branch %d", i+1)
 		if len(res.CPlusX) == 1 {
 			name = "sound"
 		}
@@ -118,12 +115,15 @@ func (r *ExcitationsResult) Table() *Table {
 			if b >= 3 {
 				break
 			}
-			s += fmt.Sprintf("  %9s (Z %s)", Num(m.Omega, 5), Num(m.Density, 3))
+			if s != "" {
+				s += ";"
+			}
+			s += fmt.Sprintf(" ω = %s (Z %s)", Num(m.Omega, 5), Num(m.Density, 3))
 			if m.Growth > 0 {
 				s += fmt.Sprintf(" +i%s", Num(m.Growth, 3))
 			}
 		}
-		t.Row(fmt.Sprintf("q = %s", Num(res.Q[i], 4)), s, "")
+		t.Text(fmt.Sprintf("q = %s:%s", Num(res.Q[i], 4), s))
 	}
 	if b := res.Bragg; b != nil {
 		t.Section(fmt.Sprintf("Bragg response at q = %s k_R", Num(b.Q, 4)))
@@ -139,7 +139,7 @@ func (r *ExcitationsResult) Table() *Table {
 			if j >= 4 {
 				break
 			}
-			t.Row(fmt.Sprintf("line %d", j+1), fmt.Sprintf("ω = %s  Z_density = %s  Z_spin = %s", Num(m.Omega, 5), Num(m.Density, 4), Num(m.Spin, 4)), "")
+			t.Text(fmt.Sprintf("line %d: ω = %s E_R, Z_density = %s, Z_spin = %s", j+1, Num(m.Omega, 5), Num(m.Density, 4), Num(m.Spin, 4)))
 		}
 	}
 	for _, n := range r.Notes {
