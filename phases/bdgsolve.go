@@ -174,8 +174,7 @@ func (s *bdgSolver) solve(m []float64) []bdgMode {
 }
 
 // finish sorts the modes by Re ω and fixes the phase of each: the
-// largest-modulus component of u (of v when u vanishes) is made real and
-// positive.
+// largest-modulus component of Ψ = (u, v) is made real and positive.
 func (s *bdgSolver) finish() []bdgMode {
 	sort.SliceStable(s.modes, func(i, j int) bool { return s.modes[i].omega < s.modes[j].omega })
 	for k := range s.modes {

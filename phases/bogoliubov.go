@@ -456,13 +456,11 @@ func newUniformSpectrum(u Uniform, pw TwoWave, st *ExcitationSettings) (*uniform
 	th = refineTheta(u, th)
 	// The mirror plane wave (k → −k): the lower of the two; when they are
 	// degenerate (within 1e-12 of the energy scale) the one with k₁ > 0.
-	if thm := refineTheta(u, math.Pi/2-th); true {
-		em, _, _ := u.pwEnergy(thm)
-		e0, _, _ := u.pwEnergy(th)
-		tie := 1e-12 * u.scale()
-		if em < e0-tie || (math.Abs(em-e0) <= tie && math.Cos(2*thm) > math.Cos(2*th)) {
-			th = thm
-		}
+	thm := refineTheta(u, math.Pi/2-th)
+	em, _, _ := u.pwEnergy(thm)
+	e0, _, _ := u.pwEnergy(th)
+	if tie := 1e-12 * u.scale(); em < e0-tie || (math.Abs(em-e0) <= tie && math.Cos(2*thm) > math.Cos(2*th)) {
+		th = thm
 	}
 	e, d1, _ := u.pwEnergy(th)
 	c, s := math.Cos(th), math.Sin(th)

@@ -37,11 +37,11 @@ type BraggResult struct {
 	// Density, Spin: S(Q, ω) and the spin structure factor broadened by the
 	// pulse, Σ_j Z_j K_τ(ω − ω_j) (1/E_R per particle).
 	Density, Spin []float64
-	// Signal: the momentum a pulse of duration τ transfers, per particle, in
-	// units of ħQ times (coupling strength)² τ/2 … i.e. the net rate
+	// Signal: the net momentum-transfer rate per particle (in units of ħQ
+	// times the squared Bragg coupling), broadened by the pulse,
 	// Σ_j [Z_j(Q) K_τ(ω − ω_j) − Z_j(−Q) K_τ(ω + ω_j)] (1/E_R): at T = 0 the
-	// pair of beams both creates excitations at +Q (absorbing ħω) and at −Q
-	// (emitting ħω), and only the difference moves the cloud.
+	// beams both create excitations at +Q (absorbing ħω) and at −Q (emitting
+	// ħω), and only the difference moves the cloud.
 	Signal []float64
 }
 
