@@ -94,3 +94,25 @@ func TestSpin1GPESingleMode(t *testing.T) {
 		}
 	}
 }
+
+// 2D and 3D grids: a uniform Raman-dressed box has a ground state uniform
+// along y and z, so its energy per particle equals the 1D one (a consistency
+// check of the n-dimensional transforms and kinetic tables).
+func TestSpin1Dimensions(t *testing.T) {
+	d := dispersion.RamanSpin1(1.5, 0.2, 0.5)
+	solve := func(g *Grid) float64 {
+		p := Spin1Problem{Grid: g, Model: Spin1UniformBox(g, d, 1, -0.3)}
+		mr, err := Spin1MultiStart(p, d, nil, nil)
+		if err != nil || mr.Best.Status != Converged {
+			t.Fatalf("dim %d: %v %v", g.Dim, err, mr.Best.Status)
+		}
+		return mr.Best.Energies.Total
+	}
+	e1 := solve(MustGrid([]int{32}, []float64{4 * math.Pi}))
+	e2 := solve(MustGrid([]int{32, 4}, []float64{4 * math.Pi, 3}))
+	e3 := solve(MustGrid([]int{32, 2, 2}, []float64{4 * math.Pi, 3, 2}))
+	t.Logf("E/N: 1D %.12f, 2D %.12f, 3D %.12f", e1, e2, e3)
+	if math.Abs(e2-e1) > 1e-9 || math.Abs(e3-e1) > 1e-9 {
+		t.Errorf("energies differ: %g %g %g", e1, e2, e3)
+	}
+}
