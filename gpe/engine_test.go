@@ -140,7 +140,7 @@ func TestBackendsSameGroundState(t *testing.T) {
 // zero modes) relaxes to the floor within 40 units of imaginary time.
 func TestSplitOnlyFloor(t *testing.T) {
 	g := MustGrid([]int{128}, []float64{24})
-	m := Model{Omega: 1.5, Delta: 0.2, Guu: 5, Gdd: 4, Gud: 4.5, Norm: 1, Potential: Potential{Kind: Harmonic, Omega: [3]float64{1}}}
+	m := Model{Omega: 1.5, Delta: 0.2, Guu: 5, Gdd: 4, Gud: 4.5, Norm: 1, Potential: Potential{Kind: Harmonic, AngularFreq: [3]float64{1}}}
 	p := Problem{Grid: g, Model: m}
 	var floors []float64
 	for _, tau := range []float64{0.01, 0.0025} {

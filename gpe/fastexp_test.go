@@ -43,7 +43,7 @@ func TestLocalSplitMatchesExpm(t *testing.T) {
 	for _, tau := range []float64{1e-4, 0.01, 0.05, 0.3, 2} {
 		for _, par := range [][4]float64{{1, 0.3, 0.7, 0.2}, {4, -1, 0, 0}, {0, 0, 5, 0}, {0.2, 2, 1, 0.9}} {
 			m := Model{Omega: par[0], Delta: par[1], Guu: par[2], Gdd: par[2] * 1.3, Gud: par[3], Norm: 1,
-				Potential: Potential{Kind: Harmonic, Omega: [3]float64{3}}}
+				Potential: Potential{Kind: Harmonic, AngularFreq: [3]float64{3}}}
 			e, err := newEngine(g, m, perf{})
 			if err != nil {
 				t.Fatal(err)

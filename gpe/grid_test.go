@@ -3,6 +3,8 @@ package gpe
 import (
 	"math"
 	"testing"
+
+	"socmap/dispersion"
 )
 
 // TestGridAxes: coordinates and FFT-ordered wavenumbers follow the usual DFT
@@ -79,12 +81,12 @@ func TestUnits(t *testing.T) {
 	if d := math.Abs(u.LengthSI(u.Length(3e-6)) - 3e-6); d > 1e-20 {
 		t.Errorf("length round trip off by %g", d)
 	}
-	if d := math.Abs(u.TimeSI(1) - HBar/(3.68e3*PlanckH)); d > 1e-18 {
+	if d := math.Abs(u.TimeSI(1) - dispersion.Hbar/(3.68e3*dispersion.Planck)); d > 1e-18 {
 		t.Errorf("time unit off by %g", d)
 	}
 	// E_R = ħ²k_R²/2m gives back the mass.
 	m := u.Mass()
-	if d := math.Abs(HBar*HBar*u.KR*u.KR/(2*m)/u.ER - 1); d > 1e-14 {
+	if d := math.Abs(dispersion.Hbar*dispersion.Hbar*u.KR*u.KR/(2*m)/u.ER - 1); d > 1e-14 {
 		t.Errorf("mass inconsistent by %g", d)
 	}
 	if _, err := NewUnits(0, 1); err == nil {

@@ -100,7 +100,7 @@ func applyEnvelope(st *State, m Model) {
 	var w [3]float64
 	mu := ThomasFermiMu(g.Dim, m)
 	for a := 0; a < g.Dim; a++ {
-		om := m.Potential.Omega[a]
+		om := m.Potential.AngularFreq[a]
 		w[a] = OscillatorLength(om)
 		if mu > 0 {
 			w[a] = math.Max(w[a], math.Sqrt(mu)/om) // half the TF radius 2√μ/ω

@@ -36,7 +36,7 @@ func TestLinearSOCTrapAgainstScipy(t *testing.T) {
 	g := MustGrid([]int{256}, []float64{ref.L})
 	for _, c := range ref.Cases {
 		m := Model{Omega: c.Omega, Delta: c.Delta, Norm: 1,
-			Potential: Potential{Kind: Harmonic, Omega: [3]float64{c.OmegaTrap}}}
+			Potential: Potential{Kind: Harmonic, AngularFreq: [3]float64{c.OmegaTrap}}}
 		p := Problem{Grid: g, Model: m}
 		r := solveOrFatal(t, p, Guess{Kind: GuessRandom, Seed: 5}, nil)
 		d := r.Energies.Total - c.E0

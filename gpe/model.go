@@ -34,9 +34,11 @@ const DefaultWallHeight = 100.0
 // Potential is the spin-independent external potential.
 type Potential struct {
 	Kind PotentialKind
-	// Omega: harmonic trap angular frequencies per axis in E_R/ħ
-	// (Units.AngularFromHz converts from Hz); V = Σ ω_a² x_a²/4 in E_R.
-	Omega [3]float64
+	// AngularFreq: harmonic trap angular frequencies ω_a per axis in E_R/ħ
+	// (ħω_a/E_R; Units.AngularFromHz converts from f_a in Hz, ω_a = 2πf_a);
+	// V = Σ ω_a² x_a²/4 in E_R. Not to be confused with Model.Omega, the Rabi
+	// coupling.
+	AngularFreq [3]float64
 	// Width: hard box inner widths per axis in 1/k_R, centred on 0;
 	// 0 means no wall along that axis.
 	Width [3]float64
@@ -48,7 +50,7 @@ type Potential struct {
 func (p Potential) At(x, y, z float64) float64 {
 	switch p.Kind {
 	case Harmonic:
-		return (p.Omega[0]*p.Omega[0]*x*x + p.Omega[1]*p.Omega[1]*y*y + p.Omega[2]*p.Omega[2]*z*z) / 4
+		return (p.AngularFreq[0]*p.AngularFreq[0]*x*x + p.AngularFreq[1]*p.AngularFreq[1]*y*y + p.AngularFreq[2]*p.AngularFreq[2]*z*z) / 4
 	case HardBox:
 		h := p.Height
 		if h == 0 {
@@ -91,8 +93,8 @@ func (m Model) Validate(g *Grid) error {
 	}
 	if m.Potential.Kind == Harmonic {
 		for a := 0; a < g.Dim; a++ {
-			if !(m.Potential.Omega[a] > 0) {
-				return fmt.Errorf("gpe: harmonic trap needs ω > 0 on axis %d (got %g)", a, m.Potential.Omega[a])
+			if !(m.Potential.AngularFreq[a] > 0) {
+				return fmt.Errorf("gpe: harmonic trap needs ω > 0 on axis %d (got %g)", a, m.Potential.AngularFreq[a])
 			}
 		}
 	}
@@ -153,7 +155,7 @@ func Trapped(g *Grid, ts TrapSpec, omega, delta float64) (Model, error) {
 	m := Model{Omega: omega, Delta: delta, Guu: red(ts.Auu), Gdd: red(ts.Add), Gud: red(ts.Aud), Norm: ts.Atoms}
 	m.Potential = Potential{Kind: Harmonic}
 	for a := 0; a < g.Dim; a++ {
-		m.Potential.Omega[a] = w[a]
+		m.Potential.AngularFreq[a] = w[a]
 	}
 	return m, nil
 }

@@ -105,7 +105,7 @@ func TestPhasesTrapped1D(t *testing.T) {
 		om   float64
 		want label.Phase
 	}{{0.5, label.Stripe}, {2, label.PlaneWave}, {5, label.SingleMinimum}} {
-		m := Model{Omega: c.om, Guu: 20, Gdd: 20, Gud: 16, Norm: 1, Potential: Potential{Kind: Harmonic, Omega: [3]float64{0.05}}}
+		m := Model{Omega: c.om, Guu: 20, Gdd: 20, Gud: 16, Norm: 1, Potential: Potential{Kind: Harmonic, AngularFreq: [3]float64{0.05}}}
 		p := Problem{Grid: g, Model: m}
 		gs := DefaultGuesses(m)
 		gs = gs[:len(gs)-1] // leave out the random start (slow in a trap)

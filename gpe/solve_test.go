@@ -36,7 +36,7 @@ func TestHarmonicNonInteracting(t *testing.T) {
 	}
 	for _, c := range cases {
 		g := MustGrid(c.pts, c.L)
-		m := Model{Norm: 1, Potential: Potential{Kind: Harmonic, Omega: c.w}}
+		m := Model{Norm: 1, Potential: Potential{Kind: Harmonic, AngularFreq: c.w}}
 		want := 0.0
 		for a := 0; a < g.Dim; a++ {
 			want += c.w[a] / 2

@@ -25,7 +25,7 @@ func ThomasFermiMuG(dim int, m Model, g float64) float64 {
 	if m.Potential.Kind != Harmonic || !(g > 0) {
 		return 0
 	}
-	w := m.Potential.Omega
+	w := m.Potential.AngularFreq
 	N := m.Norm
 	switch dim {
 	case 1:
@@ -42,7 +42,7 @@ func ThomasFermiMuG(dim int, m Model, g float64) float64 {
 func ThomasFermiRadii(dim int, m Model, mu float64) [3]float64 {
 	var r [3]float64
 	for a := 0; a < dim; a++ {
-		r[a] = 2 * math.Sqrt(mu) / m.Potential.Omega[a]
+		r[a] = 2 * math.Sqrt(mu) / m.Potential.AngularFreq[a]
 	}
 	return r
 }

@@ -3,6 +3,8 @@ package gpe
 import (
 	"math"
 	"testing"
+
+	"socmap/dispersion"
 )
 
 // TestThomasFermiLimit: in 1D and 3D harmonic traps μ approaches the
@@ -31,7 +33,7 @@ func TestThomasFermiLimit(t *testing.T) {
 		g := MustGrid(c.pts, c.L)
 		prev := math.Inf(1)
 		for _, ng := range c.ngs {
-			m := Model{Guu: ng, Gdd: ng, Gud: ng, Norm: 1, Potential: Potential{Kind: Harmonic, Omega: [3]float64{1, 1, 1}}}
+			m := Model{Guu: ng, Gdd: ng, Gud: ng, Norm: 1, Potential: Potential{Kind: Harmonic, AngularFreq: [3]float64{1, 1, 1}}}
 			p := Problem{Grid: g, Model: m}
 			r := solveOrFatal(t, p, Guess{Kind: GuessPlaneWave, K: 1}, nil)
 			mtf := ThomasFermiMu(c.dim, m)
@@ -71,8 +73,8 @@ func TestTrappedHelpers(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		g3SI := 4 * math.Pi * HBar * HBar * a / mRb
-		aho := func(f float64) float64 { return math.Sqrt(HBar / (mRb * 2 * math.Pi * f)) }
+		g3SI := 4 * math.Pi * dispersion.Hbar * dispersion.Hbar * a / mRb
+		aho := func(f float64) float64 { return math.Sqrt(dispersion.Hbar / (mRb * 2 * math.Pi * f)) }
 		var want float64 // SI coupling, J·m^dim
 		switch dim {
 		case 1:
@@ -86,7 +88,7 @@ func TestTrappedHelpers(t *testing.T) {
 		if math.Abs(got/want-1) > 1e-12 {
 			t.Errorf("%dD coupling %g J m^%d, want %g", dim, got, dim, want)
 		}
-		w := m.Potential.Omega[0] * u.ER / HBar
+		w := m.Potential.AngularFreq[0] * u.ER / dispersion.Hbar
 		if math.Abs(w/(2*math.Pi*20)-1) > 1e-12 {
 			t.Errorf("trap ω %g rad/s, want %g", w, 2*math.Pi*20)
 		}
@@ -96,7 +98,7 @@ func TestTrappedHelpers(t *testing.T) {
 	}
 	// Oscillator length: a_ho k_R = √(2/ω) with ω in E_R/ħ.
 	w := u.AngularFromHz(50)
-	if d := OscillatorLength(w)/u.KR - math.Sqrt(HBar/(mRb*2*math.Pi*50)); math.Abs(d) > 1e-12*OscillatorLength(w)/u.KR {
+	if d := OscillatorLength(w)/u.KR - math.Sqrt(dispersion.Hbar/(mRb*2*math.Pi*50)); math.Abs(d) > 1e-12*OscillatorLength(w)/u.KR {
 		t.Errorf("oscillator length off by %g m", d)
 	}
 }
@@ -107,7 +109,7 @@ func TestTrappedHelpers(t *testing.T) {
 func TestThomasFermiFormulas(t *testing.T) {
 	w := [3]float64{0.7, 1.1, 1.9}
 	for dim := 1; dim <= 3; dim++ {
-		m := Model{Guu: 3.3, Norm: 500, Potential: Potential{Kind: Harmonic, Omega: w}}
+		m := Model{Guu: 3.3, Norm: 500, Potential: Potential{Kind: Harmonic, AngularFreq: w}}
 		mu := ThomasFermiMu(dim, m)
 		R := ThomasFermiRadii(dim, m, mu)
 		n := []int{4000, 400, 120}[dim-1]

@@ -7,14 +7,9 @@ import (
 	"socmap/dispersion"
 )
 
-// SI constants, the project's CODATA values (dispersion/constants.go).
-const (
-	PlanckH = dispersion.Planck // J s
-	HBar    = dispersion.Hbar   // J s
-)
-
 // Units converts between the internal units (k_R, 1/k_R, E_R, ħ/E_R) and SI
-// for one recoil momentum k_R (in 1/m) and recoil energy E_R (in J).
+// for one recoil momentum k_R (in 1/m) and recoil energy E_R (in J). The SI
+// constants are the project's one set, in package dispersion (CODATA 2018).
 type Units struct {
 	KR float64 // recoil wavenumber k_R in 1/m
 	ER float64 // recoil energy E_R in J
@@ -29,16 +24,16 @@ func NewUnits(kR, eRJoule float64) (Units, error) {
 }
 
 // UnitsHz returns Units for k_R in 1/m and E_R/h in Hz.
-func UnitsHz(kR, eRHz float64) (Units, error) { return NewUnits(kR, eRHz*PlanckH) }
+func UnitsHz(kR, eRHz float64) (Units, error) { return NewUnits(kR, eRHz*dispersion.Planck) }
 
 // UnitsMass returns Units for k_R in 1/m and the atomic mass in kg, with
 // E_R = ħ²k_R²/2m.
 func UnitsMass(kR, massKg float64) (Units, error) {
-	return NewUnits(kR, HBar*HBar*kR*kR/(2*massKg))
+	return NewUnits(kR, dispersion.Hbar*dispersion.Hbar*kR*kR/(2*massKg))
 }
 
 // Mass returns the atomic mass m = ħ²k_R²/(2E_R) in kg.
-func (u Units) Mass() float64 { return HBar * HBar * u.KR * u.KR / (2 * u.ER) }
+func (u Units) Mass() float64 { return dispersion.Hbar * dispersion.Hbar * u.KR * u.KR / (2 * u.ER) }
 
 // LengthSI converts a length from 1/k_R to metres.
 func (u Units) LengthSI(x float64) float64 { return x / u.KR }
@@ -47,17 +42,17 @@ func (u Units) LengthSI(x float64) float64 { return x / u.KR }
 func (u Units) Length(m float64) float64 { return m * u.KR }
 
 // EnergyHz converts an energy from E_R to Hz (E/h).
-func (u Units) EnergyHz(e float64) float64 { return e * u.ER / PlanckH }
+func (u Units) EnergyHz(e float64) float64 { return e * u.ER / dispersion.Planck }
 
 // EnergyFromHz converts E/h in Hz to E_R.
-func (u Units) EnergyFromHz(f float64) float64 { return f * PlanckH / u.ER }
+func (u Units) EnergyFromHz(f float64) float64 { return f * dispersion.Planck / u.ER }
 
 // TimeSI converts a time from ħ/E_R to seconds.
-func (u Units) TimeSI(t float64) float64 { return t * HBar / u.ER }
+func (u Units) TimeSI(t float64) float64 { return t * dispersion.Hbar / u.ER }
 
 // AngularFromHz converts a trap frequency f (Hz, ω = 2πf) to ω in E_R/ħ:
 // ħω/E_R = h f/E_R.
-func (u Units) AngularFromHz(f float64) float64 { return f * PlanckH / u.ER }
+func (u Units) AngularFromHz(f float64) float64 { return f * dispersion.Planck / u.ER }
 
 // Coupling3D returns g = 4πħ²a/m for an s-wave scattering length a (m) in
 // internal units E_R·(1/k_R)³: g/(E_R k_R⁻³) = 8π a k_R (since

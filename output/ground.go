@@ -11,27 +11,17 @@ import (
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
 
+	"socmap/dispersion"
 	"socmap/gpe"
 	"socmap/output/h5"
+	"socmap/phases"
 	"socmap/phases/label"
 )
 
-// VariationalRef is the variational prediction printed beside a box ground state.
-type VariationalRef struct {
-	Where    string // "uniform box", or the uniform gas at the Thomas–Fermi peak density of a trap
-	Phase    label.Phase
-	Energy   float64 // E_R per particle
-	K1       float64 // k_R
-	Contrast float64
-}
-
-// GroundResult is a ground-state solve with everything needed to report it.
+// GroundResult renders a ground-state solve (phases.Ground) as a table,
+// JSON, HDF5 and PNG.
 type GroundResult struct {
-	Problem     gpe.Problem
-	Multi       *gpe.MultiResult
-	Units       *gpe.Units // nil without a scheme
-	Variational *VariationalRef
-	Notes       []string
+	*phases.GroundResult
 }
 
 // Table summarises the solve.
@@ -101,6 +91,48 @@ func (r *GroundResult) Table() *Table {
 	return t
 }
 
+// JSON returns the result as one JSON document (values in E_R and k_R
+// unless a key names an SI unit).
+func (r *GroundResult) JSON() map[string]any {
+	n := JSONNum
+	o := r.Multi.Observed
+	b := r.Multi.Best
+	starts := []map[string]any{}
+	for _, s := range r.Multi.Starts {
+		starts = append(starts, map[string]any{"name": s.Name, "status": s.Status.String(), "energy_per_particle_over_ER": n(s.Energy),
+			"phase": s.Phase.String(), "residual_over_ER": n(s.Residual), "k1_over_kR": n(s.K1)})
+	}
+	g := r.Problem.Grid
+	doc := map[string]any{
+		"phase": o.Phase.String(), "status": b.Status.String(), "energy_per_particle_over_ER": n(o.Energies.Total),
+		"mu_over_ER": n(o.Energies.Mu), "sz": n(o.Sz), "sx": n(o.Sx), "k1_over_kR": n(o.K1), "contrast": n(o.Contrast),
+		"fourier_2k1": n(o.Fourier2K1), "stripe_period_over_inv_kR": n(o.StripePeriod),
+		"iterations": b.Iterations, "split_steps": b.SplitSteps, "residual_over_ER": n(b.Residual),
+		"energy_parts_over_ER": map[string]any{"kinetic": n(o.Energies.Kinetic), "potential": n(o.Energies.Potential),
+			"rabi": n(o.Energies.Rabi), "detuning": n(o.Energies.Detuning), "interaction": n(o.Energies.Interaction)},
+		"frac_up": n(o.FracUp), "frac_down": n(o.FracDown),
+		"starts": starts, "energy_spread_over_ER": n(r.Multi.Spread), "converged_starts": r.Multi.Converged,
+		"grid":       map[string]any{"dims": g.Dim, "points": g.Shape(), "length_over_inv_kR": g.L[:g.Dim]},
+		"thresholds": map[string]any{"single_minimum_k_over_kR": o.Thresholds.SingleMinimumK, "stripe_minority": o.Thresholds.StripeMinority},
+		"notes":      append([]string{}, r.Notes...),
+	}
+	if o.MuTF > 0 {
+		doc["mu_thomas_fermi_over_ER"] = n(o.MuTF) // band bottom + μ_TF(g_eff), from gpe.Observe
+	}
+	if v := r.Variational; v != nil {
+		doc["variational"] = map[string]any{"where": v.Where, "phase": v.Phase.String(), "energy_per_particle_over_ER": v.Energy,
+			"k1_over_kR": v.K1, "contrast": v.Contrast, "agrees_with_gpe": v.Phase == o.Phase}
+	}
+	if r.Units != nil {
+		doc["k_R_per_m"] = r.Units.KR
+		doc["E_R_hz"] = r.Units.ER / dispersion.Planck
+		if o.Phase == label.Stripe && o.StripePeriod > 0 {
+			doc["stripe_period_m"] = r.Units.LengthSI(o.StripePeriod)
+		}
+	}
+	return doc
+}
+
 func lengths(g *gpe.Grid) string {
 	s := ""
 	for a := 0; a < g.Dim; a++ {
@@ -131,7 +163,7 @@ func (r *GroundResult) WriteH5(w *Writer) {
 	w.Scalar("/model/norm", m.Norm, "dimensionless", "∫|ψ|² dV: atom number (trap) or box volume (uniform box, mean density 1)")
 	w.Attr("/model", "potential", m.Potential.Kind.String())
 	if m.Potential.Kind == gpe.Harmonic {
-		w.Array("/model/trap_omega", m.Potential.Omega[:g.Dim], nil, "E_R/ħ", "harmonic trap angular frequencies")
+		w.Array("/model/trap_omega", m.Potential.AngularFreq[:g.Dim], nil, "E_R/ħ", "harmonic trap angular frequencies")
 	}
 	if r.Units != nil {
 		w.Scalar("/units/k_R", r.Units.KR, "1/m", "recoil wavenumber: unit of momentum")

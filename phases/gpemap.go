@@ -26,11 +26,12 @@ var GPEObservables = []Observable{
 
 // GPESettings configure GPEPoints. Zero fields take the documented defaults.
 type GPESettings struct {
-	// Points: grid points along x; 0 chooses a power of two ≥ 128 with
-	// k_max = π/dx ≥ 4 k_R.
+	// Points: grid points along x; 0 chooses them by gpe.AutoPoints (a power
+	// of two from 256 to 1024 with k_max = π/dx ≥ 4 k_R).
 	Points int
-	// Length: box length along x (1/k_R); 0 sizes the box per point from the
-	// variational k₁ (gpe.AutoBox, about four stripe wavelengths).
+	// Length: box length along x (1/k_R); 0 sizes the box per point for the
+	// variational k₁ (or the competing stripe branch's for a single minimum):
+	// four wavelengths, gpe.AutoLength(gpe.BoxMomentum(...)).
 	Length float64
 	// RandomStarts: random starts (seeds 1…n) besides the variational
 	// optimum and the competing branch's state. Default 0.
@@ -58,24 +59,15 @@ func GPEPoints(problem func(ix, iy int) (Uniform, error), s GPESettings) PointFu
 			return PointResult{}, err
 		}
 		// The box admits the momentum of the variational winner exactly (for a
-		// single minimum, that of the competing stripe branch).
-		k1 := math.Abs(vr.K1)
-		if k1 < 0.05 {
-			k1 = math.Abs(vr.StripeState.K1())
-		}
-		if k1 < 0.05 {
-			k1 = 1
-		}
+		// single minimum, that of the competing stripe branch): the shared
+		// rule of gpe/autogrid.go.
 		L := s.Length
 		if L == 0 {
-			L, _ = gpe.AutoBox(k1, 8*math.Pi/k1, 0)
+			L = gpe.AutoLength(gpe.BoxMomentum(vr.K1, vr.StripeState.K1()))
 		}
 		n := s.Points
 		if n == 0 {
-			n = 128
-			for float64(n) < 4*L/math.Pi {
-				n *= 2
-			}
+			n = gpe.AutoPoints(1, L)
 		}
 		grid, err := gpe.NewGrid([]int{n}, []float64{L})
 		if err != nil {

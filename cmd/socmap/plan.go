@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"os"
 	"sort"
+	"strconv"
 	"strings"
 
 	"github.com/BurntSushi/toml"
@@ -27,12 +28,14 @@ import (
 // command does not use is ignored (one plan serves every command). Flags given
 // on the command line override the plan.
 
-// planSettings flattens a decoded plan into key → text.
-func planSettings(data map[string]any, prefix string, out map[string]string) error {
+// planSettings flattens a decoded plan into key → text; an array is
+// joined with commas in out and kept element by element in lists (for
+// repeatable flags).
+func planSettings(data map[string]any, prefix string, out map[string]string, lists map[string][]string) error {
 	for k, v := range data {
 		switch t := v.(type) {
 		case map[string]any:
-			if err := planSettings(t, k, out); err != nil {
+			if err := planSettings(t, k, out, lists); err != nil {
 				return err
 			}
 		case []any:
@@ -41,6 +44,7 @@ func planSettings(data map[string]any, prefix string, out map[string]string) err
 				parts[i] = fmt.Sprint(e)
 			}
 			out[k] = strings.Join(parts, ",")
+			lists[k] = parts
 		default:
 			if _, dup := out[k]; dup {
 				return fmt.Errorf("key %q appears twice", k)
@@ -51,16 +55,19 @@ func planSettings(data map[string]any, prefix string, out map[string]string) err
 	return nil
 }
 
-func readPlanText(text, name string) (map[string]string, error) {
+// readPlanText decodes a plan. A leading UTF-8 byte-order mark (as some
+// editors and spreadsheets write it) is dropped.
+func readPlanText(text, name string) (map[string]string, map[string][]string, error) {
+	text = strings.TrimPrefix(text, "\ufeff")
 	var data map[string]any
 	if _, err := toml.Decode(text, &data); err != nil {
-		return nil, usagef("--plan %s: not valid TOML: %v", name, strings.ReplaceAll(err.Error(), "\n", " "))
+		return nil, nil, usagef("--plan %s: not valid TOML: %v", name, strings.ReplaceAll(err.Error(), "\n", " "))
 	}
-	out := map[string]string{}
-	if err := planSettings(data, "", out); err != nil {
-		return nil, usagef("--plan %s: %v", name, err)
+	out, lists := map[string]string{}, map[string][]string{}
+	if err := planSettings(data, "", out, lists); err != nil {
+		return nil, nil, usagef("--plan %s: %v", name, err)
 	}
-	return out, nil
+	return out, lists, nil
 }
 
 // applyPlan sets every flag of cmd that the plan names and the command line did not.
@@ -77,7 +84,7 @@ func applyPlan(cmd *cobra.Command) error {
 
 func applyPlanText(cmd *cobra.Command, text, name string) error {
 	g.planText = text
-	settings, err := readPlanText(text, name)
+	settings, lists, err := readPlanText(text, name)
 	if err != nil {
 		return err
 	}
@@ -95,7 +102,7 @@ func applyPlanText(cmd *cobra.Command, text, name string) error {
 		if f == nil || f.Changed {
 			continue
 		}
-		if err := cmd.Flags().Set(k, settings[k]); err != nil {
+		if err := setPlanFlag(cmd.Flags(), f, settings[k], lists[k]); err != nil {
 			return usagef("--plan %s: %s = %q: %v", name, k, settings[k], err)
 		}
 		f.Changed = true
@@ -107,6 +114,16 @@ func applyPlanText(cmd *cobra.Command, text, name string) error {
 	return nil
 }
 
+// setPlanFlag sets a flag from a plan value: a repeatable flag takes a
+// TOML array element by element, any other flag the text (an array joined
+// with commas).
+func setPlanFlag(fs *pflag.FlagSet, f *pflag.Flag, text string, list []string) error {
+	if sv, ok := f.Value.(pflag.SliceValue); ok && list != nil {
+		return sv.Replace(list)
+	}
+	return fs.Set(f.Name, text)
+}
+
 // effectivePlan renders the settings of cmd (every flag it has, with its value)
 // as TOML, for result files: running the command with this plan repeats it.
 func effectivePlan(cmd *cobra.Command) string {
@@ -115,6 +132,18 @@ func effectivePlan(cmd *cobra.Command) string {
 	cmd.Flags().VisitAll(func(f *pflag.Flag) {
 		switch f.Name {
 		case "plan", "json", "quiet", "force", "help", "version", "out":
+			return
+		}
+		if sv, ok := f.Value.(pflag.SliceValue); ok {
+			// Lists as TOML arrays; an empty list is left out (its text
+			// "[]" is not a value the flag takes back).
+			if vals := sv.GetSlice(); len(vals) > 0 {
+				q := make([]string, len(vals))
+				for i, v := range vals {
+					q[i] = strconv.Quote(v)
+				}
+				fmt.Fprintf(&b, "%s = [%s]\n", f.Name, strings.Join(q, ", "))
+			}
 			return
 		}
 		if f.Value.String() == "" {

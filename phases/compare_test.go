@@ -1,0 +1,106 @@
+package phases
+
+import (
+	"errors"
+	"math"
+	"testing"
+
+	"socmap/dispersion"
+	"socmap/phases/label"
+)
+
+func demoRaman(sp dispersion.Species) dispersion.Raman {
+	return dispersion.Raman{Species: sp, Wavelength: 790e-9, Angle: math.Pi, RabiHz: 15e3}
+}
+
+// With equal intra-species scattering lengths (invented values, a↑↑ = a↓↓ =
+// 100.4 a₀, a↑↓ = 98 a₀) the comparison is the symmetric case in each
+// scheme's E_R: δ_b = 0 and the stripe window is [0, Ω_c] with the closed
+// form of Y. Li, L. P. Pitaevskii, S. Stringari, Phys. Rev. Lett. 108, 225301
+// (2012) (UpperStripeOmega), in each scheme's own G1, G2.
+func TestCompareSymmetricWindow(t *testing.T) {
+	sh, _ := demoShake(t)
+	c := dispersion.ExplicitCouplings(sh.Species.Mass, 100.4, 100.4, 98)
+	r, err := Compare(Comparison{Shake: sh, Raman: demoRaman(sh.Species), Couplings: c, Density: 1e20}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, s := range []SchemeSide{r.Shake, r.Raman} {
+		g1, g2, dg := s.Uniform.Couplings()
+		if s.DeltaBalancing != 0 || dg != 0 {
+			t.Errorf("%s: δ_b = %g, Δg = %g", s.Name, s.DeltaBalancing, dg)
+		}
+		want := UpperStripeOmega(g1, g2)
+		if !s.Window.Found || s.Window.Lo != 0 || math.Abs(s.Window.Hi-want) > 1e-6 {
+			t.Errorf("%s: window %+v, closed form [0, %.8f] (G1 %g, G2 %g)", s.Name, s.Window, want, g1, g2)
+		}
+		if s.MidOmega != s.Window.Hi/2 || s.Mid.Phase != label.Stripe {
+			t.Errorf("%s: mid-window Ω %g, state %v", s.Name, s.MidOmega, s.Mid.Phase)
+		}
+		// The verdict follows from the planned states.
+		v := s.Verdict
+		switch {
+		case s.Planned.Phase == label.Stripe && v.Code != StripePlanned,
+			s.Planned.Phase != label.Stripe && s.PlannedBalanced.Phase == label.Stripe && v.Code != StripeAtBalancing,
+			s.Planned.Phase != label.Stripe && s.PlannedBalanced.Phase != label.Stripe && v.Code != NoStripePlanned:
+			t.Errorf("%s: verdict %+v for planned %v, balanced %v", s.Name, v, s.Planned.Phase, s.PlannedBalanced.Phase)
+		}
+		om := s.Model.OmegaOverER
+		if v.InWindow != (om > s.Window.Lo && om < s.Window.Hi) {
+			t.Errorf("%s: in window %v for Ω = %g", s.Name, v.InWindow, om)
+		}
+	}
+	if sc := r.RamanLimits.Scattering; sc == nil || math.Abs(sc.RabiHz-r.Raman.MidOmega*r.Raman.ERHz()) > 1e-9*sc.RabiHz || !(sc.Rate > 0) {
+		t.Errorf("Raman scattering at mid window: %+v", sc)
+	}
+	if m := r.ShakeLimits.Micromotion; m == nil || math.Abs(m.Fraction-m.AmplitudeM/m.PeriodM) > 1e-15 || m.PeriodM != r.Shake.StripePeriodM() {
+		t.Errorf("micromotion limit %+v", m)
+	}
+}
+
+// A trap sets the density to the Thomas–Fermi peak density; with g↑↑ = g↓↓
+// and g↑↓ > g there is no stripe window (G2 < 0).
+func TestCompareTrapAndNoWindow(t *testing.T) {
+	sh, c := demoShake(t)
+	tr := &CompareTrap{Atoms: 2e5, FreqHz: [3]float64{30, 30, 100}}
+	r, err := Compare(Comparison{Shake: sh, Raman: demoRaman(sh.Species), Couplings: c, Trap: tr}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tf, err := dispersion.NewThomasFermi(sh.Species.Mass, c.PairCoupling(), tr.Atoms, tr.FreqHz)
+	if err != nil || r.ThomasFermi == nil || r.Density != tf.Peak {
+		t.Errorf("density %g, Thomas–Fermi peak %g (%v)", r.Density, tf.Peak, err)
+	}
+	c2 := dispersion.ExplicitCouplings(sh.Species.Mass, 100, 100, 101)
+	r, err = Compare(Comparison{Shake: sh, Raman: demoRaman(sh.Species), Couplings: c2, Density: 5e18}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, s := range []SchemeSide{r.Shake, r.Raman} {
+		if s.Window.Found || s.Verdict.Code != NoStripeWindow || s.Planned.Phase == label.Stripe {
+			t.Errorf("%s: G2 < 0 but window %+v, verdict %+v", s.Name, s.Window, s.Verdict)
+		}
+	}
+	if r.RamanLimits.Scattering != nil || r.ShakeLimits.Micromotion != nil {
+		t.Error("limits at mid window without a window")
+	}
+}
+
+func TestCompareBadInput(t *testing.T) {
+	sh, c := demoShake(t)
+	ra := demoRaman(sh.Species)
+	tr := &CompareTrap{Atoms: 1000, FreqHz: [3]float64{10, 10, 10}}
+	noRecoil := sh
+	noRecoil.PulsePhase = math.Pi / 2 // a sine's θ = 90°: k_t = 0
+	for name, p := range map[string]Comparison{
+		"density and trap": {Shake: sh, Raman: ra, Couplings: c, Density: 1e20, Trap: tr},
+		"neither":          {Shake: sh, Raman: ra, Couplings: c},
+		"negative density": {Shake: sh, Raman: ra, Couplings: c, Density: -1},
+		"no atoms":         {Shake: sh, Raman: ra, Couplings: c, Trap: &CompareTrap{FreqHz: tr.FreqHz}},
+		"no recoil":        {Shake: noRecoil, Raman: ra, Couplings: c, Density: 1e20},
+	} {
+		if _, err := Compare(p, nil); !errors.Is(err, ErrInput) {
+			t.Errorf("%s: error %v, want ErrInput", name, err)
+		}
+	}
+}
