@@ -230,8 +230,13 @@ type ShakeSpin1Result struct {
 	// unequal moments. The model treats spin-changing collisions as resonant
 	// (Δk neglected), valid when |Δk|·R ≪ 1 for a cloud of size R (1/k_R).
 	MixingK  float64
-	Warnings []string
+	Warnings []Warning // WarnMixingMismatch (always: it states what is neglected)
 }
+
+// WarnMixingMismatch: the three-level model of the shaking scheme treats
+// spin-changing collisions as resonant, neglecting the lab-momentum mismatch
+// ShakeSpin1Result.MixingK of the unequal recoils.
+const WarnMixingMismatch = "spin-mixing-mismatch"
 
 // ShakeSpin1 builds the three-level model of the shaking scheme p, whose
 // pair (Up, Down) must be two adjacent sublevels of an F = 1 manifold. Each
@@ -314,6 +319,6 @@ func ShakeSpin1(p Shake) (ShakeSpin1Result, error) {
 	}
 	r.Model = m
 	r.MixingK = 2*m.K[1] - m.K[0] - m.K[2]
-	r.Warnings = append(r.Warnings, fmt.Sprintf("spin-changing collisions treated as resonant: the lab-momentum mismatch 2K_0 − K_+1 − K_−1 = %.3g k_R is neglected (valid for clouds ≪ %.3g /k_R)", r.MixingK, 1/math.Max(math.Abs(r.MixingK), 1e-300)))
+	r.Warnings = append(r.Warnings, Warning{Code: WarnMixingMismatch, Text: fmt.Sprintf("spin-changing collisions treated as resonant: the lab-momentum mismatch 2K_0 − K_+1 − K_−1 = %.3g k_R is neglected (valid for clouds ≪ %.3g /k_R)", r.MixingK, 1/math.Max(math.Abs(r.MixingK), 1e-300))})
 	return r, nil
 }

@@ -67,8 +67,8 @@ func (m Spin1Model) Validate(g *Grid) error {
 	}
 	if m.Potential.Kind == Harmonic {
 		for a := 0; a < g.Dim; a++ {
-			if !(m.Potential.Omega[a] > 0) {
-				return fmt.Errorf("gpe: harmonic trap needs ω > 0 on axis %d (got %g)", a, m.Potential.Omega[a])
+			if !(m.Potential.AngularFreq[a] > 0) {
+				return fmt.Errorf("gpe: harmonic trap needs ω > 0 on axis %d (got %g)", a, m.Potential.AngularFreq[a])
 			}
 		}
 	}

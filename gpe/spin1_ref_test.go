@@ -44,7 +44,7 @@ func TestSpin1AgainstNumpy(t *testing.T) {
 		m := Spin1FromDispersion(d)
 		m.C0, m.C2, m.Norm = c.C0, c.C2, c.Norm
 		if c.TrapOmega > 0 {
-			m.Potential = Potential{Kind: Harmonic, Omega: [3]float64{c.TrapOmega}}
+			m.Potential = Potential{Kind: Harmonic, AngularFreq: [3]float64{c.TrapOmega}}
 		}
 		p := Spin1Problem{Grid: g, Model: m}
 		mr, err := Spin1MultiStart(p, d, nil, nil)

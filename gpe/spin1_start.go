@@ -61,7 +61,7 @@ func (gs Spin1Guess) Build(p Spin1Problem, d dispersion.Spin1Model) (*Spin1State
 		mu := ThomasFermiMu(g.Dim, m2)
 		var w [3]float64
 		for a := 0; a < g.Dim; a++ {
-			om := p.Model.Potential.Omega[a]
+			om := p.Model.Potential.AngularFreq[a]
 			w[a] = math.Max(OscillatorLength(om), math.Sqrt(math.Max(mu, 0))/om)
 		}
 		for idx := 0; idx < g.Size; idx++ {
