@@ -1,6 +1,7 @@
 package phases
 
 import (
+	"errors"
 	"math"
 	"math/cmplx"
 	"math/rand/v2"
@@ -295,5 +296,24 @@ func TestSpin1RamanQualitative(t *testing.T) {
 	t.Logf("Ω where the magnetisation vanishes: ε = +1: %g, 0: %g, −1: %g, −2: %g E_R", c1, c2, c3, c4)
 	if !(c1 <= c2 && c2 <= 0.25 && c2 < c3 && c3 < c4) {
 		t.Errorf("critical Ω not increasing as ε decreases: %g, %g, %g, %g", c1, c2, c3, c4)
+	}
+}
+
+// Spin1Ground on the broken-axisymmetric gas: the automatic box holds the
+// three momenta, the GPE agrees with the variational energy (exact for a
+// uniform state) and with ρ0 = 1/2 + q/(4|c2|n) (Stamper-Kurn & Ueda 2013).
+func TestSpin1Ground(t *testing.T) {
+	r, err := Spin1Ground(Spin1GroundProblem{Model: dispersion.RamanSpin1(0, 0, 1), G0: 10, G2: -1}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("grid %v L %v: GPE %v E = %.12f, variational %.12f, ρ0 %.9f, phase %v, warnings %v",
+		r.Problem.Grid.N, r.Problem.Grid.L, r.Status, r.Multi.Best.Energies.Total, r.Variational.Energy, r.Observed.Populations[1], r.Observed.Phase, r.Warnings)
+	if r.Status != 0 || math.Abs(r.Multi.Best.Energies.Total-r.Variational.Energy) > 1e-9 ||
+		math.Abs(r.Observed.Populations[1]-0.75) > 1e-7 || r.Observed.Phase != label.BrokenAxisymmetry || len(r.Warnings) != 0 {
+		t.Errorf("unexpected result")
+	}
+	if _, _, err := Spin1FromScheme(dispersion.Direct{CouplingOverER: 1}, math.NaN()); !errors.Is(err, dispersion.ErrBadInput) {
+		t.Errorf("direct model without ε accepted: %v", err)
 	}
 }
