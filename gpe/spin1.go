@@ -221,7 +221,8 @@ func (e *spin1Engine) localMatrix(i int, a, b, c complex128) (L [3][3]complex128
 // expHerm3 returns exp(−τA) of a Hermitian 3×3 A: the mean of the diagonal
 // a is split off (a scalar factor e^{−τa}), the rest is scaled by 2^{−s}
 // until its ∞-norm times τ is ≤ 1/4, exponentiated by its Taylor series to
-// order 12 (truncation < 3e-18 relative) and squared s times (C. Moler and
+// the order at which the next term is below 1e-17 (at most 12: truncation
+// < 3e-18 relative) and squared s times (C. Moler and
 // C. Van Loan, SIAM Rev. 45, 3 (2003), "scaling and squaring", common
 // practice). The result is the exact exponential to rounding, so the step is
 // norm-correct up to the renormalisation of imaginary time.
@@ -251,9 +252,15 @@ func expHerm3(A [3][3]complex128, tau float64) [3][3]complex128 {
 			B[i][j] *= f
 		}
 	}
-	// Horner: X = I + B(I + B/2(I + B/3(…)))
+	// Horner: X = I + B(I + B/2(I + B/3(…))), to the order K at which the
+	// next term ‖B‖^{K+1}/(K+1)! falls below 1e-17 (K ≤ 12 for ‖B‖ ≤ 1/4)
+	order, term := 1, nrm
+	for order < 12 && term > 1e-17 {
+		order++
+		term *= nrm / float64(order)
+	}
 	X := [3][3]complex128{{1, 0, 0}, {0, 1, 0}, {0, 0, 1}}
-	for k := 12; k >= 1; k-- {
+	for k := order; k >= 1; k-- {
 		var Y [3][3]complex128
 		c := complex(1/float64(k), 0)
 		for i := 0; i < 3; i++ {
@@ -332,11 +339,14 @@ func (e *spin1Engine) normalize() error {
 }
 
 // splitSteps takes n Strang steps exp(−τL/2) exp(−τK) exp(−τL/2) with
-// renormalisation to Norm after each (normalised gradient flow).
+// renormalisation to Norm after each kinetic factor (normalised gradient
+// flow). The local half steps of consecutive steps are fused into one
+// exp(−τL) (L taken at the state it acts on, as in the two-component
+// engine).
 func (e *spin1Engine) splitSteps(tau float64, n int) {
 	e.setKinSplit(tau)
+	e.localStep(tau / 2)
 	for it := 0; it < n; it++ {
-		e.localStep(tau / 2)
 		for c := 0; c < 3; c++ {
 			e.tr.Forward(e.psi[c])
 			for i := range e.psi[c] {
@@ -344,9 +354,14 @@ func (e *spin1Engine) splitSteps(tau float64, n int) {
 			}
 			e.tr.Backward(e.psi[c])
 		}
-		e.localStep(tau / 2)
 		_ = e.normalize()
+		if it == n-1 {
+			e.localStep(tau / 2)
+		} else {
+			e.localStep(tau)
+		}
 	}
+	_ = e.normalize()
 }
 
 // applyK writes K x into dst (both in x space); tmp is used for transforms.
