@@ -121,13 +121,13 @@ type Spin1Problem struct {
 
 // Spin1Energies of a state, per particle (divided by Norm), E_R.
 type Spin1Energies struct {
-	Kinetic     float64    // ⟨(k_x − K_m)² + k_⊥²⟩
-	Potential   float64    // ⟨V⟩
-	Zeeman      float64    // ⟨E_m⟩ (detunings, quadratic Zeeman, micromotion)
-	Coupling    float64    // ⟨(Ω/√2)F_x⟩
-	Density     float64    // (c0/2)∫n²/N
-	Spin        float64    // (c2/2)∫|F|²/N, spin-changing term included
-	Total       float64    // E/N
+	Kinetic   float64 // ⟨(k_x − K_m)² + k_⊥²⟩
+	Potential float64 // ⟨V⟩
+	Zeeman    float64 // ⟨E_m⟩ (detunings, quadratic Zeeman, micromotion)
+	Coupling  float64 // ⟨(Ω/√2)F_x⟩
+	Density   float64 // (c0/2)∫n²/N
+	Spin      float64 // (c2/2)∫|F|²/N, spin-changing term included
+	Total     float64 // E/N
 	// Mu: ⟨ψ,Hψ⟩/⟨ψ,ψ⟩; at fixed magnetisation the multiplier of the norm
 	// in Hψ ≈ μψ + λF_zψ (least squares), E_R.
 	Mu float64
