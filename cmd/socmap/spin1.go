@@ -22,6 +22,7 @@ type levelFlags struct {
 	epsER          *quantity
 	nc0, nc2       *quantity
 	a0, a2         *quantity
+	magnetization  *quantity
 	withInteracton bool
 }
 
@@ -34,6 +35,7 @@ func (f *levelFlags) add(fs *pflag.FlagSet, interactions bool) {
 		f.nc2 = qflag(fs, "nc2-er", KindNumber, "", "--levels 3: n·c2 in E_R (spin coupling; < 0 ferromagnetic)")
 		f.a0 = qflag(fs, "a0", KindNumber, "", "--levels 3 with --density: F = 1 scattering length a0 in Bohr radii (overrides the built-in value)")
 		f.a2 = qflag(fs, "a2", KindNumber, "", "--levels 3 with --density: F = 1 scattering length a2 in Bohr radii")
+		f.magnetization = qflag(fs, "magnetization", KindNumber, "", "--levels 3: fix the longitudinal magnetisation ⟨F_z⟩ per particle at M, −1 < M < 1 (conserved in experiments; default: free)")
 	}
 }
 
@@ -46,13 +48,24 @@ func (f *levelFlags) check() error {
 		for _, q := range []struct {
 			q    *quantity
 			name string
-		}{{f.epsER, "epsilon-er"}, {f.nc0, "nc0-er"}, {f.nc2, "nc2-er"}, {f.a0, "a0"}, {f.a2, "a2"}} {
+		}{{f.epsER, "epsilon-er"}, {f.nc0, "nc0-er"}, {f.nc2, "nc2-er"}, {f.a0, "a0"}, {f.a2, "a2"}, {f.magnetization, "magnetization"}} {
 			if q.q != nil && q.q.text != "" {
 				return usagef("--%s %q: only with --levels 3", q.name, q.q.text)
 			}
 		}
 	}
+	if f.magnetization != nil && f.magnetization.text != "" && !(f.magnetization.v > -1 && f.magnetization.v < 1) {
+		return usagef("--magnetization %q: allowed −1 < M < 1 (⟨F_z⟩ per particle)", f.magnetization.text)
+	}
 	return nil
+}
+
+// fixedM returns whether --magnetization is given, and its value.
+func (f *levelFlags) fixedM() (bool, float64) {
+	if f.magnetization == nil || f.magnetization.text == "" {
+		return false, 0
+	}
+	return true, f.magnetization.v
 }
 
 // model builds the three-level model from the scheme flags.
@@ -96,21 +109,31 @@ func (f *levelFlags) interactions(inf *interFlags, m dispersion.Spin1Model, atom
 	if m.ER == 0 || atom == nil {
 		return 0, 0, usagef("--density %q: needs a scheme with an atom (--scheme shake|raman) for --levels 3", inf.density.text)
 	}
+	c, err := f.couplings(atom)
+	if err != nil {
+		return 0, 0, err
+	}
+	n := inf.density.v
+	return n * c.C0 / m.ER, n * c.C2 / m.ER, nil
+}
+
+// couplings returns the F = 1 couplings of atom: from --a0/--a2 or the
+// built-in scattering lengths; missing ones are a usage error.
+func (f *levelFlags) couplings(atom *dispersion.Species) (dispersion.Spin1Couplings, error) {
 	var c dispersion.Spin1Couplings
 	var err error
 	switch {
 	case f.a0.text != "" && f.a2.text != "":
 		c, err = dispersion.Spin1CouplingsFromLengths(atom.Mass, f.a0.v, f.a2.v)
 	case f.a0.text != "" || f.a2.text != "":
-		return 0, 0, usagef("--levels 3: give both --a0 and --a2")
+		return c, usagef("--levels 3: give both --a0 and --a2")
 	default:
 		c, err = atom.Spin1Couplings()
 	}
 	if err != nil {
-		return 0, 0, usagef("--levels 3: %v (use --a0 and --a2 in Bohr radii)", strings.TrimPrefix(err.Error(), "bad input: "))
+		return c, usagef("--levels 3: %v (use --a0 and --a2 in Bohr radii)", strings.TrimPrefix(err.Error(), "bad input: "))
 	}
-	n := inf.density.v
-	return n * c.C0 / m.ER, n * c.C2 / m.ER, nil
+	return c, nil
 }
 
 // runBands3 is `bands --levels 3`.
@@ -150,11 +173,10 @@ func runBands3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, outs []string
 	return res.Table().Write(cmd.OutOrStdout())
 }
 
-// runGround3 is `ground --levels 3`: a uniform periodic box only.
+// runGround3 is `ground --levels 3`: a uniform periodic box (n·c0, n·c2)
+// or N atoms in a harmonic trap (--atoms, --trap; the atom's F = 1
+// scattering lengths or --a0/--a2).
 func runGround3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *interFlags, tf *trapFlags, gf *gridFlags, outs []string, tol float64) error {
-	if tf.trap != "" || tf.atoms.text != "" {
-		return usagef("--levels 3: only a uniform periodic box is wired yet (no --trap/--atoms)")
-	}
 	for _, o := range outs {
 		if strings.ToLower(filepath.Ext(o)) == ".png" {
 			return usagef("--out %q: --levels 3 writes .h5 and .json; the three-component PNG is not implemented yet", o)
@@ -168,14 +190,37 @@ func runGround3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *interFl
 	if l, err := mf.lab(); err == nil {
 		atom = l.Scheme.Atom()
 	}
-	nc0, nc2, err := lf.interactions(inf, m, atom)
-	if err != nil {
-		return err
-	}
 	if gf.dims < 1 || gf.dims > 3 {
 		return usagef("--dims %d: allowed 1, 2, 3", gf.dims)
 	}
-	p := phases.Spin1GroundProblem{Model: m, G0: nc0, G2: nc2, Dims: gf.dims}
+	p := phases.Spin1GroundProblem{Model: m, Dims: gf.dims}
+	p.FixMagnetization, p.Magnetization = lf.fixedM()
+	trapped := tf.trap != "" || tf.atoms.text != ""
+	if trapped {
+		if tf.trap == "" || tf.atoms.text == "" {
+			return usagef("--levels 3 in a trap: give both --atoms and --trap")
+		}
+		if inf.density.text != "" || lf.nc0.text != "" || lf.nc2.text != "" {
+			return usagef("--levels 3 in a trap: the interactions follow from --atoms and the scattering lengths; drop --density/--nc0-er/--nc2-er")
+		}
+		if atom == nil || m.ER == 0 {
+			return usagef("--trap %q: a trapped cloud needs a scheme with an atom (--scheme shake|raman)", tf.trap)
+		}
+		f, err := tf.frequencies()
+		if err != nil {
+			return err
+		}
+		c, err := lf.couplings(atom)
+		if err != nil {
+			return err
+		}
+		p.Trap = &phases.Spin1Trap{Atoms: tf.atoms.v, FreqHz: f, Couplings: c}
+	} else {
+		p.G0, p.G2, err = lf.interactions(inf, m, atom)
+		if err != nil {
+			return err
+		}
+	}
 	if gf.lengthKR != "" {
 		parts, err := perAxis("length-kr", gf.lengthKR, gf.dims)
 		if err != nil {
@@ -203,7 +248,23 @@ func runGround3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *interFl
 		}
 	}
 	if gf.lengths != "" {
-		return usagef("--length %q: --levels 3 takes the box in 1/k_R (--length-kr)", gf.lengths)
+		if gf.lengthKR != "" {
+			return usagef("--length %q: give --length or --length-kr, not both", gf.lengths)
+		}
+		if m.KR == 0 {
+			return usagef("--length %q: lengths in SI need a scheme (k_R); with a direct model use --length-kr", gf.lengths)
+		}
+		parts, err := perAxis("length", gf.lengths, gf.dims)
+		if err != nil {
+			return err
+		}
+		for _, s := range parts {
+			q, err := parseQuantity(s, KindLength)
+			if err != nil || !(q > 0) {
+				return usagef("--length %q: positive lengths, e.g. \"40 um\"", gf.lengths)
+			}
+			p.Lengths = append(p.Lengths, q*math.Abs(m.KR))
+		}
 	}
 	r, err := phases.Spin1Ground(p, &gpe.Settings{Tol: tol})
 	if errors.Is(err, dispersion.ErrBadInput) {
