@@ -60,3 +60,65 @@ func TestLevels3Commands(t *testing.T) {
 		t.Error("refused run left a file")
 	}
 }
+
+// ground --levels 3 with --magnetization (box) and in a trap: ⟨F_z⟩ = M,
+// the trap keys, the HDF5 file; bad input exits 2 with one line.
+func TestLevels3TrapAndMagnetization(t *testing.T) {
+	dir := t.TempDir()
+	code, out, errs := runArgs(t, "ground", "--levels", "3", "--omega-er", "0", "--epsilon-er", "0.4", "--nc0-er", "10", "--nc2-er", "-1",
+		"--magnetization", "0.3", "--json")
+	if code != 0 {
+		t.Fatalf("ground --magnetization: exit %d: %s", code, errs)
+	}
+	var doc map[string]any
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	// ρ0 from testdata/ref_spin1_magnetization.json (scipy single-mode minimum)
+	pops := doc["populations"].(map[string]any)
+	if math.Abs(doc["fz"].(float64)-0.3) > 1e-8 || math.Abs(pops["m0"].(float64)-0.5323645990317483) > 1e-6 || doc["magnetization_fixed"] != true {
+		t.Errorf("fixed M: fz %v, populations %v", doc["fz"], pops)
+	}
+	raman := []string{"--scheme", "raman", "--atom", "Rb87", "--wavelength", "790 nm", "--raman-rabi", "2 kHz", "--epsilon-er", "0.5"}
+	args := append([]string{"ground", "--levels", "3", "--atoms", "3000", "--trap", "40,400,400", "--points", "256", "--magnetization", "-0.2", "--json",
+		"--out", filepath.Join(dir, "trap.h5")}, raman...)
+	code, out, errs = runArgs(t, args...)
+	if code != 0 {
+		t.Fatalf("ground --levels 3 in a trap: exit %d: %s", code, errs)
+	}
+	doc = nil
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range []string{"populations", "fz", "f_perp", "phase", "energy_per_particle_over_ER", "residual_over_ER", "atoms", "trap_hz", "peak_density_per_m_d", "box_length_m", "lambda_over_ER"} {
+		if _, ok := doc[k]; !ok {
+			t.Errorf("trapped JSON lacks %q", k)
+		}
+	}
+	if doc["geometry"] != "harmonic trap" || math.Abs(doc["fz"].(float64)+0.2) > 1e-8 || doc["status"] != "converged" {
+		t.Errorf("trap: geometry %v, fz %v, status %v", doc["geometry"], doc["fz"], doc["status"])
+	}
+	if _, err := os.Stat(filepath.Join(dir, "trap.h5")); err != nil {
+		t.Error(err)
+	}
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"ground", "--levels", "3", "--omega-er", "1", "--epsilon-er", "0.5", "--nc0-er", "1", "--nc2-er", "0", "--magnetization", "1"}, "--magnetization"},
+		{[]string{"ground", "--omega-er", "1", "--G1", "1", "--magnetization", "0.1"}, "--magnetization"},
+		{append([]string{"ground", "--levels", "3", "--atoms", "1000"}, raman...), "--trap"},
+		{append([]string{"ground", "--levels", "3", "--atoms", "1000", "--trap", "50", "--nc0-er", "1", "--nc2-er", "0"}, raman...), "--nc0-er"},
+		{[]string{"ground", "--levels", "3", "--omega-er", "1", "--epsilon-er", "0.5", "--atoms", "1000", "--trap", "50"}, "--trap"},
+		{[]string{"ground", "--levels", "3", "--scheme", "raman", "--atom", "K39", "--wavelength", "770 nm", "--raman-rabi", "5 kHz", "--epsilon-er", "0.5",
+			"--atoms", "1000", "--trap", "50", "--out", filepath.Join(dir, "k.h5")}, "a0"},
+	} {
+		code, _, errs := runArgs(t, c.args...)
+		if code != 2 || !strings.Contains(errs, c.want) || strings.Count(strings.TrimSpace(errs), "\n") != 0 {
+			t.Errorf("%v: exit %d, message %q (want exit 2, one line with %q)", c.args, code, errs, c.want)
+		}
+	}
+	if _, err := os.Stat(filepath.Join(dir, "k.h5")); err == nil {
+		t.Error("refused run left a file")
+	}
+}
