@@ -184,6 +184,8 @@ type Spin1CompareSettings struct {
 	// UseShakeBias: take the Raman ε from the shaking scheme's bias field
 	// (default behaviour of the command when no ε is given).
 	UseShakeBias bool
+	// Couplings: the F = 1 couplings (nil: the atom's built-in a0, a2).
+	Couplings *dispersion.Spin1Couplings
 	// Variational: settings of the spin-1 theory (nil: defaults).
 	Variational *Spin1Settings
 }
@@ -211,8 +213,11 @@ func Spin1Compare(c Comparison, r *CompareResult, s *Spin1CompareSettings) (*Spi
 		set = *s
 	}
 	sp := c.Shake.Species
-	cp, err := sp.Spin1Couplings()
-	if err != nil {
+	var cp dispersion.Spin1Couplings
+	var err error
+	if set.Couplings != nil {
+		cp = *set.Couplings
+	} else if cp, err = sp.Spin1Couplings(); err != nil {
 		return nil, err
 	}
 	out := &Spin1Comparison{Couplings: cp}

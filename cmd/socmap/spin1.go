@@ -39,6 +39,13 @@ func (f *levelFlags) add(fs *pflag.FlagSet, interactions bool) {
 	}
 }
 
+// addLengths registers only --a0/--a2 (commands without the other
+// interaction flags, e.g. compare).
+func (f *levelFlags) addLengths(fs *pflag.FlagSet) {
+	f.a0 = qflag(fs, "a0", KindNumber, "", "--levels 3: F = 1 scattering length a0 in Bohr radii (overrides the built-in value)")
+	f.a2 = qflag(fs, "a2", KindNumber, "", "--levels 3: F = 1 scattering length a2 in Bohr radii")
+}
+
 // check refuses --levels values and three-level flags without --levels 3.
 func (f *levelFlags) check() error {
 	if f.levels != 2 && f.levels != 3 {
@@ -287,4 +294,43 @@ func runGround3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *interFl
 		return writeJSON(cmd.OutOrStdout(), doc)
 	}
 	return res.Table().Write(cmd.OutOrStdout())
+}
+
+// spin1CompareCheck is the three-level part of `compare`: the answer with
+// --levels 3, a check with --levels 2 when the pair lies in F = 1 and the
+// atom has a0, a2 (nil otherwise). With --levels 3 a pair outside one
+// F = 1 manifold or missing a0/a2 is a usage error.
+func spin1CompareCheck(lf *levelFlags, p phases.Comparison, res *phases.CompareResult) (*output.Spin1CompareReport, error) {
+	sh := p.Shake
+	f1 := sh.Up.F == 1 && sh.Down.F == 1
+	if lf.levels == 2 {
+		if !f1 {
+			return nil, nil
+		}
+		if _, err := sh.Species.Spin1Couplings(); err != nil && lf.a0.text == "" {
+			return nil, nil
+		}
+	}
+	set := &phases.Spin1CompareSettings{RamanEpsilonOverER: math.NaN()}
+	if lf.epsER.text != "" {
+		set.RamanEpsilonOverER = lf.epsER.v
+	}
+	if lf.levels == 3 || lf.a0.text != "" || lf.a2.text != "" {
+		c, err := lf.couplings(&sh.Species)
+		if err != nil {
+			return nil, err
+		}
+		set.Couplings = &c
+	}
+	c, err := phases.Spin1Compare(p, res, set)
+	if errors.Is(err, dispersion.ErrBadInput) {
+		if lf.levels == 2 {
+			return nil, nil
+		}
+		return nil, usagef("--levels 3: %v", strings.TrimPrefix(err.Error(), "bad input: "))
+	}
+	if err != nil {
+		return nil, err
+	}
+	return &output.Spin1CompareReport{Spin1Comparison: c, Levels: lf.levels}, nil
 }

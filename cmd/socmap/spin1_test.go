@@ -122,3 +122,50 @@ func TestLevels3TrapAndMagnetization(t *testing.T) {
 		t.Error("refused run left a file")
 	}
 }
+
+// compare: an F = 1 pair with --levels 2 carries the three-level check;
+// --levels 3 at a low bias field finds the Raman window moved (ε = q(3 G)
+// ≈ 0.18 E_R of the Raman recoil) and says so; bad input exits 2.
+func TestCompareLevels(t *testing.T) {
+	base := []string{"compare", "--plan", "plans/demo.toml", "--density", "1e14 cm^-3", "--json"}
+	code, out, errs := runArgs(t, base...)
+	if code != 0 {
+		t.Fatalf("compare: exit %d %s", code, errs)
+	}
+	var doc map[string]any
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	tl, ok := doc["three_level"].(map[string]any)
+	if !ok || tl["levels"].(float64) != 2 || tl["raman"].(map[string]any)["matters"] != false {
+		t.Fatalf("--levels 2 three-level check: %v", doc["three_level"])
+	}
+	code, out, errs = runArgs(t, append(base, "--levels", "3", "--bias", "3 G")...)
+	if code != 0 {
+		t.Fatalf("compare --levels 3: exit %d %s", code, errs)
+	}
+	doc = nil
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	tl = doc["three_level"].(map[string]any)
+	ram := tl["raman"].(map[string]any)
+	w3, w2 := ram["stripe_window_rabi_hz"].([]any), ram["two_level_window_rabi_hz"].([]any)
+	t.Logf("Raman window three levels %v Hz, two levels %v Hz; advice: %v", w3, w2, tl["advice"])
+	if ram["matters"] != true || !(w3[1].(float64) < 0.95*w2[1].(float64)) || !strings.Contains(tl["advice"].(string), "Raman") {
+		t.Errorf("low field: %v", ram)
+	}
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--levels", "3", "--up", "2,1", "--down", "2,2", "--a-uu", "100", "--a-dd", "100", "--a-ud", "98"}, "F = 1"},
+		{[]string{"--levels", "3", "--atom", "K39", "--wavelength", "770 nm", "--a-uu", "100", "--a-dd", "100", "--a-ud", "98"}, "--a0"},
+		{[]string{"--epsilon-er", "1"}, "--epsilon-er"},
+	} {
+		code, _, errs := runArgs(t, append(append([]string{}, base...), c.args...)...)
+		if code != 2 || !strings.Contains(errs, c.want) || strings.Count(strings.TrimSpace(errs), "\n") != 0 {
+			t.Errorf("%v: exit %d, message %q (want exit 2, one line with %q)", c.args, code, errs, c.want)
+		}
+	}
+}

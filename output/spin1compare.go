@@ -1,0 +1,106 @@
+package output
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"socmap/phases"
+)
+
+// Spin1CompareReport renders the three-level answer of a scheme comparison
+// (phases.Spin1Comparison) beside the two-level report: with Levels 3 it is
+// the answer, with Levels 2 a check of the pseudo-spin one.
+type Spin1CompareReport struct {
+	*phases.Spin1Comparison
+	Levels int
+}
+
+func (r *Spin1CompareReport) sides() [2]*phases.Spin1Side {
+	return [2]*phases.Spin1Side{&r.Shake, &r.Raman}
+}
+
+// Advice is the line that says whether the three-level answer matters
+// (phases.Spin1MattersFraction).
+func (r *Spin1CompareReport) Advice() string {
+	var which []string
+	for i, s := range r.sides() {
+		if s.Matters {
+			which = append(which, [2]string{"shaking", "Raman"}[i])
+		}
+	}
+	if len(which) == 0 {
+		return fmt.Sprintf("the three-level answer agrees with the two-level one (window edges within %g %% of the window, same planned phase)", 100*phases.Spin1MattersFraction)
+	}
+	if r.Levels == 3 {
+		return fmt.Sprintf("the third level matters for the %s scheme (a window edge moved by more than %g %% of the window, or another planned phase): the two-level answer is not enough", strings.Join(which, " and "), 100*phases.Spin1MattersFraction)
+	}
+	return fmt.Sprintf("the third level matters for the %s scheme (a window edge moved by more than %g %% of the window, or another planned phase): use --levels 3", strings.Join(which, " and "), 100*phases.Spin1MattersFraction)
+}
+
+func hzEdge(w phases.Window, lo bool, erHz float64) string {
+	if !w.Found {
+		return "none"
+	}
+	v := w.Hi
+	if lo {
+		v = w.Lo
+	}
+	if math.IsInf(v, 1) {
+		return "beyond scan"
+	}
+	return Num(v*erHz, 4)
+}
+
+// Table renders the three-level section.
+func (r *Spin1CompareReport) Table() *Table {
+	title := "Three-level (F = 1) answer"
+	if r.Levels == 2 {
+		title = "Three-level (F = 1) check of the pseudo-spin answer"
+	}
+	t := &Table{Title: fmt.Sprintf("%s: n c0, n c2 from a0, a2 of the atom", title)}
+	sd := r.sides()
+	col := func(f func(s *phases.Spin1Side) string) []string { return []string{f(sd[0]), f(sd[1])} }
+	t.Columns("", []string{"shaking + RF", "Raman"}, "")
+	t.Columns("n c0, n c2", col(func(s *phases.Spin1Side) string { return Num(s.G0, 4) + ", " + Num(s.G2, 3) }), "E_R")
+	t.Columns("stripe window from (three levels)", col(func(s *phases.Spin1Side) string { return hzEdge(s.Window, true, s.ERHz) }), "Hz")
+	t.Columns("… to", col(func(s *phases.Spin1Side) string { return hzEdge(s.Window, false, s.ERHz) }), "Hz")
+	t.Columns("two-level window from", col(func(s *phases.Spin1Side) string { return hzEdge(s.TwoLevel, true, s.ERHz) }), "Hz")
+	t.Columns("… to", col(func(s *phases.Spin1Side) string { return hzEdge(s.TwoLevel, false, s.ERHz) }), "Hz")
+	t.Columns("lower edge moves by", col(func(s *phases.Spin1Side) string { return numOrNA(s.LoShiftHz, 3) }), "Hz")
+	t.Columns("upper edge moves by", col(func(s *phases.Spin1Side) string { return numOrNA(s.HiShiftHz, 3) }), "Hz")
+	t.Columns("phase at planned point (three levels)", col(func(s *phases.Spin1Side) string { return s.Planned.Phase.String() }), "")
+	t.Columns("⟨F_z⟩ at planned point", col(func(s *phases.Spin1Side) string { return Num(s.Planned.Fz, 4) }), "")
+	t.Text(fmt.Sprintf("Raman ε = %s E_R: %s. Windows at the pair's balancing detuning δ_b with the far level's second-order shift compensated; \"stripe\" counts every state of two or three momenta.", Num(r.RamanEpsilon, 4), r.RamanEpsilonNote))
+	t.Text(r.Advice())
+	return t
+}
+
+// JSON returns the section as a JSON object (Hz for the edges).
+func (r *Spin1CompareReport) JSON() map[string]any {
+	side := func(s *phases.Spin1Side) map[string]any {
+		win := func(w phases.Window) any {
+			if !w.Found {
+				return nil
+			}
+			return []any{JSONNum(w.Lo * s.ERHz), JSONNum(w.Hi * s.ERHz)}
+		}
+		return map[string]any{
+			"nc0_over_ER": s.G0, "nc2_over_ER": s.G2,
+			"stripe_window_rabi_hz": win(s.Window), "two_level_window_rabi_hz": win(s.TwoLevel),
+			"lower_edge_shift_hz": JSONNum(s.LoShiftHz), "upper_edge_shift_hz": JSONNum(s.HiShiftHz),
+			"phase_planned": s.Planned.Phase.String(), "phase_planned_name": s.Planned.Name, "fz_planned": s.Planned.Fz,
+			"matters": s.Matters,
+		}
+	}
+	return map[string]any{"levels": r.Levels, "shake": side(&r.Shake), "raman": side(&r.Raman),
+		"raman_epsilon_over_ER": r.RamanEpsilon, "raman_epsilon_source": r.RamanEpsilonNote,
+		"matters_fraction": phases.Spin1MattersFraction, "advice": r.Advice()}
+}
+
+func numOrNA(v float64, sig int) string {
+	if math.IsNaN(v) {
+		return "n/a"
+	}
+	return Num(v, sig)
+}
