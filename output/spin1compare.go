@@ -104,3 +104,50 @@ func numOrNA(v float64, sig int) string {
 	}
 	return Num(v, sig)
 }
+
+// Spin1SchemeReport renders phases.Spin1SchemeCheck (`scheme shake`).
+type Spin1SchemeReport struct {
+	*phases.Spin1SchemeCheck
+	Levels int
+}
+
+// Advice says whether the third level matters here.
+func (r *Spin1SchemeReport) Advice() string {
+	if !r.Matters {
+		return fmt.Sprintf("the third level changes the single-particle answer little (double-minimum edge within %g %%, same number of minima)", 100*phases.Spin1MattersFraction)
+	}
+	if r.Levels == 3 {
+		return fmt.Sprintf("the third level matters here (edge moved by more than %g %% or another number of minima): the two-level model is not enough", 100*phases.Spin1MattersFraction)
+	}
+	return fmt.Sprintf("the third level matters here (edge moved by more than %g %% or another number of minima): use --levels 3 in bands, ground, map and compare", 100*phases.Spin1MattersFraction)
+}
+
+// Table renders the check as a section.
+func (r *Spin1SchemeReport) Table() *Table {
+	t := &Table{Title: "Three-level (F = 1) check, single particle"}
+	m := r.Model
+	t.RowNote("K_m (m = +1, 0, −1)", fmt.Sprintf("%s, %s, %s", Num(m.K[0], 6), Num(m.K[1], 6), Num(m.K[2], 6)), "k_R", "pair gauge")
+	t.RowNote("E_m (m = +1, 0, −1)", fmt.Sprintf("%s, %s, %s", Num(m.E[0]*r.ERHz, 6), Num(m.E[1]*r.ERHz, 6), Num(m.E[2]*r.ERHz, 6)), "Hz", "rotating frame, pair gauge")
+	t.Row("lower-band minima: two levels, three levels", fmt.Sprintf("%d, %d", r.Minima[0], r.Minima[1]), "")
+	t.RowNote("double-minimum edge: two levels", Num(r.EdgeOverER[0]*r.ERHz, 5), "Hz", "largest Rabi frequency with ≥ 2 minima at the planned δ")
+	t.Row("… three levels", Num(r.EdgeOverER[1]*r.ERHz, 5), "Hz")
+	t.Row("edge moves by", Num(r.EdgeShiftHz, 3), "Hz")
+	t.RowNote("far-level shift of δ", Num(r.DeltaShiftHz, 3), "Hz", "second order, −(Ω/2)²/D")
+	t.Text(r.Advice())
+	return t
+}
+
+// JSON of the check.
+func (r *Spin1SchemeReport) JSON() map[string]any {
+	return map[string]any{"levels": r.Levels, "K_over_kR": r.Model.K[:], "E_hz": []float64{r.Model.E[0] * r.ERHz, r.Model.E[1] * r.ERHz, r.Model.E[2] * r.ERHz},
+		"minima_two_level": r.Minima[0], "minima_three_level": r.Minima[1],
+		"double_minimum_edge_rabi_hz": []float64{r.EdgeOverER[0] * r.ERHz, r.EdgeOverER[1] * r.ERHz},
+		"edge_shift_hz": r.EdgeShiftHz, "far_level_delta_shift_hz": JSONNum(r.DeltaShiftHz),
+		"matters": r.Matters, "matters_fraction": phases.Spin1MattersFraction, "advice": r.Advice()}
+}
+
+// AppendTable adds o to t as a section titled with o's title.
+func AppendTable(t, o *Table) {
+	t.Section(o.Title)
+	t.rows = append(t.rows, o.rows...)
+}

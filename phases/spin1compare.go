@@ -344,3 +344,83 @@ func Spin1CheckPoint(m dispersion.Spin1Model, g0, g2 float64, two Result) (*Spin
 	pc.Matters = r.Status != Converged || !SamePhase(two.Phase, r.Phase)
 	return pc, nil
 }
+
+// Spin1SchemeCheck is the single-particle three-level check of a shaking
+// scheme whose pair lies in F = 1 (`scheme shake` with --levels 2): the
+// double-minimum window of the lower band in Ω at the planned detuning
+// (the single-particle stripe window) of both models, the minima, and the
+// far level's second-order shift of the detuning.
+type Spin1SchemeCheck struct {
+	Model  dispersion.Spin1Model
+	ERHz   float64
+	Minima [2]int // minima of the lower band: two-level, three-level
+	// EdgeOverER: the largest Ω (E_R) at which the lower band still has two
+	// or more minima at the planned pair detuning: two-level, three-level
+	// (0 when there is none down to Ω → 0).
+	EdgeOverER [2]float64
+	EdgeShiftHz float64 // three-level minus two-level edge, as a Rabi frequency, Hz
+	// DeltaShiftHz: the far level's second-order shift of the pair
+	// detuning, Hz (SecondOrder().Delta − δ_pair).
+	DeltaShiftHz float64
+	Matters      bool // the minima counts differ or the edge moved by more than Spin1MattersFraction of the two-level edge
+}
+
+// CheckShakeSpin1 evaluates Spin1SchemeCheck for sh (pair in F = 1).
+// Errors wrap dispersion.ErrBadInput for other pairs.
+func CheckShakeSpin1(sh dispersion.Shake) (*Spin1SchemeCheck, error) {
+	r, err := dispersion.ShakeSpin1(sh)
+	if err != nil {
+		return nil, err
+	}
+	m := r.Model
+	c := &Spin1SchemeCheck{Model: m, ERHz: m.ER / dispersion.Planck}
+	pair := m.PairModel()
+	count2 := func(om float64) int {
+		b := pair
+		b.Omega = om
+		info, err := b.Analyze()
+		if err != nil {
+			return 0
+		}
+		return len(info.Minima)
+	}
+	count3 := func(om float64) int {
+		v := m
+		v.Omega = om
+		info, err := v.Analyze3()
+		if err != nil {
+			return 0
+		}
+		return len(info.Minima)
+	}
+	c.Minima = [2]int{count2(m.Omega), count3(m.Omega)}
+	for i, f := range []func(float64) int{count2, count3} {
+		// scan down from Ω = 8 E_R (beyond the two-level edge 4 E_R at δ = 0) to the first Ω with ≥ 2 minima, then bisect
+		const top, steps = 8.0, 160
+		lo, hi := -1.0, top
+		for j := steps; j >= 1; j-- {
+			om := top * float64(j) / steps
+			if f(om) >= 2 {
+				lo = om
+				break
+			}
+			hi = om
+		}
+		if lo < 0 {
+			continue
+		}
+		for hi-lo > 1e-9 {
+			mid := (lo + hi) / 2
+			if f(mid) >= 2 {
+				lo = mid
+			} else {
+				hi = mid
+			}
+		}
+		c.EdgeOverER[i] = (lo + hi) / 2
+	}
+	c.EdgeShiftHz = (c.EdgeOverER[1] - c.EdgeOverER[0]) * c.ERHz
+	c.DeltaShiftHz = (m.SecondOrder().Delta - pair.Delta) * c.ERHz
+	c.Matters = c.Minima[0] != c.Minima[1] || math.Abs(c.EdgeOverER[1]-c.EdgeOverER[0]) > Spin1MattersFraction*math.Max(c.EdgeOverER[0], 1e-3)
+	return c, nil
+}

@@ -37,6 +37,7 @@ func writeJSON(w io.Writer, v any) error {
 func newShakeCmd() *cobra.Command {
 	var f shakeFlags
 	var outs []string
+	var levels int
 	c := &cobra.Command{
 		Use:   "shake",
 		Short: "effective parameters of magnetic-gradient shaking with phase-locked RF pulses",
@@ -60,10 +61,15 @@ coefficient, RF recoil enhancement and the validity of the cycle average.`,
 				return usagef("%v", err)
 			}
 			info, _ := dispersion.Bands{Omega: r.Model.OmegaOverER, Delta: r.Model.DeltaOverER}.Analyze()
-			return emit(cmd, outs, "scheme-shake", shakeJSON(p, r, info), shakeH5(p, r), shakeTable(p, r, info))
+			doc, tab := shakeJSON(p, r, info), shakeTable(p, r, info)
+			if err := spin1SchemeCheck(levels, p, doc, tab); err != nil {
+				return err
+			}
+			return emit(cmd, outs, "scheme-shake", doc, shakeH5(p, r), tab)
 		},
 	}
 	f.add(c.Flags())
+	c.Flags().IntVar(&levels, "levels", 2, "2: the pseudo-spin pair; 3: also the F = 1 three-level model (for an F = 1 pair --levels 2 shows the three-level check too)")
 	c.Flags().StringSliceVar(&outs, "out", nil, "write the result to FILE.h5 or FILE.json (repeatable)")
 	return c
 }

@@ -334,3 +334,30 @@ func spin1CompareCheck(lf *levelFlags, p phases.Comparison, res *phases.CompareR
 	}
 	return &output.Spin1CompareReport{Spin1Comparison: c, Levels: lf.levels}, nil
 }
+
+// spin1SchemeCheck adds the single-particle three-level check to `scheme
+// shake` (doc key three_level, a table section): with --levels 3 always
+// (a pair outside one F = 1 manifold is a usage error), with --levels 2 for
+// an F = 1 pair.
+func spin1SchemeCheck(levels int, p dispersion.Shake, doc map[string]any, tab *output.Table) error {
+	if levels != 2 && levels != 3 {
+		return usagef("--levels %d: allowed 2 (pseudo-spin pair) or 3 (F = 1)", levels)
+	}
+	if levels == 2 && (p.Up.F != 1 || p.Down.F != 1) {
+		return nil
+	}
+	c, err := phases.CheckShakeSpin1(p)
+	if errors.Is(err, dispersion.ErrBadInput) {
+		if levels == 2 {
+			return nil
+		}
+		return usagef("--levels 3: %v", strings.TrimPrefix(err.Error(), "bad input: "))
+	}
+	if err != nil {
+		return err
+	}
+	r := &output.Spin1SchemeReport{Spin1SchemeCheck: c, Levels: levels}
+	doc["three_level"] = r.JSON()
+	output.AppendTable(tab, r.Table())
+	return nil
+}

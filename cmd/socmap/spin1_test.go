@@ -169,3 +169,58 @@ func TestCompareLevels(t *testing.T) {
 		}
 	}
 }
+
+// scheme shake: an F = 1 pair carries the single-particle three-level
+// check; at 2 G (q/h ≈ 0.29 kHz, a few E_R) it advises
+// --levels 3, at the demo's 60 G it does not. At δ = 0 the two-level
+// double-minimum edge is Ω = 4 E_R (common practice, no source: the lower
+// band E = k² + 1 − √(4k² + Ω²/4) has two minima for Ω < 4).
+func TestSchemeShakeLevels(t *testing.T) {
+	get := func(args ...string) map[string]any {
+		t.Helper()
+		code, out, errs := runArgs(t, append([]string{"scheme", "shake", "--plan", "plans/demo.toml", "--json"}, args...)...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d %s", args, code, errs)
+		}
+		var doc map[string]any
+		if err := json.Unmarshal([]byte(out), &doc); err != nil {
+			t.Fatal(err)
+		}
+		tl, ok := doc["three_level"].(map[string]any)
+		if !ok {
+			t.Fatalf("%v: no three_level", args)
+		}
+		return tl
+	}
+	if tl := get(); tl["matters"] != false {
+		t.Errorf("60 G: %v", tl)
+	}
+	tl := get("--bias", "2 G")
+	if tl["matters"] != true || !strings.Contains(tl["advice"].(string), "--levels 3") {
+		t.Errorf("2 G: %v", tl)
+	}
+	doc := map[string]any{}
+	code, out, _ := runArgs(t, "scheme", "shake", "--plan", "plans/demo.toml", "--json", "--detuning", "147.24817402188015 Hz")
+	if code != 0 || json.Unmarshal([]byte(out), &doc) != nil {
+		t.Fatal("δ = 0 run")
+	}
+	// the RF detuning that makes δ = 0 (rf_detuning_for_zero_delta_hz of the demo)
+	edge := doc["three_level"].(map[string]any)["double_minimum_edge_rabi_hz"].([]any)[0].(float64)
+	erHz := doc["E_R_hz"].(float64)
+	d := doc["delta_over_ER"].(float64)
+	t.Logf("two-level edge %.6g Hz = %.7f E_R (δ/E_R = %.2e)", edge, edge/erHz, d)
+	if math.Abs(d) > 1e-9 || math.Abs(edge/erHz-4) > 1e-6 {
+		t.Errorf("edge %g E_R at δ = %g, want 4", edge/erHz, d)
+	}
+	code, _, errs := runArgs(t, "scheme", "shake", "--plan", "plans/demo.toml", "--levels", "3", "--up", "2,1", "--down", "2,2")
+	if code != 2 || !strings.Contains(errs, "F = 1") {
+		t.Errorf("F = 2 pair with --levels 3: exit %d %q", code, errs)
+	}
+}
+
+func TestExcitationsLevels3Refused(t *testing.T) {
+	code, _, errs := runArgs(t, "excitations", "--levels", "3", "--omega-er", "1", "--G1", "1", "--G2", "0.1")
+	if code != 2 || strings.TrimSpace(errs) != "socmap: --levels 3 is not available for excitations yet" {
+		t.Errorf("exit %d, %q", code, errs)
+	}
+}
