@@ -142,7 +142,7 @@ func (r *Spin1SchemeReport) JSON() map[string]any {
 	return map[string]any{"levels": r.Levels, "K_over_kR": r.Model.K[:], "E_hz": []float64{r.Model.E[0] * r.ERHz, r.Model.E[1] * r.ERHz, r.Model.E[2] * r.ERHz},
 		"minima_two_level": r.Minima[0], "minima_three_level": r.Minima[1],
 		"double_minimum_edge_rabi_hz": []float64{r.EdgeOverER[0] * r.ERHz, r.EdgeOverER[1] * r.ERHz},
-		"edge_shift_hz": r.EdgeShiftHz, "far_level_delta_shift_hz": JSONNum(r.DeltaShiftHz),
+		"edge_shift_hz":               r.EdgeShiftHz, "far_level_delta_shift_hz": JSONNum(r.DeltaShiftHz),
 		"matters": r.Matters, "matters_fraction": phases.Spin1MattersFraction, "advice": r.Advice()}
 }
 

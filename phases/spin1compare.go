@@ -357,7 +357,7 @@ type Spin1SchemeCheck struct {
 	// EdgeOverER: the largest Ω (E_R) at which the lower band still has two
 	// or more minima at the planned pair detuning: two-level, three-level
 	// (0 when there is none down to Ω → 0).
-	EdgeOverER [2]float64
+	EdgeOverER  [2]float64
 	EdgeShiftHz float64 // three-level minus two-level edge, as a Rabi frequency, Hz
 	// DeltaShiftHz: the far level's second-order shift of the pair
 	// detuning, Hz (SecondOrder().Delta − δ_pair).
