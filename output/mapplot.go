@@ -23,6 +23,10 @@ var phaseColors = []color.Color{
 	color.RGBA{200, 90, 140, 255},  // stripe
 	color.RGBA{90, 90, 90, 255},    // not converged
 	color.RGBA{255, 255, 255, 255}, // no coupling
+	color.RGBA{180, 180, 180, 255}, // 6: reserved (another branch's code)
+	color.RGBA{150, 40, 90, 255},   // stripe-3 (spin-1)
+	color.RGBA{70, 160, 120, 255},  // broken-axisymmetry (spin-1)
+	color.RGBA{160, 120, 200, 255}, // antiferromagnetic (spin-1)
 }
 
 type phasePalette struct{}
@@ -91,7 +95,7 @@ func (mp MapPlot) WritePNG(w io.Writer) error {
 	// the phase's centroid.
 	var pts plotter.XYs
 	var names []string
-	for _, ph := range label.All {
+	for _, ph := range append(label.All[:len(label.All):len(label.All)], label.Spin1Codes...) {
 		var sx, sy float64
 		n := 0
 		for iy := 0; iy < d.NY; iy++ {
@@ -165,7 +169,16 @@ func (mp MapPlot) WritePNG(w io.Writer) error {
 		p.Add(sc)
 		p.Legend.Add(mp.MarksName, sc)
 	}
-	for _, ph := range label.All[1:] {
+	legend := label.All[1:]
+	for _, ph := range label.Spin1Codes { // the three-level phases, when present
+		for _, v := range d.Phase {
+			if v == ph {
+				legend = append(legend[:len(legend):len(legend)], ph)
+				break
+			}
+		}
+	}
+	for _, ph := range legend {
 		// A black-edged swatch, readable on any background colour.
 		edge, _ := plotter.NewScatter(plotter.XYs{})
 		edge.GlyphStyle = draw.GlyphStyle{Shape: draw.BoxGlyph{}, Radius: vg.Points(6), Color: color.Black}

@@ -142,6 +142,11 @@ func (r *MapResult) Table() *Table {
 	for _, p := range label.All[1:] {
 		t.Row(p.String(), strconv.Itoa(counts[p]), "")
 	}
+	for _, p := range label.Spin1Codes { // the three-level phases, when present
+		if counts[p] > 0 {
+			t.Row(p.String(), strconv.Itoa(counts[p]), "")
+		}
+	}
 	sw := d.Spec.Sweep
 	if d.NY == 1 {
 		t.Section("Along " + sw.X.Name)

@@ -151,3 +151,39 @@ func AppendTable(t, o *Table) {
 	t.Section(o.Title)
 	t.rows = append(t.rows, o.rows...)
 }
+
+// Spin1PointReport renders phases.Spin1PointCheck: the three-level answer
+// at the planned point of a pseudo-spin map.
+type Spin1PointReport struct {
+	*phases.Spin1PointCheck
+	Where string // what the planned point is
+}
+
+// Advice says whether the third level matters at the point.
+func (r *Spin1PointReport) Advice() string {
+	if r.Matters {
+		return "the three-level phase at the planned point differs from the two-level one: use --levels 3"
+	}
+	return "the three-level phase at the planned point is the two-level one"
+}
+
+// Table renders the check.
+func (r *Spin1PointReport) Table() *Table {
+	t := &Table{Title: "Three-level (F = 1) check at the planned point (" + r.Where + ")"}
+	t.Row("two-level phase", r.TwoLevelPhase.String(), "")
+	t.RowNote("three-level phase", r.Result.Phase.String(), "", r.Result.Name)
+	t.Row("n c0, n c2", Num(r.G0, 4)+", "+Num(r.G2, 3), "E_R")
+	t.Row("two-level minus three-level energy", Num(r.EnergyDiff, 4), "E_R")
+	if !math.IsNaN(r.EnergyDiffHz) {
+		t.Row("… in Hz", Num(r.EnergyDiffHz, 4), "Hz")
+	}
+	t.Text(r.Advice())
+	return t
+}
+
+// JSON of the check.
+func (r *Spin1PointReport) JSON() map[string]any {
+	return map[string]any{"where": r.Where, "two_level_phase": r.TwoLevelPhase.String(), "three_level_phase": r.Result.Phase.String(),
+		"three_level_name": r.Result.Name, "nc0_over_ER": r.G0, "nc2_over_ER": r.G2,
+		"energy_diff_over_ER": r.EnergyDiff, "energy_diff_hz": JSONNum(r.EnergyDiffHz), "matters": r.Matters, "advice": r.Advice()}
+}

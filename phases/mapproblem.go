@@ -39,6 +39,8 @@ type MapProblem struct {
 	// Variational configures the variational theory (nil: defaults); with
 	// MethodGPE it is GPE.Variational's default.
 	Variational *Settings
+	// Spin1 configures MethodSpin1 (spin1map.go).
+	Spin1 Spin1MapSettings
 }
 
 func (p *MapProblem) method() Method {
@@ -54,6 +56,9 @@ func (p *MapProblem) Sweep() Sweep {
 	if p.method() == MethodGPE {
 		sw.Observables = GPEObservables
 	}
+	if p.method() == MethodSpin1 {
+		sw.Observables = Spin1Observables
+	}
 	return sw
 }
 
@@ -62,8 +67,8 @@ func (p *MapProblem) Sweep() Sweep {
 // last point (a point without recoil, ErrNoRecoil, is allowed: it is
 // labelled label.NoCoupling).
 func (p *MapProblem) Check() error {
-	if m := p.method(); m != MethodVariational && m != MethodGPE {
-		return fmt.Errorf("method %q: allowed: variational, gpe", p.Method)
+	if m := p.method(); m != MethodVariational && m != MethodGPE && m != MethodSpin1 {
+		return fmt.Errorf("method %q: allowed: variational, gpe, %s", p.Method, MethodSpin1)
 	}
 	if p.X.Len() == 0 {
 		return errors.New("the x axis has no points")
@@ -78,6 +83,9 @@ func (p *MapProblem) Check() error {
 	}
 	if p.Y.Len() > 0 && p.Y.Name == p.X.Name {
 		return fmt.Errorf("the y axis is the x axis (%s)", p.X.Name)
+	}
+	if p.method() == MethodSpin1 {
+		return p.checkSpin1()
 	}
 	nx, ny := p.Sweep().Shape()
 	for _, c := range [][2]int{{0, 0}, {nx - 1, ny - 1}} {
@@ -111,6 +119,9 @@ func (p *MapProblem) Uniform(ix, iy int) (Uniform, error) {
 // Points returns the point function of the method (VariationalPoints or
 // GPEPoints over Uniform).
 func (p *MapProblem) Points() PointFunc {
+	if p.method() == MethodSpin1 {
+		return p.Spin1Points()
+	}
 	if p.method() == MethodGPE {
 		s := p.GPE
 		if s.Variational == nil {
@@ -158,6 +169,9 @@ func (p *MapProblem) Identity() Identity {
 		add("length-kr", num(p.GPE.Length))
 		add("starts", strconv.Itoa(p.GPE.RandomStarts))
 		add("tol", num(p.GPE.Solver.Tol))
+	}
+	if p.method() == MethodSpin1 {
+		id = append(id, p.spin1Identity()...)
 	}
 	th := thresholds(p.Variational)
 	add("threshold-single-minimum-k", num(th.SingleMinimumK))

@@ -361,3 +361,103 @@ func spin1SchemeCheck(levels int, p dispersion.Shake, doc map[string]any, tab *o
 	output.AppendTable(tab, r.Table())
 	return nil
 }
+
+// spin1Problem builds `map --levels 3`: the spin-1 variational theory per
+// point (phases.MethodSpin1).
+func (o *mapOpts) spin1Problem() (*phases.MapProblem, error) {
+	if o.method != "variational" {
+		return nil, usagef("--method %q: --levels 3 maps use the variational theory only", o.method)
+	}
+	p := &phases.MapProblem{Method: phases.MethodSpin1}
+	var err error
+	if p.Lab, err = o.mf.lab(); err != nil {
+		return nil, err
+	}
+	lf := &o.lf
+	s := phases.Spin1MapSettings{Epsilon: math.NaN()}
+	if lf.epsER.text != "" {
+		s.Epsilon = lf.epsER.v
+	}
+	s.FixMagnetization, s.Magnetization = lf.fixedM()
+	if _, _, err := phases.Spin1FromScheme(p.Lab.Scheme, s.Epsilon); err != nil {
+		if errors.Is(err, dispersion.ErrBadInput) {
+			return nil, usagef("--levels 3: %v", strings.TrimPrefix(err.Error(), "bad input: "))
+		}
+		return nil, err
+	}
+	switch {
+	case lf.nc0.text != "" || lf.nc2.text != "":
+		if lf.nc0.text == "" || lf.nc2.text == "" {
+			return nil, usagef("--levels 3: give both --nc0-er and --nc2-er")
+		}
+		s.G0, s.G2 = lf.nc0.v, lf.nc2.v
+	case o.inf.density.text != "":
+		atom := p.Lab.Scheme.Atom()
+		if atom == nil {
+			return nil, usagef("--density %q: needs a scheme with an atom (--scheme shake|raman) for --levels 3", o.inf.density.text)
+		}
+		if s.Couplings, err = lf.couplings(atom); err != nil {
+			return nil, err
+		}
+		s.HaveSI, s.Density = true, o.inf.density.v
+		p.Lab.HaveSI, p.Lab.Density = true, o.inf.density.v
+	default:
+		return nil, usagef("--levels 3: give --nc0-er and --nc2-er, or --density with an atom")
+	}
+	p.Spin1 = s
+	if o.xs == "" {
+		return nil, usagef("--x is required (NAME=LO:HI:N)")
+	}
+	if p.X, err = parseAxis("x", o.xs); err != nil {
+		return nil, err
+	}
+	if o.ys != "" {
+		if p.Y, err = parseAxis("y", o.ys); err != nil {
+			return nil, err
+		}
+		if p.Y.Name == p.X.Name {
+			return nil, usagef("--y %q: same axis as --x", o.ys)
+		}
+	}
+	if err := p.Check(); err != nil {
+		return nil, usagef("map settings: %v", err)
+	}
+	return p, nil
+}
+
+// spin1MapCheck is the three-level answer at the planned point of a
+// pseudo-spin map (the lab before the axes change it) when the pair is an
+// F = 1 pair of the shaking scheme and the atom has a0, a2 and a density is
+// given (the Raman scheme's ε is a --levels 3 setting); nil otherwise.
+func spin1MapCheck(p *phases.MapProblem) *output.Spin1PointReport {
+	sh, ok := p.Lab.Scheme.(dispersion.Shake)
+	if !ok || sh.Up.F != 1 || sh.Down.F != 1 || !p.Lab.HaveSI || !(p.Lab.Density > 0) {
+		return nil
+	}
+	cp, err := sh.Species.Spin1Couplings()
+	if err != nil {
+		return nil
+	}
+	m, _, err := phases.Spin1FromScheme(sh, math.NaN())
+	if err != nil {
+		return nil
+	}
+	u, _, err := p.Lab.Resolve()
+	if err != nil {
+		return nil
+	}
+	if p.Lab.CouplingSet {
+		m.Omega = p.Lab.CouplingOverER
+	}
+	m = phases.WithPairDetuning(m, u.Delta)
+	two, err := phases.Variational(u, p.Variational)
+	if err != nil {
+		return nil
+	}
+	n := p.Lab.Density
+	c, err := phases.Spin1CheckPoint(m, n*cp.C0/m.ER, n*cp.C2/m.ER, two)
+	if err != nil {
+		return nil
+	}
+	return &output.Spin1PointReport{Spin1PointCheck: c, Where: "the plan's settings before the axes change them"}
+}

@@ -224,3 +224,52 @@ func TestExcitationsLevels3Refused(t *testing.T) {
 		t.Errorf("exit %d, %q", code, errs)
 	}
 }
+
+// map --levels 3: the spin-1 variational theory per point (every point
+// computed, the method named), a resume with another magnetisation is
+// refused, bad input exits 2; with --levels 2 an F = 1 shaking pair gets
+// the three-level check at the planned point.
+func TestMapLevels3(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "m.h5")
+	args := []string{"map", "--levels", "3", "--omega-er", "1", "--epsilon-er", "0.5", "--nc0-er", "1", "--nc2-er", "-0.2",
+		"--x", "omega=0.2:4:4", "--y", "delta=-1:1:3", "--out", out, "--json"}
+	code, stdout, errs := runArgs(t, args...)
+	if code != 0 {
+		t.Fatalf("map --levels 3: exit %d %s", code, errs)
+	}
+	var doc map[string]any
+	if err := json.Unmarshal([]byte(stdout), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if doc["points_computed"].(float64) != 12 {
+		t.Errorf("points computed %v", doc["points_computed"])
+	}
+	if !strings.Contains(stdout, "spin1-variational") {
+		t.Errorf("method not named in the JSON")
+	}
+	// resume with a different magnetisation is refused (identity by value)
+	code, _, errs = runArgs(t, append(args[:len(args):len(args)], "--magnetization", "0.2")...)
+	if code != 2 {
+		t.Errorf("existing map with other settings: exit %d %s", code, errs)
+	}
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"map", "--levels", "3", "--omega-er", "1", "--epsilon-er", "0.5", "--nc0-er", "1", "--nc2-er", "-0.2", "--x", "G1=0:1:3"}, "G1"},
+		{[]string{"map", "--levels", "3", "--method", "gpe", "--omega-er", "1", "--epsilon-er", "0.5", "--nc0-er", "1", "--nc2-er", "-0.2", "--x", "omega=0:1:3"}, "--method"},
+		{[]string{"map", "--levels", "3", "--omega-er", "1", "--nc0-er", "1", "--nc2-er", "-0.2", "--x", "omega=0:1:3"}, "quadratic Zeeman"},
+		{[]string{"map", "--levels", "3", "--omega-er", "1", "--epsilon-er", "0.5", "--x", "omega=0:1:3"}, "--nc0-er"},
+	} {
+		code, _, errs := runArgs(t, c.args...)
+		if code != 2 || !strings.Contains(errs, c.want) || strings.Count(strings.TrimSpace(errs), "\n") != 0 {
+			t.Errorf("%v: exit %d, message %q (want exit 2, one line with %q)", c.args, code, errs, c.want)
+		}
+	}
+	// --levels 2 with an F = 1 shaking pair: the check at the planned point
+	code, stdout, errs = runArgs(t, "map", "--plan", "plans/demo.toml", "--density", "1e14 cm^-3", "--x", "rabi=0:40 Hz:3", "--json")
+	if code != 0 || !strings.Contains(stdout, `"three_level_check"`) {
+		t.Errorf("map --levels 2 on an F = 1 pair: exit %d, no three_level_check (%s)", code, errs)
+	}
+}
