@@ -68,8 +68,8 @@ type Step struct {
 	// Duration in seconds (DurationER for a direct model). A step without
 	// ramps is a hold. Must be ≥ 0.
 	Duration, DurationER float64
-	Ramps      []Ramp
-	Shape      RampShape
+	Ramps                []Ramp
+	Shape                RampShape
 	// Release: switch the trap and the coupling off and let the cloud fly
 	// for Duration (time of flight). Only as the last step.
 	Release bool
