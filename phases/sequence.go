@@ -824,6 +824,10 @@ func (p *SequenceProblem) detect(rt *gpe.RealTime, h gpe.RTHamiltonian, res *Seq
 		d.StripePeriod = math.Pi / k1
 	}
 	im := p.Imaging
+	if res.Units == nil {
+		im = gpe.Imaging{}
+		res.Notes = append(res.Notes, "direct model (no SI lengths): imaging not modelled, the imaged contrast is the in-situ one")
+	}
 	if im.CrossSection == 0 && p.Ground.Lab.Scheme != nil {
 		if a := p.Ground.Lab.Scheme.Atom(); a != nil {
 			for _, l := range a.Lines {
@@ -841,7 +845,7 @@ func (p *SequenceProblem) detect(rt *gpe.RealTime, h gpe.RTHamiltonian, res *Seq
 		case p.Ground.Trap != nil && res.Units != nil:
 			fp := math.Sqrt(p.Ground.Trap.FreqHz[1] * p.Ground.Trap.FreqHz[2])
 			im.Height = math.Sqrt(2*math.Pi) * gpe.OscillatorLength(res.Units.AngularFromHz(fp)) * lx
-		default:
+		case res.Units != nil:
 			im.Height = 1e-6
 			res.Notes = append(res.Notes, "imaging: column height 1 µm assumed (no transverse extent in a 1D box)")
 		}
@@ -851,6 +855,15 @@ func (p *SequenceProblem) detect(rt *gpe.RealTime, h gpe.RTHamiltonian, res *Seq
 		return nil, badInputf("imaging: resolution, pixel, magnification and photons must be ≥ 0")
 	}
 	d.Image = img
+	if im.Photons > 0 && im.CrossSection > 0 && im.Height > 0 && img.PixelOb > 0 {
+		odMax := 0.0
+		for _, v := range img.Ideal {
+			odMax = math.Max(odMax, im.CrossSection*v/(img.PixelOb*im.Height))
+		}
+		if odMax > 4 {
+			res.Notes = append(res.Notes, fmt.Sprintf("imaging: peak optical depth %.3g > 4: resonant absorption imaging saturates here (the shot-noise model then gives no signal); image after a partial transfer or with a detuned probe", odMax))
+		}
+	}
 	switch {
 	case img.SNR2K1 >= SNRVisible && img.ContrastInSitu >= MinStripeContrast:
 		d.Verdict = VerdictVisible
