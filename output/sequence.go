@@ -81,14 +81,6 @@ func (r *SequenceResult) dtUnit() float64 {
 	return 1
 }
 
-func jsonList(v []float64) []any {
-	out := make([]any, len(v))
-	for i, x := range v {
-		out[i] = JSONNum(x)
-	}
-	return out
-}
-
 // JSON: the time series, the step rows and the detection report.
 func (r *SequenceResult) JSON() map[string]any {
 	n := JSONNum

@@ -685,8 +685,6 @@ func (p SequenceProblem) Run(ctx context.Context, s *SequenceSettings) (*Sequenc
 	return res, nil
 }
 
-func abs2c(z complex128) float64 { return real(z)*real(z) + imag(z)*imag(z) }
-
 type groundRef struct {
 	state  *gpe.State
 	energy float64

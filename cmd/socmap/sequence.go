@@ -89,9 +89,9 @@ plan file. --x "ramp=LO:HI:N" scans the first ramp's duration (adiabaticity).`,
 	return c
 }
 
-// parseDuration reads a duration: SI with a unit, or a plain number in ħ/E_R
+// parseSeqDuration reads a duration: SI with a unit, or a plain number in ħ/E_R
 // for a direct model.
-func parseDuration(flag, s string, direct bool) (float64, error) {
+func parseSeqDuration(flag, s string, direct bool) (float64, error) {
 	s = strings.TrimSpace(s)
 	if direct {
 		v, err := strconv.ParseFloat(s, 64)
@@ -164,7 +164,7 @@ func sequenceSteps(f *seqFlags, direct bool) ([]phases.Step, error) {
 		return nil, usagef("--shape %q: allowed linear, s", f.shape)
 	}
 	setDur := func(st *phases.Step, flag, text string) error {
-		d, err := parseDuration(flag, text, direct)
+		d, err := parseSeqDuration(flag, text, direct)
 		if err != nil {
 			return err
 		}
@@ -283,7 +283,7 @@ func runSequence(cmd *cobra.Command, mf *modelFlags, inf *interFlags, tf *trapFl
 	}
 	set := phases.SequenceSettings{Samples: f.samples, Snapshots: f.snapshots}
 	if f.dt != "" {
-		d, err := parseDuration("dt", f.dt, direct)
+		d, err := parseSeqDuration("dt", f.dt, direct)
 		if err != nil {
 			return err
 		}
@@ -368,14 +368,14 @@ func parseScan(s string, direct bool) ([]float64, error) {
 	if !ok || strings.TrimSpace(name) != "ramp" || len(parts) != 3 {
 		return nil, usagef(`--x %q: want "ramp=LO:HI:N" (durations of the first ramp)`, s)
 	}
-	lo, err := parseDuration("x", parts[0], direct)
+	lo, err := parseSeqDuration("x", parts[0], direct)
 	if err != nil && !direct {
-		lo, err = parseDuration("x", parts[0]+" "+strings.TrimLeft(strings.TrimSpace(parts[1]), "0123456789.+-eE "), direct)
+		lo, err = parseSeqDuration("x", parts[0]+" "+strings.TrimLeft(strings.TrimSpace(parts[1]), "0123456789.+-eE "), direct)
 	}
 	if err != nil {
 		return nil, err
 	}
-	hi, err := parseDuration("x", parts[1], direct)
+	hi, err := parseSeqDuration("x", parts[1], direct)
 	if err != nil {
 		return nil, err
 	}
