@@ -677,7 +677,7 @@ func (p SequenceProblem) Run(ctx context.Context, s *SequenceSettings) (*Sequenc
 			Contrast: gpe.StripeContrast(grid.X[0], st.DensityX(), gpe.DominantK(st), 0)})
 	}
 	res.Steps = rt.Steps
-	det, err := p.detect(rt, lastH, res, plans[len(plans)-1].rel, p.Steps[len(p.Steps)-1])
+	det, err := p.detect(ctx, rt, lastH, res, plans[len(plans)-1].rel, p.Steps[len(p.Steps)-1])
 	if err != nil {
 		return nil, err
 	}
@@ -803,7 +803,7 @@ func (p *SequenceProblem) startState(su *GroundSetup, set *SequenceSettings) (*g
 
 // detect reads out the final in-trap state: in-situ profile and imaging,
 // Bragg fractions, and the momentum distribution after the release.
-func (p *SequenceProblem) detect(rt *gpe.RealTime, h gpe.RTHamiltonian, res *SequenceResult, release bool, last Step) (*Detection, error) {
+func (p *SequenceProblem) detect(ctx context.Context, rt *gpe.RealTime, h gpe.RTHamiltonian, res *SequenceResult, release bool, last Step) (*Detection, error) {
 	g := rt.Grid
 	st := rt.State()
 	d := &Detection{K1: gpe.DominantK(st)}
@@ -910,7 +910,7 @@ func (p *SequenceProblem) detect(rt *gpe.RealTime, h gpe.RTHamiltonian, res *Seq
 			done := 0.0
 			chunk := tin / 50
 			for done < tin && rt.Moments(h.Kappa).Width[0] < g.L[0]/6 {
-				if _, err := rt.Evolve(nil, chunk, func(float64) gpe.RTHamiltonian { return free }); err != nil {
+				if _, err := rt.Evolve(ctx, chunk, func(float64) gpe.RTHamiltonian { return free }); err != nil {
 					return nil, err
 				}
 				done += chunk
