@@ -8,7 +8,6 @@ import (
 	"path/filepath"
 	"strings"
 
-	xfont "golang.org/x/image/font"
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/palette"
 	"gonum.org/v1/plot/plotter"
@@ -296,7 +295,6 @@ func (mp MapPlot) regionNames(p *plot.Plot, xv, yv []float64) error {
 	}
 	for i := range lb.TextStyle {
 		lb.TextStyle[i].Font.Size = vg.Points(13)
-		lb.TextStyle[i].Font.Weight = xfont.WeightBold
 		lb.TextStyle[i].XAlign = xa[i]
 		lb.TextStyle[i].YAlign = ya[i]
 	}
