@@ -598,3 +598,28 @@ func TestFigureFormat(t *testing.T) {
 		}
 	}
 }
+
+func TestExcitationsFigure(t *testing.T) {
+	u := phases.Uniform{Omega: 2.6, Guu: 4.4, Gdd: 4.4, Gud: 3.6} // G1 = 1, G2 = 0.1: a plane wave
+	var q []float64
+	for i := 0; i <= 40; i++ {
+		q = append(q, -2+0.1*float64(i))
+	}
+	res, err := phases.Excitations(phases.ExcitationProblem{Uniform: u, Q: q, Bragg: &phases.BraggProblem{Q: 1, Duration: 20}}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f, err := (&ExcitationsResult{Res: res, Subtitle: "direct model"}).Figure()
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkFigure(t, "excitations", f)
+	wantLabels(t, "spectrum", f.Panels[0].Plot, "[k_R]", "[E_R]")
+	if f.Panels[0].ColorBar == nil || !strings.Contains(f.Panels[0].ColorBar.Y.Label.Text, "f-sum") {
+		t.Error("excitations: the f-sum shading needs its colour bar")
+	}
+	if len(f.Panels) != 2 {
+		t.Fatalf("excitations with a Bragg momentum: %d panels, want 2", len(f.Panels))
+	}
+	wantLabels(t, "Bragg", f.Panels[1].Plot, "[E_R]", "[1/E_R]")
+}

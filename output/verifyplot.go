@@ -313,7 +313,7 @@ func (sp SweepPlot) Figure() (*Figure, error) {
 		p.Add(l, s)
 		p.Legend.Add(sp.Names[i], l, s)
 	}
-	zero, _ := plotter.NewLine(plotter.XYs{{X: minOf(sp.X), Y: 0}, {X: maxOf(sp.X), Y: 0}})
+	zero, _ := plotter.NewLine(plotter.XYs{{X: lowest(sp.X), Y: 0}, {X: highest(sp.X), Y: 0}})
 	if zero != nil {
 		zero.Color, zero.Width = color.Gray{Y: 120}, vg.Points(0.8)
 		p.Add(zero)
@@ -322,7 +322,7 @@ func (sp SweepPlot) Figure() (*Figure, error) {
 	return &Figure{Title: sp.Title, Width: 9.5 * vg.Inch, Height: 5.5 * vg.Inch, Panels: []Panel{{Plot: p}}}, nil
 }
 
-func minOf(v []float64) float64 {
+func lowest(v []float64) float64 {
 	m := math.Inf(1)
 	for _, x := range v {
 		m = math.Min(m, x)
@@ -330,7 +330,7 @@ func minOf(v []float64) float64 {
 	return m
 }
 
-func maxOf(v []float64) float64 {
+func highest(v []float64) float64 {
 	m := math.Inf(-1)
 	for _, x := range v {
 		m = math.Max(m, x)
