@@ -300,3 +300,23 @@ func (s Swatch) Thumbnail(c *draw.Canvas) {
 	c.SetLineStyle(draw.LineStyle{Color: color.Gray{Y: 40}, Width: vg.Points(0.7)})
 	c.Stroke(r.Path())
 }
+
+// renderPanels writes panels stacked from the top with the given height
+// fractions as a PNG Figure (the first panel's title becomes the figure's
+// title; legends go to the side column). It serves figures written before
+// Figure existed; new figures build a Figure (and a Figure method) so that
+// they can also be written as SVG or PDF and be tested by structure.
+func renderPanels(w io.Writer, width, height vg.Length, panels []*plot.Plot, frac []float64) error {
+	f := &Figure{Width: width, Height: height}
+	for i, p := range panels {
+		if i == 0 {
+			f.Title, p.Title.Text = p.Title.Text, ""
+		}
+		h := 1.0
+		if i < len(frac) {
+			h = frac[i]
+		}
+		f.Panels = append(f.Panels, Panel{Plot: p, Height: h})
+	}
+	return f.WritePNG(w)
+}

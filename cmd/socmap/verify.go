@@ -2,8 +2,10 @@ package main
 
 import (
 	"fmt"
+	"io"
 	"math"
 	"os"
+	"path/filepath"
 	"strconv"
 	"strings"
 
@@ -186,7 +188,7 @@ type rendered interface {
 	JSON() map[string]any
 	Table() *output.Table
 	WriteH5(w *output.Writer)
-	Figure() (*output.Figure, error)
+	WritePNG(w io.Writer) error
 }
 
 // emitRendered writes the --out files of r by extension (.png/.svg/.pdf, .json, .h5;
@@ -195,8 +197,11 @@ func emitRendered(cmd *cobra.Command, outs []string, kind string, r rendered) er
 	doc := r.JSON()
 	for _, o := range outs {
 		var err error
-		if output.IsFigure(o) {
-			err = output.WriteFigure(o, g.force, r)
+		fr, vector := r.(output.Figurer)
+		if output.IsFigure(o) && vector {
+			err = output.WriteFigure(o, g.force, fr)
+		} else if strings.EqualFold(filepath.Ext(o), ".png") {
+			err = output.WriteFileAtomic(o, g.force, r.WritePNG)
 		} else {
 			err = writeResult(cmd, o, kind, doc, r.WriteH5)
 		}
