@@ -146,7 +146,7 @@ func (f *levelFlags) couplings(atom *dispersion.Species) (dispersion.Spin1Coupli
 // runBands3 is `bands --levels 3`.
 func runBands3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, outs []string, kmax float64, samples int) error {
 	for _, o := range outs {
-		if strings.ToLower(filepath.Ext(o)) == ".png" {
+		if output.IsFigure(o) {
 			return usagef("--out %q: --levels 3 writes .csv, .h5 and .json; the three-branch PNG is not implemented yet", o)
 		}
 	}
@@ -185,7 +185,7 @@ func runBands3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, outs []string
 // scattering lengths or --a0/--a2).
 func runGround3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *interFlags, tf *trapFlags, gf *gridFlags, outs []string, tol float64) error {
 	for _, o := range outs {
-		if strings.ToLower(filepath.Ext(o)) == ".png" {
+		if output.IsFigure(o) {
 			return usagef("--out %q: --levels 3 writes .h5 and .json; the three-component PNG is not implemented yet", o)
 		}
 	}
