@@ -73,6 +73,9 @@ func (r *MapResult) Plot() MapPlot {
 	if d.Spec.Method == string(phases.MethodGPE) {
 		title = fmt.Sprintf("Phase diagram from 1D GPE ground states, %s", r.subtitle())
 	}
+	if d.Spec.Method == string(phases.MethodSpin1) {
+		title = fmt.Sprintf("Spin-1 (F = 1) variational phase diagram, %s", r.subtitle())
+	}
 	mp := MapPlot{Data: d, Title: r.titleWith(title)}
 	if r.Problem != nil {
 		xs, ys := axisScale(d.Spec.Sweep.X), axisScale(d.Spec.Sweep.Y)
@@ -98,7 +101,11 @@ func (r *MapResult) titleWith(title string) string {
 			except = append(except, def.Overrides...)
 		}
 	}
-	return titleWith(title, SettingParts(r.Problem.Lab, except), 110)
+	parts := SettingParts(r.Problem.Lab, except)
+	if r.Problem.Method == phases.MethodSpin1 {
+		parts = spin1SettingParts(r.Problem, parts)
+	}
+	return titleWith(title, parts, 110)
 }
 
 func axisScale(a phases.Axis) float64 {

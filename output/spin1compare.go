@@ -187,3 +187,28 @@ func (r *Spin1PointReport) JSON() map[string]any {
 		"three_level_name": r.Result.Name, "nc0_over_ER": r.G0, "nc2_over_ER": r.G2,
 		"energy_diff_over_ER": r.EnergyDiff, "energy_diff_hz": JSONNum(r.EnergyDiffHz), "matters": r.Matters, "advice": r.Advice()}
 }
+
+// spin1SettingParts replaces the pseudo-spin couplings of a spin-1 map's
+// fixed settings by its own (n c0, n c2 or a0, a2; ε; M).
+func spin1SettingParts(p *phases.MapProblem, parts []string) []string {
+	var out []string
+	for _, s := range parts {
+		if strings.HasPrefix(s, "G1 =") || strings.HasPrefix(s, "G2 =") || strings.HasPrefix(s, "Δg") {
+			continue
+		}
+		out = append(out, s)
+	}
+	s := p.Spin1
+	if s.HaveSI {
+		out = append(out, fmt.Sprintf("a0 = %s m, a2 = %s m", Num(s.Couplings.A0, 4), Num(s.Couplings.A2, 4)))
+	} else {
+		out = append(out, "n c0 = "+Num(s.G0, 4)+" E_R", "n c2 = "+Num(s.G2, 4)+" E_R")
+	}
+	if !math.IsNaN(s.Epsilon) {
+		out = append(out, "ε = "+Num(s.Epsilon, 4)+" E_R")
+	}
+	if s.FixMagnetization {
+		out = append(out, "<F_z> = "+Num(s.Magnetization, 4))
+	}
+	return out
+}
