@@ -145,11 +145,6 @@ func (f *levelFlags) couplings(atom *dispersion.Species) (dispersion.Spin1Coupli
 
 // runBands3 is `bands --levels 3`.
 func runBands3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, outs []string, kmax float64, samples int) error {
-	for _, o := range outs {
-		if output.IsFigure(o) {
-			return usagef("--out %q: --levels 3 writes .csv, .h5 and .json; the three-branch PNG is not implemented yet", o)
-		}
-	}
 	m, scheme, _, err := lf.model(mf)
 	if err != nil {
 		return err
@@ -164,8 +159,10 @@ func runBands3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, outs []string
 	doc := res.JSON()
 	for _, o := range outs {
 		var err error
-		switch strings.ToLower(filepath.Ext(o)) {
-		case ".csv":
+		switch {
+		case output.IsFigure(o):
+			err = output.WriteFigure(o, g.force, res)
+		case strings.ToLower(filepath.Ext(o)) == ".csv":
 			err = output.WriteFileAtomic(o, g.force, res.WriteCSV)
 		default:
 			err = writeResult(cmd, o, "bands", doc, res.WriteH5)
@@ -184,11 +181,6 @@ func runBands3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, outs []string
 // or N atoms in a harmonic trap (--atoms, --trap; the atom's F = 1
 // scattering lengths or --a0/--a2).
 func runGround3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *interFlags, tf *trapFlags, gf *gridFlags, outs []string, tol float64) error {
-	for _, o := range outs {
-		if output.IsFigure(o) {
-			return usagef("--out %q: --levels 3 writes .h5 and .json; the three-component PNG is not implemented yet", o)
-		}
-	}
 	m, _, ws, err := lf.model(mf)
 	if err != nil {
 		return err
@@ -286,7 +278,13 @@ func runGround3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *interFl
 	res := output.Spin1Ground{Spin1GroundResult: r}
 	doc := res.JSON()
 	for _, o := range outs {
-		if err := writeResult(cmd, o, "ground", doc, res.WriteH5); err != nil {
+		var err error
+		if output.IsFigure(o) {
+			err = output.WriteFigure(o, g.force, res)
+		} else {
+			err = writeResult(cmd, o, "ground", doc, res.WriteH5)
+		}
+		if err != nil {
 			return err
 		}
 	}

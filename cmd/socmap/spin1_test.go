@@ -81,7 +81,7 @@ func TestLevels3TrapAndMagnetization(t *testing.T) {
 	}
 	raman := []string{"--scheme", "raman", "--atom", "Rb87", "--wavelength", "790 nm", "--raman-rabi", "2 kHz", "--epsilon-er", "0.5"}
 	args := append([]string{"ground", "--levels", "3", "--atoms", "3000", "--trap", "40,400,400", "--points", "256", "--magnetization", "-0.2", "--json",
-		"--out", filepath.Join(dir, "trap.h5")}, raman...)
+		"--out", filepath.Join(dir, "trap.h5"), "--out", filepath.Join(dir, "trap.png")}, raman...)
 	code, out, errs = runArgs(t, args...)
 	if code != 0 {
 		t.Fatalf("ground --levels 3 in a trap: exit %d: %s", code, errs)
@@ -98,8 +98,19 @@ func TestLevels3TrapAndMagnetization(t *testing.T) {
 	if doc["geometry"] != "harmonic trap" || math.Abs(doc["fz"].(float64)+0.2) > 1e-8 || doc["status"] != "converged" {
 		t.Errorf("trap: geometry %v, fz %v, status %v", doc["geometry"], doc["fz"], doc["status"])
 	}
-	if _, err := os.Stat(filepath.Join(dir, "trap.h5")); err != nil {
-		t.Error(err)
+	for _, f := range []string{"trap.h5", "trap.png"} {
+		if _, err := os.Stat(filepath.Join(dir, f)); err != nil {
+			t.Error(err)
+		}
+	}
+	code, _, errs = runArgs(t, "bands", "--levels", "3", "--omega-er", "1", "--epsilon-er", "0.2", "--out", filepath.Join(dir, "b3.png"), "--out", filepath.Join(dir, "b3.svg"))
+	if code != 0 {
+		t.Fatalf("bands --levels 3 --out b3.png: exit %d %s", code, errs)
+	}
+	for _, f := range []string{"b3.png", "b3.svg"} {
+		if st, err := os.Stat(filepath.Join(dir, f)); err != nil || st.Size() < 1000 {
+			t.Errorf("%s: %v", f, err)
+		}
 	}
 	for _, c := range []struct {
 		args []string
