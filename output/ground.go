@@ -5,6 +5,7 @@ import (
 	"image/color"
 	"io"
 	"math"
+	"strings"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/palette/moreland"
@@ -46,7 +47,7 @@ func (r *GroundResult) Table() *Table {
 	if o.Phase == label.Stripe && o.StripePeriod > 0 {
 		t.Row("stripe period π/k₁", N(o.StripePeriod, 5), "1/k_R")
 	}
-	t.Row("density contrast", N(o.Contrast, 4), "")
+	t.RowNote("density contrast", N(o.Contrast, 4), "", contrastNote(o))
 	t.Row("Fourier amplitude at 2k₁", N(o.Fourier2K1, 4), "")
 	if r.Units != nil {
 		t.Section("In SI")
@@ -106,6 +107,7 @@ func (r *GroundResult) JSON() map[string]any {
 	doc := map[string]any{
 		"phase": o.Phase.String(), "status": b.Status.String(), "energy_per_particle_over_ER": n(o.Energies.Total),
 		"mu_over_ER": n(o.Energies.Mu), "sz": n(o.Sz), "sx": n(o.Sx), "k1_over_kR": n(o.K1), "contrast": n(o.Contrast),
+		"contrast_definition": o.ContrastDef,
 		"fourier_2k1": n(o.Fourier2K1), "stripe_period_over_inv_kR": n(o.StripePeriod),
 		"iterations": b.Iterations, "split_steps": b.SplitSteps, "residual_over_ER": n(b.Residual),
 		"energy_parts_over_ER": map[string]any{"kinetic": n(o.Energies.Kinetic), "potential": n(o.Energies.Potential),
@@ -131,6 +133,19 @@ func (r *GroundResult) JSON() map[string]any {
 		}
 	}
 	return doc
+}
+
+// contrastNote says how the contrast was measured (one line for tables).
+func contrastNote(o *gpe.Observables) string {
+	switch {
+	case o.ContrastWindow > 0:
+		return fmt.Sprintf("(2k₁ amplitude / local mean at the cloud centre, window σ = %s/k_R: envelope removed)", Num(o.ContrastWindow, 3))
+	case strings.Contains(o.ContrastDef, "central half"):
+		return "(continuous n_max, n_min over the central half)"
+	case strings.HasPrefix(o.ContrastDef, "2|"):
+		return "(no stripe wavenumber: k₁ below the single-minimum threshold)"
+	}
+	return "(continuous n_max, n_min)"
 }
 
 func lengths(g *gpe.Grid) string {
@@ -202,7 +217,7 @@ func (r *GroundResult) WriteH5(w *Writer) {
 	w.Scalar(ob+"sigma_x", o.Sx, "dimensionless", "⟨σ_x⟩ per particle")
 	w.Scalar(ob+"k1", o.K1, "k_R", "|k_x| of the largest momentum peak")
 	w.Scalar(ob+"stripe_period", o.StripePeriod, "1/k_R", "π/k₁")
-	w.Scalar(ob+"contrast", o.Contrast, "dimensionless", "(n_max − n_min)/(n_max + n_min) of the total density along x (central region)")
+	w.Scalar(ob+"contrast", o.Contrast, "dimensionless", "stripe contrast of the total density along x: "+o.ContrastDef)
 	w.Scalar(ob+"fourier_2k1", o.Fourier2K1, "dimensionless", "|ñ(2k₁)|/ñ(0) of the total density along x")
 	w.Scalar(ob+"mu_thomas_fermi", o.MuTF, "E_R", "Thomas–Fermi estimate of μ (0 without a trap)")
 	w.Attr("/observables", "phase", o.Phase.String())
@@ -239,8 +254,12 @@ func (r *GroundResult) WritePNG(w io.Writer) error {
 		xs, xl = 1e6/r.Units.KR, "x  [µm]"
 	}
 	p1 := plot.New()
-	p1.Title.Text = fmt.Sprintf("GPE ground state (%dD): %s, k₁ = %.3f k_R, contrast %.3f, %s",
-		g.Dim, o.Phase, o.K1, o.Contrast, r.Multi.Best.Status)
+	ctext := "contrast"
+	if o.ContrastWindow > 0 {
+		ctext = "stripe contrast (2k₁ over local mean)"
+	}
+	p1.Title.Text = fmt.Sprintf("GPE ground state (%dD): %s, k₁ = %.4f k_R, %s %.3f, %s",
+		g.Dim, o.Phase, o.K1, ctext, o.Contrast, r.Multi.Best.Status)
 	p1.X.Label.Text = xl
 	p1.Y.Label.Text = "density along x (integrated transversally)"
 	curves := []struct {
