@@ -108,7 +108,7 @@ func (r *GroundResult) JSON() map[string]any {
 		"phase": o.Phase.String(), "status": b.Status.String(), "energy_per_particle_over_ER": n(o.Energies.Total),
 		"mu_over_ER": n(o.Energies.Mu), "sz": n(o.Sz), "sx": n(o.Sx), "k1_over_kR": n(o.K1), "contrast": n(o.Contrast),
 		"contrast_definition": o.ContrastDef,
-		"fourier_2k1": n(o.Fourier2K1), "stripe_period_over_inv_kR": n(o.StripePeriod),
+		"fourier_2k1":         n(o.Fourier2K1), "stripe_period_over_inv_kR": n(o.StripePeriod),
 		"iterations": b.Iterations, "split_steps": b.SplitSteps, "residual_over_ER": n(b.Residual),
 		"energy_parts_over_ER": map[string]any{"kinetic": n(o.Energies.Kinetic), "potential": n(o.Energies.Potential),
 			"rabi": n(o.Energies.Rabi), "detuning": n(o.Energies.Detuning), "interaction": n(o.Energies.Interaction)},
