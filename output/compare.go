@@ -102,6 +102,9 @@ func (r *CompareReport) Table() *Table {
 	if tf := r.ThomasFermiText(); tf != "" {
 		t.Text(tf)
 	}
+	if c := r.Cloud; c != nil && c.Warning != "" {
+		t.Text(c.Warning)
+	}
 	col := func(f func(s *phases.SchemeSide) string) []string {
 		return []string{f(sides[0]), f(sides[1])}
 	}
@@ -196,6 +199,19 @@ func (r *CompareReport) JSON() map[string]any {
 		return d
 	}
 	sh := r.Problem.Shake
-	return map[string]any{"atom": sh.Species.Name, "up": sh.Up.String(), "down": sh.Down.String(), "density_per_m3": r.Density,
+	doc := map[string]any{"atom": sh.Species.Name, "up": sh.Up.String(), "down": sh.Down.String(), "density_per_m3": r.Density,
 		"shake": side(0, &r.Shake), "raman": side(1, &r.Raman), "cautions": append([]string{}, r.Cautions...)}
+	if c := r.Cloud; c != nil {
+		doc["cloud"] = CloudJSON(c)
+	}
+	return doc
+}
+
+// CloudJSON is the density model of a trapped cloud (phases.TrapCloud) for
+// JSON documents.
+func CloudJSON(c *phases.CloudResult) map[string]any {
+	return map[string]any{"dims": c.Dims, "model": c.Model.String(), "mu_hz": c.Mu / dispersion.Planck,
+		"mu_3d_thomas_fermi_hz": c.Mu3D / dispersion.Planck, "mu_reduced_hz": c.MuReduced / dispersion.Planck,
+		"hbar_omega_perp_hz": c.HbarOmegaPerp / dispersion.Planck, "mu_over_hbar_omega_perp": c.Ratio,
+		"valid": c.Valid, "coupling_scale": c.Scale, "peak_density_per_m3": c.PeakDensity, "warning": c.Warning}
 }

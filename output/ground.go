@@ -121,6 +121,9 @@ func (r *GroundResult) JSON() map[string]any {
 	if o.MuTF > 0 {
 		doc["mu_thomas_fermi_over_ER"] = n(o.MuTF) // band bottom + μ_TF(g_eff), from gpe.Observe
 	}
+	if c := r.Cloud; c != nil {
+		doc["cloud"] = CloudJSON(c)
+	}
 	if v := r.Variational; v != nil {
 		doc["variational"] = map[string]any{"where": v.Where, "phase": v.Phase.String(), "energy_per_particle_over_ER": v.Energy,
 			"k1_over_kR": v.K1, "contrast": v.Contrast, "agrees_with_gpe": v.Phase == o.Phase}
@@ -179,6 +182,13 @@ func (r *GroundResult) WriteH5(w *Writer) {
 	w.Attr("/model", "potential", m.Potential.Kind.String())
 	if m.Potential.Kind == gpe.Harmonic {
 		w.Array("/model/trap_omega", m.Potential.AngularFreq[:g.Dim], nil, "E_R/ħ", "harmonic trap angular frequencies")
+	}
+	if c := r.Cloud; c != nil {
+		w.Attr("/model", "cloud_model", c.Model.String())
+		w.Attr("/model", "cloud_warning", c.Warning)
+		w.Scalar("/model/mu_over_hbar_omega_perp", c.Ratio, "dimensionless", "validity check of the reduced couplings: Thomas–Fermi μ of the reduced model over ħω⊥ (valid up to 1; in 3D μ over ħω of the stiffest axis, valid from 1)")
+		w.Scalar("/model/coupling_scale", c.Scale, "dimensionless", "factor applied to the reduced couplings (1, or the factor that makes μ the 3D Thomas–Fermi μ)")
+		w.Scalar("/model/peak_density", c.PeakDensity, "1/m^3", "effective 3D peak density μ/g of the cloud model")
 	}
 	if r.Units != nil {
 		w.Scalar("/units/k_R", r.Units.KR, "1/m", "recoil wavenumber: unit of momentum")

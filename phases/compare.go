@@ -61,6 +61,10 @@ type CompareResult struct {
 	// ThomasFermi: the Thomas–Fermi estimate of Comparison.Trap (nil when
 	// the density was given).
 	ThomasFermi *dispersion.ThomasFermi
+	// Cloud: the density model of Comparison.Trap (TrapCloud with Dims 3,
+	// the same rule `ground` uses) with its validity check; nil when the
+	// density was given.
+	Cloud *CloudResult
 	// ShakeResult, RamanResult: the schemes' effective parameters.
 	ShakeResult dispersion.ShakeResult
 	RamanResult dispersion.RamanResult
@@ -221,11 +225,12 @@ func Compare(c Comparison, s *CompareSettings) (*CompareResult, error) {
 		if !(c.Trap.Atoms >= 1) {
 			return nil, badInputf("atom number %g: must be ≥ 1", c.Trap.Atoms)
 		}
-		tf, err := dispersion.NewThomasFermi(c.Shake.Species.Mass, c.Couplings.PairCoupling(), c.Trap.Atoms, c.Trap.FreqHz)
+		cr, err := TrapCloud(Cloud{Mass: c.Shake.Species.Mass, Couplings: c.Couplings, Atoms: c.Trap.Atoms, FreqHz: c.Trap.FreqHz, Dims: 3})
 		if err != nil {
-			return nil, badInput(err)
+			return nil, err
 		}
-		r.ThomasFermi, r.Density = &tf, tf.Peak
+		tf := cr.ThomasFermi
+		r.ThomasFermi, r.Cloud, r.Density = &tf, &cr, cr.PeakDensity
 	default:
 		return nil, badInputf("give a density, or atoms in a trap")
 	}
