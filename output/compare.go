@@ -17,6 +17,8 @@ type CompareReport struct {
 	// Cautions: safety cautions printed with the comparison (gradient coils,
 	// RF, lasers), one paragraph each.
 	Cautions []string
+	// Notes: the command's notes (settings not used), one line each.
+	Notes []string
 }
 
 // ThomasFermiText describes the Thomas–Fermi density the comparison used
@@ -76,7 +78,12 @@ func VerdictText(s *phases.SchemeSide) string {
 	t += fmt.Sprintf("; at the planned detuning the state is %s", v.PlannedPhase)
 	switch v.Code {
 	case phases.StripeAtBalancing:
-		t += fmt.Sprintf(" — at the balancing detuning it would be a stripe (retune δ by %s Hz)", Num(v.RetuneHz, 3))
+		knob := "RF detuning f_RF − |f₀|"
+		if s.Name == "Raman" {
+			knob = "two-photon detuning"
+		}
+		t += fmt.Sprintf(" — at the balancing detuning it would be a stripe (retune δ/2π by %+.3g Hz: set the %s to %s Hz, a change of %+.3g Hz)",
+			v.RetuneHz, knob, Num(v.SetDetuningHz, 5), v.SetDetuningChangeHz)
 	case phases.StripePlanned:
 		t += ": STRIPE PHASE PREDICTED"
 	}
@@ -104,6 +111,9 @@ func (r *CompareReport) Table() *Table {
 	}
 	if c := r.Cloud; c != nil && c.Warning != "" {
 		t.Text(c.Warning)
+	}
+	for _, n := range r.Notes {
+		t.Text(n)
 	}
 	col := func(f func(s *phases.SchemeSide) string) []string {
 		return []string{f(sides[0]), f(sides[1])}
@@ -188,6 +198,7 @@ func (r *CompareReport) JSON() map[string]any {
 			"omega_over_ER": s.Model.OmegaOverER, "delta_over_ER": s.Model.DeltaOverER,
 			"phase_planned": s.Planned.Phase.String(), "phase_planned_balanced": s.PlannedBalanced.Phase.String(),
 			"limits": r.limitTexts(i), "verdict": VerdictText(s),
+			"retune_delta_hz": n(s.Verdict.RetuneHz), "set_detuning_hz": n(s.Verdict.SetDetuningHz),
 		}
 		if s.Window.Found {
 			d["stripe_window_omega_over_ER"] = []any{n(s.Window.Lo), n(s.Window.Hi)}
@@ -200,7 +211,8 @@ func (r *CompareReport) JSON() map[string]any {
 	}
 	sh := r.Problem.Shake
 	doc := map[string]any{"atom": sh.Species.Name, "up": sh.Up.String(), "down": sh.Down.String(), "density_per_m3": r.Density,
-		"shake": side(0, &r.Shake), "raman": side(1, &r.Raman), "cautions": append([]string{}, r.Cautions...)}
+		"shake": side(0, &r.Shake), "raman": side(1, &r.Raman), "cautions": append([]string{}, r.Cautions...),
+		"notes": append([]string{}, r.Notes...)}
 	if c := r.Cloud; c != nil {
 		doc["cloud"] = CloudJSON(c)
 	}

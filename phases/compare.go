@@ -139,9 +139,19 @@ type Verdict struct {
 	InWindow bool
 	// PlannedPhase: the phase at the planned Ω and δ.
 	PlannedPhase label.Phase
-	// RetuneHz: δ_b − δ in Hz, the change of detuning that would give a
-	// stripe (StripeAtBalancing only, else 0).
+	// RetuneHz: δ_b − δ in Hz (signed: + raises δ), the change of the
+	// effective detuning δ/2π that would give a stripe (StripeAtBalancing
+	// only, else 0).
 	RetuneHz float64
+	// SetDetuningHz: the scheme's detuning setting that gives δ = δ_b, Hz
+	// (StripeAtBalancing only, else NaN): for the shaking scheme the RF
+	// detuning f_RF − |f₀| = ZeroDeltaDetuningHz + sgn(f₀)·δ_b/2π (δ/2π =
+	// sgn(f₀)(f_RF − |f₀|) + micromotion shift, dispersion.ShakeResult), for
+	// the Raman scheme the two-photon detuning δ_b/2π.
+	SetDetuningHz float64
+	// SetDetuningChangeHz: SetDetuningHz minus the planned setting, Hz
+	// (signed; NaN unless StripeAtBalancing).
+	SetDetuningChangeHz float64
 }
 
 // ShakeLimits are what limits the shaking scheme.
@@ -234,6 +244,9 @@ func Compare(c Comparison, s *CompareSettings) (*CompareResult, error) {
 	default:
 		return nil, badInputf("give a density, or atoms in a trap")
 	}
+	if c.Couplings.Guu <= 0 || c.Couplings.Gdd <= 0 || c.Couplings.PairCoupling() <= 0 {
+		return nil, badInputf("couplings g↑↑ = %.4g, g↓↓ = %.4g, g↑↓ = %.4g J m³: the gas must be repulsive (g↑↑, g↓↓ > 0 and g↑↑ + g↓↓ + 2g↑↓ > 0); an attractive gas collapses", c.Couplings.Guu, c.Couplings.Gdd, c.Couplings.Gud)
+	}
 	var err error
 	if r.ShakeResult, err = c.Shake.Evaluate(); err != nil {
 		return nil, badInput(err)
@@ -250,6 +263,17 @@ func Compare(c Comparison, s *CompareSettings) (*CompareResult, error) {
 		if err := sd.evaluate(r.Density, c.Couplings, &set); err != nil {
 			return nil, err
 		}
+	}
+	// The detuning settings that give δ_b.
+	if v := &r.Shake.Verdict; v.Code == StripeAtBalancing {
+		// sgn(f₀), f₀ = (E↓ − E↑)/h of the pair at the bias field.
+		sgn := math.Copysign(1, c.Shake.Species.TransitionHz(c.Shake.Up, c.Shake.Down, c.Shake.Bias))
+		v.SetDetuningHz = r.ShakeResult.ZeroDeltaDetuningHz + sgn*r.Shake.DeltaBalancing*r.Shake.ERHz()
+		v.SetDetuningChangeHz = v.SetDetuningHz - c.Shake.DetuningHz
+	}
+	if v := &r.Raman.Verdict; v.Code == StripeAtBalancing {
+		v.SetDetuningHz = r.Raman.DeltaBalancing * r.Raman.ERHz()
+		v.SetDetuningChangeHz = v.SetDetuningHz - c.Raman.DetuningHz
 	}
 	// What limits the shaking scheme.
 	shr := r.ShakeResult
@@ -319,7 +343,7 @@ func (sd *SchemeSide) evaluate(density float64, c dispersion.Couplings, set *Com
 }
 
 func (sd *SchemeSide) verdict() Verdict {
-	v := Verdict{PlannedPhase: sd.Planned.Phase}
+	v := Verdict{PlannedPhase: sd.Planned.Phase, SetDetuningHz: math.NaN(), SetDetuningChangeHz: math.NaN()}
 	if !sd.Window.Found {
 		v.Code = NoStripeWindow
 		return v
