@@ -36,6 +36,7 @@ refs: deps
 	$(PY) testdata/ref_gpe_linear.py
 	$(PY) testdata/ref_gpe_stripe.py
 	$(PY) testdata/ref_calibrate.py
+	$(PY) testdata/ref_gpe_edge.py
 
 # Outside readers of our HDF5 files: h5py and h5dump on a fixture of every
 # type the layer writes, and on the result files of a demo run.

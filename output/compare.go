@@ -87,6 +87,16 @@ func VerdictText(s *phases.SchemeSide) string {
 	case phases.StripePlanned:
 		t += ": STRIPE PHASE PREDICTED"
 	}
+	if e := s.GPEEdge; e != nil {
+		switch {
+		case !e.Found:
+			t += "; GPE edge not found (" + e.Note + ")"
+		case v.BetweenEdges:
+			t += fmt.Sprintf("; the planned Ω lies between the variational edge %s and the GPE edge %s E_R: the full GPE predicts a stripe at δ_b there", Num(s.Window.Hi, 4), Num(e.Omega, 4))
+		default:
+			t += fmt.Sprintf("; GPE upper edge %s E_R (variational %s)", Num(e.Omega, 4), Num(s.Window.Hi, 4))
+		}
+	}
 	return t
 }
 
@@ -129,6 +139,14 @@ func (r *CompareReport) Table() *Table {
 	t.Section("Stripe window at δ = δ_b")
 	t.Columns("Ω/E_R from", col(func(s *phases.SchemeSide) string { return winEdge(s, true, 1) }), "")
 	t.Columns("Ω/E_R to", col(func(s *phases.SchemeSide) string { return winEdge(s, false, 1) }), "")
+	if r.Shake.GPEEdge != nil || r.Raman.GPEEdge != nil {
+		t.Columns("GPE upper edge Ω/E_R", col(func(s *phases.SchemeSide) string {
+			if s.GPEEdge == nil || !s.GPEEdge.Found {
+				return "n/a"
+			}
+			return Num(s.GPEEdge.Omega, 4) + " ± " + Num((s.GPEEdge.Hi-s.GPEEdge.Lo)/2, 1)
+		}), "")
+	}
 	t.Columns("in the scheme's Rabi frequency from", col(func(s *phases.SchemeSide) string { return winEdge(s, true, s.ERHz()) }), "Hz")
 	t.Columns("… to", col(func(s *phases.SchemeSide) string { return winEdge(s, false, s.ERHz()) }), "Hz")
 	t.Columns("stripe period (mid window)", col(func(s *phases.SchemeSide) string {
@@ -206,6 +224,10 @@ func (r *CompareReport) JSON() map[string]any {
 			d["stripe_period_m"] = s.StripePeriodM()
 			d["stripe_contrast"] = s.Mid.Contrast
 			d["delta_tolerance_hz"] = n(s.DeltaWindow.Width() / 2 * s.ERHz())
+		}
+		if e := s.GPEEdge; e != nil {
+			d["gpe_edge"] = map[string]any{"found": e.Found, "omega_over_ER": n(e.Omega), "bracket_over_ER": []any{n(e.Lo), n(e.Hi)},
+				"rabi_hz": n(e.Omega * s.ERHz()), "note": e.Note, "planned_between_edges": s.Verdict.BetweenEdges}
 		}
 		return d
 	}

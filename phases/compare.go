@@ -52,6 +52,11 @@ type CompareSettings struct {
 	DeltaTol float64
 	// Variational: settings of the variational theory (nil: defaults).
 	Variational *Settings
+	// GPE: also find each window's upper edge from GPE ground states
+	// (GPEStripeEdge, bisection with BestGPEState at δ_b). Default false.
+	GPE bool
+	// GPEEdge: settings of GPEStripeEdge (zero: its defaults, Ω to 1e-3 E_R).
+	GPEEdge GPEEdgeSettings
 }
 
 // CompareResult is the outcome of Compare.
@@ -102,6 +107,9 @@ type SchemeSide struct {
 	// Planned: the state at the planned Ω and δ; PlannedBalanced at the
 	// planned Ω and δ_b.
 	Planned, PlannedBalanced Result
+	// GPEEdge: the GPE upper edge of the stripe window at δ_b
+	// (CompareSettings.GPE; nil otherwise or without a window).
+	GPEEdge *GPEEdge
 	// Verdict on the planned coupling.
 	Verdict Verdict
 }
@@ -139,6 +147,10 @@ type Verdict struct {
 	InWindow bool
 	// PlannedPhase: the phase at the planned Ω and δ.
 	PlannedPhase label.Phase
+	// BetweenEdges: the planned Ω lies above the variational upper edge but
+	// below the GPE edge (CompareSettings.GPE): the full GPE predicts a
+	// stripe at δ_b where the two-plane-wave ansatz does not.
+	BetweenEdges bool
 	// RetuneHz: δ_b − δ in Hz (signed: + raises δ), the change of the
 	// effective detuning δ/2π that would give a stripe (StripeAtBalancing
 	// only, else 0).
@@ -338,6 +350,20 @@ func (sd *SchemeSide) evaluate(density float64, c dispersion.Couplings, set *Com
 	if sd.PlannedBalanced, err = Variational(ub, vs); err != nil {
 		return err
 	}
+	if set.GPE && sd.Window.Found && !math.IsInf(sd.Window.Hi, 1) {
+		es := set.GPEEdge
+		if es.OmegaMax == 0 {
+			es.OmegaMax = sd.OmegaMax
+		}
+		if es.Best.Variational == nil {
+			es.Best.Variational = vs
+		}
+		e, err := GPEStripeEdge(ub, sd.Window.Hi, &es)
+		if err != nil {
+			return fmt.Errorf("%s: GPE stripe edge: %w", sd.Name, err)
+		}
+		sd.GPEEdge = &e
+	}
 	sd.Verdict = sd.verdict()
 	return nil
 }
@@ -350,6 +376,9 @@ func (sd *SchemeSide) verdict() Verdict {
 	}
 	om := sd.Model.OmegaOverER
 	v.InWindow = om > sd.Window.Lo && om < sd.Window.Hi
+	if e := sd.GPEEdge; e != nil && e.Found {
+		v.BetweenEdges = om >= sd.Window.Hi && om < e.Omega
+	}
 	switch {
 	case sd.Planned.Phase == label.Stripe:
 		v.Code = StripePlanned

@@ -52,6 +52,7 @@ func newCompareCmd() *cobra.Command {
 	var rf ramanFlags
 	var inf interFlags
 	var tf trapFlags
+	var method string
 	c := &cobra.Command{
 		Use:   "compare",
 		Short: "shaking scheme vs Raman scheme side by side for one atom and density",
@@ -69,7 +70,15 @@ planned couplings give a stripe.`,
 			if err != nil {
 				return err
 			}
-			res, err := phases.Compare(p, nil)
+			var set phases.CompareSettings
+			switch method {
+			case "variational":
+			case "gpe":
+				set.GPE = true
+			default:
+				return usagef("--method %q: allowed variational, gpe", method)
+			}
+			res, err := phases.Compare(p, &set)
 			if errors.Is(err, phases.ErrInput) {
 				return usagef("%v", err)
 			}
@@ -88,6 +97,7 @@ planned couplings give a stripe.`,
 	rf.add(fs, false, "raman-")
 	inf.add(fs)
 	tf.add(fs)
+	fs.StringVar(&method, "method", "variational", "variational, or gpe: also the upper stripe edge from 1D GPE ground states (bisection, each branch in a box of its own momentum; ~10 s per scheme)")
 	return c
 }
 
