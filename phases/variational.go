@@ -367,7 +367,7 @@ func (ws *workspace) localSearch(f float64, st *Settings) (float64, bool) {
 	}
 	resetH(1)
 	first := true
-	var d, xn, gn, s, y [3]float64
+	var d, xn, gn, xt, gt, s, y [3]float64
 	for iter := 0; iter < st.MaxIter; iter++ {
 		gn2 := norm3(g)
 		if gn2 < st.GradTol {
@@ -410,6 +410,29 @@ func (ws *workspace) localSearch(f float64, st *Settings) (float64, bool) {
 		}
 		if !accepted {
 			return fx, gn2 < st.AcceptTol
+		}
+		// Expansion (the curvature condition of the weak Wolfe conditions,
+		// Nocedal & Wright, eq. 3.6b, c₂ = 0.9): while the energy still falls
+		// steeply along d at the accepted point, the step is doubled, up to
+		// the 0.5 rad cap. Without it a backtracking search accepts every
+		// unit step in a region of negative curvature (sᵀy ≤ 0, no update),
+		// and the search crawls: from a plane wave with a small admixture
+		// towards a lower stripe at small G2 it spent MaxIter at |g| = 1e-3
+		// (Ω = 0.191, δ = −7.4e-4, G1 = 0.046, G2 = 4.6e-4 E_R).
+		for ex := 0; ex < 40 && alpha < 1e6; ex++ {
+			if gn[0]*d[0]+gn[1]*d[1]+gn[2]*d[2] >= 0.9*slope || 2*alpha*norm3(d[:]) > 0.5 {
+				break
+			}
+			for i := range xt {
+				xt[i] = x[i] + 2*alpha*d[i]
+			}
+			ft := u.stripeEnergy(xt[:], gt[:], f)
+			ws.evals++
+			if !(ft <= fx+1e-4*2*alpha*slope) || !(ft < fn) {
+				break
+			}
+			alpha *= 2
+			xn, gn, fn = xt, gt, ft
 		}
 		for i := 0; i < 3; i++ {
 			s[i] = xn[i] - x[i]
