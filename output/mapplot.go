@@ -23,6 +23,7 @@ var phaseColors = []color.Color{
 	color.RGBA{200, 90, 140, 255},  // stripe
 	color.RGBA{90, 90, 90, 255},    // not converged
 	color.RGBA{255, 255, 255, 255}, // no coupling
+	color.RGBA{140, 105, 60, 255},  // under-resolved
 }
 
 type phasePalette struct{}

@@ -53,7 +53,7 @@ func (r *MapResult) Disagreements() []int {
 	pv := d.Observable("phase_variational")
 	var out []int
 	for i, p := range d.Phase {
-		if pv == nil || !d.Mask[i] || p == label.NotConverged || math.IsNaN(pv[i]) {
+		if pv == nil || !d.Mask[i] || p == label.NotConverged || p == label.UnderResolved || math.IsNaN(pv[i]) {
 			continue
 		}
 		if label.Phase(int8(pv[i])) != p {
@@ -158,25 +158,16 @@ func (r *MapResult) Table() *Table {
 	if res.Skipped > 0 {
 		t.Text(fmt.Sprintf("resumed: %d points from an earlier run, %d computed now", res.Skipped, res.Computed))
 	}
+	if ur := r.Where(label.UnderResolved); len(ur) > 0 {
+		t.Section(fmt.Sprintf("Under-resolved: %d of %d points (no grid within the limits resolves k_max = π/dx ≥ 4 k_R; not solved, not classified)", len(ur), d.NX*d.NY))
+		r.listPoints(t, ur, "all in the HDF5 file: phase code 6", func(int) string { return "" })
+	}
 	if pv := d.Observable("phase_variational"); pv != nil {
 		dis := r.Disagreements()
 		t.Section(fmt.Sprintf("GPE against the variational theory: %d of %d points disagree", len(dis), d.NX*d.NY))
-		xl, xsc := AxisDisplay(sw.X.Name, sw.X.Unit)
-		yl, ysc := "", 1.0
-		if sw.Y.Len() > 0 {
-			yl, ysc = AxisDisplay(sw.Y.Name, sw.Y.Unit)
-		}
-		for k, i := range dis {
-			if k == 12 {
-				t.Text(fmt.Sprintf("… and %d more (all in the HDF5 file: phase vs phase_variational)", len(dis)-12))
-				break
-			}
-			at := fmt.Sprintf("%s = %s", xl, Num(sw.X.Values[i%d.NX]*xsc, 4))
-			if yl != "" {
-				at += fmt.Sprintf(", %s = %s", yl, Num(sw.Y.Values[i/d.NX]*ysc, 4))
-			}
-			t.Text(fmt.Sprintf("%s: GPE %s, variational %s", at, d.Phase[i], label.Phase(int8(pv[i]))))
-		}
+		r.listPoints(t, dis, "all in the HDF5 file: phase vs phase_variational", func(i int) string {
+			return fmt.Sprintf(": GPE %s, variational %s", d.Phase[i], label.Phase(int8(pv[i])))
+		})
 	}
 	th := label.DefaultThresholds
 	if r.Problem != nil {
@@ -185,4 +176,38 @@ func (r *MapResult) Table() *Table {
 	t.Text(fmt.Sprintf("classifier thresholds: single-minimum below |k| = %g k_R, stripe from minority weight %g",
 		th.SingleMinimumK, th.StripeMinority))
 	return t
+}
+
+// Where lists the points (iy·nx + ix) labelled ph.
+func (r *MapResult) Where(ph label.Phase) []int {
+	var out []int
+	for i, p := range r.Data.Phase {
+		if p == ph && r.Data.Mask[i] {
+			out = append(out, i)
+		}
+	}
+	return out
+}
+
+// listPoints adds one line per point (at most 12) with the axis values and
+// what(i), and a count of the rest ("… and N more (more)").
+func (r *MapResult) listPoints(t *Table, pts []int, more string, what func(int) string) {
+	d := r.Data
+	sw := d.Spec.Sweep
+	xl, xsc := AxisDisplay(sw.X.Name, sw.X.Unit)
+	yl, ysc := "", 1.0
+	if sw.Y.Len() > 0 {
+		yl, ysc = AxisDisplay(sw.Y.Name, sw.Y.Unit)
+	}
+	for k, i := range pts {
+		if k == 12 {
+			t.Text(fmt.Sprintf("… and %d more (%s)", len(pts)-12, more))
+			break
+		}
+		at := fmt.Sprintf("%s = %s", xl, Num(sw.X.Values[i%d.NX]*xsc, 4))
+		if yl != "" {
+			at += fmt.Sprintf(", %s = %s", yl, Num(sw.Y.Values[i/d.NX]*ysc, 4))
+		}
+		t.Text(at + what(i))
+	}
 }

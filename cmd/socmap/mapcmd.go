@@ -56,7 +56,7 @@ func (o *mapOpts) addFlags(fs *pflag.FlagSet) {
 	fs.StringVar(&o.xs, "x", "", "x axis NAME=LO:HI:N")
 	fs.StringVar(&o.ys, "y", "", "y axis NAME=LO:HI:N (optional)")
 	fs.StringVar(&o.method, "method", "variational", "method: variational (two-plane-wave mean-field theory) or gpe (1D GPE ground state per point)")
-	fs.IntVar(&o.gpePoints, "points", 0, "gpe: grid points along x (0: a power of two ≥ 128 with k_max ≥ 4 k_R)")
+	fs.IntVar(&o.gpePoints, "points", 0, "gpe: grid points along x (0: per point, the automatic-grid rule: k_max = π/dx ≥ 4 k_R; a given count is kept and the box shortened to fewer wavelengths; points that cannot be resolved are labelled under-resolved)")
 	o.gpeLength = qflag(fs, "length-kr", KindNumber, "", "gpe: box length in 1/k_R (default: per point, commensurate with the variational k₁)")
 	fs.IntVar(&o.gpeStarts, "starts", 0, "gpe: random starts per point besides the variational optimum and the competing phase")
 	o.gpeTol = qflag(fs, "tol", KindNumber, "1e-8", "gpe: residual to converge to, in E_R")

@@ -24,10 +24,14 @@ const (
 	Stripe        Phase = 3 // two momenta ±k₁, density modulated with period π/k₁
 	NotConverged  Phase = 4 // the solver did not converge; never classified
 	NoCoupling    Phase = 5 // the scheme gives no recoil here (k_t = 0): no spin–orbit coupling to classify
+	// UnderResolved: no grid within the limits of the automatic-grid rule
+	// (gpe.ResolveBox) resolves k_max = π/dx ≥ 4 k_R at this point; the
+	// state is not computed there and never classified.
+	UnderResolved Phase = 6
 )
 
 // All lists every code in order, for legends.
-var All = []Phase{NotComputed, SingleMinimum, PlaneWave, Stripe, NotConverged, NoCoupling}
+var All = []Phase{NotComputed, SingleMinimum, PlaneWave, Stripe, NotConverged, NoCoupling, UnderResolved}
 
 // String returns the phase name used in tables and JSON.
 func (p Phase) String() string {
@@ -44,6 +48,8 @@ func (p Phase) String() string {
 		return "not-converged"
 	case NoCoupling:
 		return "no-coupling"
+	case UnderResolved:
+		return "under-resolved"
 	}
 	return fmt.Sprintf("phase(%d)", int8(p))
 }
