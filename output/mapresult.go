@@ -95,7 +95,8 @@ func (r *MapResult) WritePNG(w io.Writer) error { return r.Plot().WritePNG(w) }
 
 // JSON is the map as a JSON document: x, y (name, unit, values), method,
 // phase_codes, phase and energy_over_ER (rows y, columns x; one row for a
-// one-axis map).
+// one-axis map); for a map over a scheme with an atom also k_R_per_m,
+// E_R_hz, omega_over_ER, delta_over_ER, energy_hz, k1_per_m and period_um.
 func (r *MapResult) JSON() map[string]any {
 	d := r.Data
 	sw := d.Spec.Sweep
@@ -119,6 +120,29 @@ func (r *MapResult) JSON() map[string]any {
 		doc["phase"], doc["energy_over_ER"] = names, energy
 	} else {
 		doc["phase"], doc["energy_over_ER"] = names[0], energy[0]
+	}
+	// Maps over a scheme with an atom: the per-point units and SI values
+	// (phases.LabObservables), in the same layout.
+	for _, o := range [...]struct{ obs, key string }{
+		{"k_R", "k_R_per_m"}, {"E_R", "E_R_hz"}, {"omega_over_ER", "omega_over_ER"}, {"delta_over_ER", "delta_over_ER"},
+		{"energy_hz", "energy_hz"}, {"k1_si", "k1_per_m"}, {"period_um", "period_um"},
+	} {
+		v := d.Observable(o.obs)
+		if v == nil {
+			continue
+		}
+		rows := make([][]any, d.NY)
+		for iy := range rows {
+			rows[iy] = make([]any, d.NX)
+			for ix := range rows[iy] {
+				rows[iy][ix] = JSONNum(v[iy*d.NX+ix])
+			}
+		}
+		if sw.Y.Len() > 0 {
+			doc[o.key] = rows
+		} else {
+			doc[o.key] = rows[0]
+		}
 	}
 	return doc
 }

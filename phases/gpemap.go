@@ -82,10 +82,15 @@ const degenerateSzTol = 1e-6
 // labelled label.UnderResolved, not solved, and stores NaN for the GPE
 // observables (the variational ones and the box are kept).
 func GPEPoints(problem func(ix, iy int) (Uniform, error), s GPESettings) PointFunc {
+	return uniformPoints(problem, len(GPEObservables), gpeSolve(s))
+}
+
+// gpeSolve is the per-point solve of GPEPoints.
+func gpeSolve(s GPESettings) func(context.Context, Uniform) (PointResult, error) {
 	if s.Solver.Threads == 0 {
 		s.Solver.Threads = 1
 	}
-	return uniformPoints(problem, len(GPEObservables), func(ctx context.Context, u Uniform) (PointResult, error) {
+	return func(ctx context.Context, u Uniform) (PointResult, error) {
 		vr, err := Variational(u, s.Variational)
 		if err != nil {
 			return PointResult{}, err
@@ -151,7 +156,7 @@ func GPEPoints(problem func(ix, iy int) (Uniform, error), s GPESettings) PointFu
 			o.Energies.Total, o.K1, o.Contrast, o.Sz, best.res.Residual,
 			vr.Energy, float64(vr.Phase), box.Length, spread, float64(box.Points),
 		}}, nil
-	})
+	}
 }
 
 // gpeStart is the outcome of one start of a GPE map point.

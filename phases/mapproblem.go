@@ -48,13 +48,50 @@ func (p *MapProblem) method() Method {
 	return p.Method
 }
 
-// Sweep returns the map's axes and the method's observables.
+// Sweep returns the map's axes and the method's observables, followed by
+// LabObservables when the lab's scheme has an atom (HasLabUnits).
 func (p *MapProblem) Sweep() Sweep {
-	sw := Sweep{X: p.X, Y: p.Y, Observables: VariationalObservables}
+	obs := VariationalObservables
 	if p.method() == MethodGPE {
-		sw.Observables = GPEObservables
+		obs = GPEObservables
 	}
-	return sw
+	if p.HasLabUnits() {
+		obs = append(append([]Observable(nil), obs...), LabObservables...)
+	}
+	return Sweep{X: p.X, Y: p.Y, Observables: obs}
+}
+
+// LabObservables are stored beside the method's observables in maps whose
+// lab has an atom (a shaking or Raman scheme): there k_R and E_R — the units
+// of k1, period and energy — can change from point to point (every
+// lab-setting axis goes through the scheme), so each point carries its units
+// and the SI values. NaN where the scheme gives no recoil.
+var LabObservables = []Observable{
+	{Name: "k_R", Unit: "1/m", Description: "|k_R| at this point (the unit of k1 and of the momenta)"},
+	{Name: "E_R", Unit: "Hz", Description: "E_R/h at this point (the unit of the energies)"},
+	{Name: "omega_over_ER", Unit: "dimensionless", Description: "coupling hbar Omega/E_R at this point"},
+	{Name: "delta_over_ER", Unit: "dimensionless", Description: "detuning hbar delta/E_R at this point"},
+	{Name: "energy_hz", Unit: "Hz", Description: "energy per particle / h (energy times E_R/h)"},
+	{Name: "k1_si", Unit: "1/m", Description: "k1 in SI (k1 times |k_R|)"},
+	{Name: "period_um", Unit: "µm", Description: "stripe period pi/k1 in micrometres (NaN unless stripe)"},
+}
+
+// HasLabUnits reports whether the lab's scheme has an atom, so that the map
+// stores LabObservables (a direct model has no k_R or E_R in SI).
+func (p *MapProblem) HasLabUnits() bool {
+	return p.Lab.Scheme != nil && p.Lab.Scheme.Atom() != nil
+}
+
+// labValues returns the LabObservables of a point with model m and the
+// method's result r (energy and k1 are r.Values[0] and [1] for both
+// methods).
+func labValues(u Uniform, m dispersion.Model, r PointResult) []float64 {
+	kr, er := math.Abs(m.KR), m.ERHz()
+	v := []float64{kr, er, u.Omega, u.Delta, r.Values[0] * er, r.Values[1] * kr, math.NaN()}
+	if r.Phase == label.Stripe && r.Values[1] != 0 {
+		v[6] = math.Pi / math.Abs(r.Values[1]*kr) * 1e6
+	}
+	return v
 }
 
 // Check validates the problem: a known method, known distinct axes that
@@ -110,15 +147,49 @@ func (p *MapProblem) Uniform(ix, iy int) (Uniform, error) {
 
 // Points returns the point function of the method (VariationalPoints or
 // GPEPoints over Uniform).
+//
+// With lab units (HasLabUnits) each point's model is resolved once and
+// LabObservables follow the method's values.
 func (p *MapProblem) Points() PointFunc {
+	var solve func(context.Context, Uniform) (PointResult, error)
+	nObs := len(VariationalObservables)
 	if p.method() == MethodGPE {
 		s := p.GPE
 		if s.Variational == nil {
 			s.Variational = p.Variational
 		}
-		return GPEPoints(p.Uniform, s)
+		if !p.HasLabUnits() {
+			return GPEPoints(p.Uniform, s)
+		}
+		solve, nObs = gpeSolve(s), len(GPEObservables)
+	} else {
+		if !p.HasLabUnits() {
+			return VariationalPoints(p.Uniform, p.Variational)
+		}
+		solve = variationalSolve(p.Variational)
 	}
-	return VariationalPoints(p.Uniform, p.Variational)
+	return func(ctx context.Context, ix, iy int) (PointResult, error) {
+		if err := ctx.Err(); err != nil {
+			return PointResult{}, err
+		}
+		l, err := p.LabAt(ix, iy)
+		if err != nil {
+			return PointResult{}, err
+		}
+		u, m, err := l.Resolve()
+		if errors.Is(err, ErrNoRecoil) {
+			return PointResult{Phase: label.NoCoupling, Values: nanValues(nObs + len(LabObservables))}, nil
+		}
+		if err != nil {
+			return PointResult{}, err
+		}
+		r, err := solve(ctx, u)
+		if err != nil {
+			return r, err
+		}
+		r.Values = append(r.Values, labValues(u, m, r)...)
+		return r, nil
+	}
 }
 
 // Run computes the map's points into sink (the sweep engine Run with the
