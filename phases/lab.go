@@ -37,7 +37,28 @@ type Lab struct {
 	// g = (g↑↑ + g↓↓)/2.
 	G1, G2, Ratio          float64
 	G1Set, G2Set, RatioSet bool
+
+	// Hold replaces the detuning last of all (after the interactions):
+	// HoldNone (default) keeps it; HoldBalance sets the balancing detuning
+	// ħδ_b = (n g↓↓ − n g↑↑)/2 of the resolved interactions; HoldHz sets
+	// δ/2π = HoldDeltaHz (needs a scheme with E_R in SI).
+	Hold        DeltaHold
+	HoldDeltaHz float64
 }
+
+// DeltaHold is how Lab.Resolve holds the detuning (Lab.Hold).
+type DeltaHold int
+
+const (
+	// HoldNone: the scheme's detuning, or the DetuningOverER override.
+	HoldNone DeltaHold = iota
+	// HoldBalance: δ = δ_b = (n g↓↓ − n g↑↑)/2, where the single-wave energy
+	// is even in k (the two plane waves are degenerate, Uniform.Couplings:
+	// δ/2 + Δg = 0).
+	HoldBalance
+	// HoldHz: δ/2π = Lab.HoldDeltaHz, whatever the scheme's settings.
+	HoldHz
+)
 
 // SchemeName is the name of l's scheme ("shake", "raman", "direct"), or
 // "none" without one.
@@ -121,6 +142,17 @@ func (l Lab) Resolve() (Uniform, dispersion.Model, error) {
 	if l.RatioSet {
 		u.Gud = l.Ratio * (u.Guu + u.Gdd) / 2
 	}
+	switch l.Hold {
+	case HoldBalance:
+		u.Delta = (u.Gdd - u.Guu) / 2
+		m.DeltaOverER = u.Delta
+	case HoldHz:
+		if m.ER <= 0 {
+			return u, m, fmt.Errorf("a detuning held in Hz needs a scheme with a recoil energy (E_R = 0 here)")
+		}
+		u.Delta = l.HoldDeltaHz * dispersion.Planck / m.ER
+		m.DeltaOverER = u.Delta
+	}
 	for _, v := range []float64{u.Omega, u.Delta, u.Guu, u.Gdd, u.Gud} {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
 			return u, m, fmt.Errorf("the setting gives a non-finite effective model %+v", u)
@@ -176,6 +208,12 @@ func (l Lab) Settings() []dispersion.Setting {
 	}
 	if l.RatioSet {
 		add("ratio", num(l.Ratio))
+	}
+	switch l.Hold {
+	case HoldBalance:
+		add("hold-delta", "balance")
+	case HoldHz:
+		add("hold-delta", dispersion.FormatSI(l.HoldDeltaHz, dispersion.KindFrequency))
 	}
 	return dedupSettings(s)
 }

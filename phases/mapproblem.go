@@ -39,7 +39,33 @@ type MapProblem struct {
 	// Variational configures the variational theory (nil: defaults); with
 	// MethodGPE it is GPE.Variational's default.
 	Variational *Settings
+	// HoldDelta holds the detuning while the axes change the lab setting
+	// (sweeps of gradient, shaking frequency, bias, density, …), as a lab
+	// retunes the RF at every setting:
+	//   - HoldNone (default, ""): the scheme's detuning at every point (a
+	//     fixed RF detuning: the micromotion shift and δ_b move with the
+	//     sweep);
+	//   - HoldBalance ("balance"): δ = δ_b = (n g↓↓ − n g↑↑)/2 at every point
+	//     (Lab.Hold = HoldBalance), the detuning at which the stripe window
+	//     is widest;
+	//   - HoldCompensate ("compensate"): δ/2π at every point equal to its
+	//     value at the base setting (Lab before the axes), i.e. the RF
+	//     detuning follows the change of the micromotion shift
+	//     (⟨A↑²⟩ − ⟨A↓²⟩)/(2mh) and of the resonance, so a plan whose RF
+	//     detuning compensates the micromotion stays compensated (Lab.Hold =
+	//     HoldHz). Needs a scheme with an atom.
+	// Not with the delta or rf-detuning axes, which set δ themselves.
+	HoldDelta HoldMode
 }
+
+// HoldMode is MapProblem.HoldDelta.
+type HoldMode string
+
+const (
+	HoldOff        HoldMode = ""
+	HoldToBalance  HoldMode = "balance"
+	HoldCompensate HoldMode = "compensate"
+)
 
 func (p *MapProblem) method() Method {
 	if p.Method == "" {
@@ -116,6 +142,26 @@ func (p *MapProblem) Check() error {
 	if p.Y.Len() > 0 && p.Y.Name == p.X.Name {
 		return fmt.Errorf("the y axis is the x axis (%s)", p.X.Name)
 	}
+	switch p.HoldDelta {
+	case HoldOff, HoldToBalance, HoldCompensate:
+	default:
+		return fmt.Errorf("hold-delta %q: allowed: balance, compensate", p.HoldDelta)
+	}
+	if p.HoldDelta != HoldOff {
+		for _, a := range []Axis{p.X, p.Y} {
+			if a.Len() > 0 && (a.Name == AxisDetuning || a.Name == AxisRFDetuning) {
+				return fmt.Errorf("hold-delta %s with the %s axis: the axis sets the detuning itself", p.HoldDelta, a.Name)
+			}
+		}
+	}
+	if p.HoldDelta == HoldCompensate {
+		if !p.HasLabUnits() {
+			return fmt.Errorf("hold-delta compensate needs a scheme with an atom (shake or raman): it holds δ/2π in Hz")
+		}
+		if _, err := p.Lab.Model(); err != nil {
+			return fmt.Errorf("hold-delta compensate: the base setting has no detuning to hold: %w", err)
+		}
+	}
 	nx, ny := p.Sweep().Shape()
 	for _, c := range [][2]int{{0, 0}, {nx - 1, ny - 1}} {
 		if _, err := p.Uniform(c[0], c[1]); err != nil && !errors.Is(err, ErrNoRecoil) {
@@ -125,13 +171,27 @@ func (p *MapProblem) Check() error {
 	return nil
 }
 
-// LabAt returns the lab setting at point (ix, iy).
+// LabAt returns the lab setting at point (ix, iy), with the detuning held
+// as HoldDelta says.
 func (p *MapProblem) LabAt(ix, iy int) (Lab, error) {
 	l, err := p.Lab.Set(p.X.Name, p.X.Values[ix])
 	if err == nil && p.Y.Len() > 0 {
 		l, err = l.Set(p.Y.Name, p.Y.Values[iy])
 	}
-	return l, err
+	if err != nil {
+		return l, err
+	}
+	switch p.HoldDelta {
+	case HoldToBalance:
+		l.Hold = HoldBalance
+	case HoldCompensate:
+		m0, err := p.Lab.Model()
+		if err != nil {
+			return l, err
+		}
+		l.Hold, l.HoldDeltaHz = HoldHz, m0.DeltaOverER*m0.ERHz()
+	}
+	return l, nil
 }
 
 // Uniform returns the uniform problem at point (ix, iy) (Lab.Resolve of
@@ -219,6 +279,9 @@ func (p *MapProblem) Identity() Identity {
 		}
 	}
 	add := func(name, v string) { id = append(id, dispersion.Setting{Name: name, Value: v}) }
+	if p.HoldDelta != HoldOff {
+		add("hold-delta", string(p.HoldDelta))
+	}
 	add("x", axisText(p.X))
 	if p.Y.Len() > 0 {
 		add("y", axisText(p.Y))
@@ -236,24 +299,29 @@ func (p *MapProblem) Identity() Identity {
 	return id
 }
 
-// axisText is "name=lo:hi:n" for an evenly spaced axis, else the values
-// listed ("name=v0,v1,…").
+// axisText is "name=lo:hi:n" for an evenly spaced axis, "name=lo:hi:n:log"
+// for one evenly spaced in log (LogAxis), else the values listed
+// ("name=v0,v1,…").
 func axisText(a Axis) string {
 	n := a.Len()
 	if n == 0 {
 		return ""
 	}
-	lin := LinearAxis(a.Name, a.Values[0], a.Values[n-1], n)
-	even := true
-	for i, v := range a.Values {
-		if !(math.Abs(v-lin.Values[i]) <= 1e-12*math.Max(math.Abs(v), math.Abs(a.Values[n-1]-a.Values[0]))) {
-			even = false
-			break
+	same := func(b Axis) bool {
+		for i, v := range a.Values {
+			if !(math.Abs(v-b.Values[i]) <= 1e-12*math.Max(math.Abs(v), math.Abs(a.Values[n-1]-a.Values[0]))) {
+				return false
+			}
 		}
+		return true
 	}
 	s := a.Name + "="
-	if even {
-		return s + strconvG(a.Values[0]) + ":" + strconvG(a.Values[n-1]) + ":" + strconv.Itoa(n)
+	ends := strconvG(a.Values[0]) + ":" + strconvG(a.Values[n-1]) + ":" + strconv.Itoa(n)
+	if same(LinearAxis(a.Name, a.Values[0], a.Values[n-1], n)) {
+		return s + ends
+	}
+	if lo, hi := a.Values[0], a.Values[n-1]; lo*hi > 0 && same(LogAxis(a.Name, lo, hi, n)) {
+		return s + ends + ":log"
 	}
 	for i, v := range a.Values {
 		if i > 0 {

@@ -37,6 +37,7 @@ type mapOpts struct {
 	mf             modelFlags
 	inf            interFlags
 	xs, ys, method string
+	holdDelta      string
 	outs           []string
 	workers        int
 	shard          string
@@ -53,8 +54,9 @@ type mapOpts struct {
 func (o *mapOpts) addFlags(fs *pflag.FlagSet) {
 	o.mf.add(fs)
 	o.inf.add(fs)
-	fs.StringVar(&o.xs, "x", "", "x axis NAME=LO:HI:N")
-	fs.StringVar(&o.ys, "y", "", "y axis NAME=LO:HI:N (optional)")
+	fs.StringVar(&o.xs, "x", "", "x axis NAME=LO:HI:N, or NAME=LO:HI:N:log (evenly spaced in log)")
+	fs.StringVar(&o.ys, "y", "", "y axis NAME=LO:HI:N or NAME=LO:HI:N:log (optional)")
+	fs.StringVar(&o.holdDelta, "hold-delta", "", "hold the detuning at every point: balance (δ = δ_b = (n g↓↓ − n g↑↑)/2) or compensate (δ/2π as at the base setting: the RF follows the micromotion shift); default: the scheme's detuning")
 	fs.StringVar(&o.method, "method", "variational", "method: variational (two-plane-wave mean-field theory) or gpe (1D GPE ground state per point)")
 	fs.IntVar(&o.gpePoints, "points", 0, "gpe: grid points along x (0: per point, the automatic-grid rule: k_max = π/dx ≥ 4 k_R; a given count is kept and the box shortened to fewer wavelengths; points that cannot be resolved are labelled under-resolved)")
 	o.gpeLength = qflag(fs, "length-kr", KindNumber, "", "gpe: box length in 1/k_R (default: per point, commensurate with the variational k₁)")
@@ -75,7 +77,12 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 	if o.method != "variational" && o.method != "gpe" {
 		return nil, usagef("--method %q: allowed: variational, gpe", o.method)
 	}
-	p := &phases.MapProblem{Method: phases.Method(o.method)}
+	switch o.holdDelta {
+	case "", "balance", "compensate":
+	default:
+		return nil, usagef("--hold-delta %q: allowed: balance, compensate", o.holdDelta)
+	}
+	p := &phases.MapProblem{Method: phases.Method(o.method), HoldDelta: phases.HoldMode(o.holdDelta)}
 	if p.Method == phases.MethodGPE {
 		if o.gpePoints != 0 && (o.gpePoints < 16 || o.gpePoints > 8192) {
 			return nil, usagef("--points %d: allowed 16 … 8192", o.gpePoints)
@@ -163,9 +170,13 @@ func newMapCmd() *cobra.Command {
 		Long: `Fills a one- or two-axis map with the mean-field phase (single-minimum,
 plane-wave, stripe), energy, stripe k1, contrast, ⟨σz⟩ and the energy gap to
 the competing phase. Axes: omega, delta (E_R), G1, G2 (E_R), density, ratio
-(g↑↓/g), and the schemes' lab settings gradient, shake, phase, bias, rabi
-(shake) or rabi, wavelength, angle (raman), which go through the whole
-scheme → effective-model chain at every point.
+(g↑↓/g), and the schemes' lab settings gradient, shake, phase, bias, rabi,
+rf-detuning (shake) or rabi, wavelength, angle (raman), which go through
+the whole scheme → effective-model chain at every point. NAME=LO:HI:N:log
+spaces the points evenly in log (density over decades). While sweeping lab
+settings, --hold-delta balance holds δ at the balancing value δ_b =
+(n g↓↓ − n g↑↑)/2 at every point, --hold-delta compensate holds δ/2π at its
+value at the base setting (the RF detuning follows the micromotion shift).
 
 With --out MAP.h5 the map is written point by point into MAP.h5.partial,
 which becomes MAP.h5 when every point is done. If the run is interrupted
