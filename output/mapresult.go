@@ -69,7 +69,16 @@ func (r *MapResult) Plot() MapPlot {
 	d := r.Data
 	title := fmt.Sprintf("Mean-field phase diagram (variational), %s", r.subtitle())
 	if d.Spec.Method == string(phases.MethodGPE) {
-		title = fmt.Sprintf("Phase diagram from 1D GPE ground states, %s", r.subtitle())
+		dims, what := 1, "GPE ground states"
+		if r.Problem != nil {
+			if r.Problem.GPE.Dims > 1 {
+				dims = r.Problem.GPE.Dims
+			}
+			if tr := r.Problem.Trap; tr != nil {
+				what = fmt.Sprintf("trapped GPE ground states (%g, %g, %g Hz)", tr.FreqHz[0], tr.FreqHz[1], tr.FreqHz[2])
+			}
+		}
+		title = fmt.Sprintf("Phase diagram from %dD %s, %s", dims, what, r.subtitle())
 	}
 	mp := MapPlot{Data: d, Title: title}
 	if r.Problem != nil {

@@ -47,6 +47,7 @@ const (
 	AxisWavelength     = "wavelength"
 	AxisCrossingAngle  = "angle"
 	AxisRFDetuning     = "rf-detuning" // the shake scheme's RF detuning f_RF − |f_0|
+	AxisAtoms          = "atoms"       // atom number of a trapped cloud (MapProblem.Trap)
 )
 
 // Axes is the table of map axes, the one list every layer uses (parsing,
@@ -83,6 +84,14 @@ var Axes = []AxisDef{
 	{Name: AxisRatio, Kind: dispersion.KindNumber, Unit: "dimensionless", Label: "g↑↓ / g", Scale: 1,
 		Overrides: []string{"ratio"}, set: func(l *Lab, v float64) error {
 			l.Ratio, l.RatioSet = v, true
+			return nil
+		}},
+	{Name: AxisAtoms, Kind: dispersion.KindNumber, Unit: "dimensionless", Label: "atom number N", Scale: 1,
+		Overrides: []string{"atoms"}, set: func(l *Lab, v float64) error {
+			if !(v >= 1) || math.IsInf(v, 0) {
+				return fmt.Errorf("axis atoms: %g atoms, need at least 1", v)
+			}
+			l.Atoms = v
 			return nil
 		}},
 	{Name: AxisGradient, Kind: dispersion.KindGradient, Unit: "T/m", Label: "gradient amplitude  [G/cm]", Scale: 100,

@@ -40,10 +40,24 @@ type GPESettings struct {
 	// RandomStarts: random starts (seeds 1…n) besides the variational
 	// optimum and the competing branch's state. Default 0.
 	RandomStarts int
+	// Dims: dimension of the grid, 1 (default, also for 0) or 2. A uniform
+	// 2D box has the x axis of the 1D rule and a y axis of half its length
+	// (gpe.AutoTransverse) with points from the same rule (gpe.ResolveBox
+	// for that length, or the given Points); the observables are those of
+	// the 1D map (k1, contrast along x). Trapped maps (MapProblem.Trap)
+	// solve in Dims dimensions with the other axes frozen out.
+	Dims int
 	// Solver settings (Threads defaults to 1: one solve per core).
 	Solver gpe.Settings
 	// Variational settings.
 	Variational *Settings
+}
+
+func (s GPESettings) dims() int {
+	if s.Dims == 0 {
+		return 1
+	}
+	return s.Dims
 }
 
 // DegenerateTol (E_R) is the energy difference below which GPEPoints treats
@@ -98,14 +112,22 @@ func gpeSolve(s GPESettings) func(context.Context, Uniform) (PointResult, error)
 		// The box admits the momentum of the variational winner exactly (for a
 		// single minimum, that of the competing stripe branch): the shared
 		// rule of gpe/autogrid.go.
-		box := gpe.ResolveBox(1, gpe.BoxMomentum(vr.K1, vr.StripeState.K1()), s.Points, s.Length)
+		dims := s.dims()
+		box := gpe.ResolveBox(dims, gpe.BoxMomentum(vr.K1, vr.StripeState.K1()), s.Points, s.Length)
+		points, lengths := []int{box.Points}, []float64{box.Length}
+		resolved := box.Resolved
+		if dims == 2 {
+			by := gpe.ResolveBox(2, 1, s.Points, gpe.AutoTransverse(box.Length))
+			points, lengths = append(points, by.Points), append(lengths, by.Length)
+			resolved = resolved && by.Resolved
+		}
 		nan := math.NaN()
-		if !box.Resolved {
+		if !resolved {
 			return PointResult{Phase: label.UnderResolved, Values: []float64{
 				nan, nan, nan, nan, nan, vr.Energy, float64(vr.Phase), box.Length, nan, float64(box.Points),
 			}}, nil
 		}
-		grid, err := gpe.NewGrid([]int{box.Points}, []float64{box.Length})
+		grid, err := gpe.NewGrid(points, lengths)
 		if err != nil {
 			return PointResult{}, err
 		}

@@ -44,6 +44,10 @@ type Lab struct {
 	// δ/2π = HoldDeltaHz (needs a scheme with E_R in SI).
 	Hold        DeltaHold
 	HoldDeltaHz float64
+
+	// Atoms: the atom number of a trapped cloud (the atoms axis; trapped
+	// GPE maps, MapProblem.Trap). Not used by Resolve. Default 0.
+	Atoms float64
 }
 
 // DeltaHold is how Lab.Resolve holds the detuning (Lab.Hold).
@@ -89,7 +93,8 @@ func (l Lab) Set(axis string, v float64) (Lab, error) {
 var ErrNoRecoil = errors.New("the scheme gives no recoil here (k_t = 0): no spin–orbit coupling")
 
 // Model computes the effective model of l's scheme with the coupling and
-// detuning overrides (no interactions). ErrNoRecoil when a scheme with an
+// detuning overrides and a detuning held in Hz (Hold = HoldHz; no
+// interactions). ErrNoRecoil when a scheme with an
 // atom gives k_t = 0.
 func (l Lab) Model() (dispersion.Model, error) {
 	if l.Scheme == nil {
@@ -107,6 +112,12 @@ func (l Lab) Model() (dispersion.Model, error) {
 	}
 	if l.DetuningSet {
 		m.DeltaOverER = l.DetuningOverER
+	}
+	if l.Hold == HoldHz {
+		if m.ER <= 0 {
+			return m, fmt.Errorf("a detuning held in Hz needs a scheme with a recoil energy (E_R = 0 here)")
+		}
+		m.DeltaOverER = l.HoldDeltaHz * dispersion.Planck / m.ER
 	}
 	return m, nil
 }
@@ -145,12 +156,6 @@ func (l Lab) Resolve() (Uniform, dispersion.Model, error) {
 	switch l.Hold {
 	case HoldBalance:
 		u.Delta = (u.Gdd - u.Guu) / 2
-		m.DeltaOverER = u.Delta
-	case HoldHz:
-		if m.ER <= 0 {
-			return u, m, fmt.Errorf("a detuning held in Hz needs a scheme with a recoil energy (E_R = 0 here)")
-		}
-		u.Delta = l.HoldDeltaHz * dispersion.Planck / m.ER
 		m.DeltaOverER = u.Delta
 	}
 	for _, v := range []float64{u.Omega, u.Delta, u.Guu, u.Gdd, u.Gud} {
@@ -208,6 +213,9 @@ func (l Lab) Settings() []dispersion.Setting {
 	}
 	if l.RatioSet {
 		add("ratio", num(l.Ratio))
+	}
+	if l.Atoms > 0 {
+		add("atoms", num(l.Atoms))
 	}
 	switch l.Hold {
 	case HoldBalance:

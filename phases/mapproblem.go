@@ -56,6 +56,11 @@ type MapProblem struct {
 	//     HoldHz). Needs a scheme with an atom.
 	// Not with the delta or rf-detuning axes, which set δ themselves.
 	HoldDelta HoldMode
+	// Trap: nil for uniform gases; otherwise a trapped-cloud GPE map
+	// (MethodGPE only): every point is the ground state of Lab.Atoms atoms
+	// in this trap (trapPoints, through Ground), with interactions from the
+	// atom's scattering lengths. Default nil.
+	Trap *MapTrap
 }
 
 // HoldMode is MapProblem.HoldDelta.
@@ -80,6 +85,9 @@ func (p *MapProblem) Sweep() Sweep {
 	obs := VariationalObservables
 	if p.method() == MethodGPE {
 		obs = GPEObservables
+		if p.Trap != nil {
+			obs = TrapObservables
+		}
 	}
 	if p.HasLabUnits() {
 		obs = append(append([]Observable(nil), obs...), LabObservables...)
@@ -154,6 +162,19 @@ func (p *MapProblem) Check() error {
 			}
 		}
 	}
+	if d := p.GPE.Dims; d != 0 && d != 1 && d != 2 || d == 2 && p.method() != MethodGPE {
+		return fmt.Errorf("dims %d: allowed 1, or 2 with the gpe method", d)
+	}
+	for _, a := range []Axis{p.X, p.Y} {
+		if a.Len() > 0 && a.Name == AxisAtoms && p.Trap == nil {
+			return errors.New("the atoms axis needs a trapped cloud (a trap)")
+		}
+	}
+	if p.Trap != nil {
+		if err := p.checkTrap(); err != nil {
+			return err
+		}
+	}
 	if p.HoldDelta == HoldCompensate {
 		if !p.HasLabUnits() {
 			return fmt.Errorf("hold-delta compensate needs a scheme with an atom (shake or raman): it holds δ/2π in Hz")
@@ -161,6 +182,9 @@ func (p *MapProblem) Check() error {
 		if _, err := p.Lab.Model(); err != nil {
 			return fmt.Errorf("hold-delta compensate: the base setting has no detuning to hold: %w", err)
 		}
+	}
+	if p.Trap != nil {
+		return nil // checkTrap checked the corners
 	}
 	nx, ny := p.Sweep().Shape()
 	for _, c := range [][2]int{{0, 0}, {nx - 1, ny - 1}} {
@@ -211,6 +235,9 @@ func (p *MapProblem) Uniform(ix, iy int) (Uniform, error) {
 // With lab units (HasLabUnits) each point's model is resolved once and
 // LabObservables follow the method's values.
 func (p *MapProblem) Points() PointFunc {
+	if p.Trap != nil && p.method() == MethodGPE {
+		return p.trapPoints()
+	}
 	var solve func(context.Context, Uniform) (PointResult, error)
 	nObs := len(VariationalObservables)
 	if p.method() == MethodGPE {
@@ -292,6 +319,13 @@ func (p *MapProblem) Identity() Identity {
 		add("length-kr", num(p.GPE.Length))
 		add("starts", strconv.Itoa(p.GPE.RandomStarts))
 		add("tol", num(p.GPE.Solver.Tol))
+		if d := p.GPE.dims(); d != 1 {
+			add("dims", strconv.Itoa(d))
+		}
+		if p.Trap != nil {
+			f := p.Trap.FreqHz
+			add("trap", fmt.Sprintf("%s,%s,%s Hz", num(f[0]), num(f[1]), num(f[2])))
+		}
 	}
 	th := thresholds(p.Variational)
 	add("threshold-single-minimum-k", num(th.SingleMinimumK))

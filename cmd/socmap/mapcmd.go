@@ -46,6 +46,8 @@ type mapOpts struct {
 	tasks, cpus    int
 	sbatchOptions  []string
 	// GPE method
+	tf                   trapFlags
+	gpeDims              int
 	gpePoints, gpeStarts int
 	gpeLength, gpeTol    *quantity
 }
@@ -60,6 +62,8 @@ func (o *mapOpts) addFlags(fs *pflag.FlagSet) {
 	fs.StringVar(&o.method, "method", "variational", "method: variational (two-plane-wave mean-field theory) or gpe (1D GPE ground state per point)")
 	fs.IntVar(&o.gpePoints, "points", 0, "gpe: grid points along x (0: per point, the automatic-grid rule: k_max = π/dx ≥ 4 k_R; a given count is kept and the box shortened to fewer wavelengths; points that cannot be resolved are labelled under-resolved)")
 	o.gpeLength = qflag(fs, "length-kr", KindNumber, "", "gpe: box length in 1/k_R (default: per point, commensurate with the variational k₁)")
+	fs.IntVar(&o.gpeDims, "dims", 1, "gpe: dimension of the grid, 1 or 2 (a uniform box, or the trapped cloud with the other axes frozen out)")
+	o.tf.add(fs)
 	fs.IntVar(&o.gpeStarts, "starts", 0, "gpe: random starts per point besides the variational optimum and the competing phase")
 	o.gpeTol = qflag(fs, "tol", KindNumber, "1e-8", "gpe: residual to converge to, in E_R")
 	fs.IntVar(&o.workers, "workers", 0, "parallel workers (0 = all cores, or SLURM_CPUS_PER_TASK inside a Slurm job)")
@@ -96,14 +100,24 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 		if !(o.gpeTol.v > 0) {
 			return nil, usagef("--tol %q: must be positive", o.gpeTol.text)
 		}
+		if o.gpeDims != 1 && o.gpeDims != 2 {
+			return nil, usagef("--dims %d: allowed 1, 2", o.gpeDims)
+		}
 		p.GPE = phases.GPESettings{Points: o.gpePoints, Length: o.gpeLength.v, RandomStarts: o.gpeStarts,
-			Solver: gpe.Settings{Tol: o.gpeTol.v}}
+			Solver: gpe.Settings{Tol: o.gpeTol.v}, Dims: o.gpeDims}
+	} else if o.gpeDims != 1 {
+		return nil, usagef("--dims %d: a grid dimension is for --method gpe", o.gpeDims)
 	}
 	var err error
 	if p.Lab, err = o.mf.lab(); err != nil {
 		return nil, err
 	}
-	if err := o.inf.apply(&p.Lab, &o.mf.shake.atomFlags); err != nil {
+	trapped := o.tf.trap != "" || o.tf.atoms.text != "" || strings.HasPrefix(o.xs, "atoms=") || strings.HasPrefix(o.ys, "atoms=")
+	if trapped {
+		if err := o.trapLab(p); err != nil {
+			return nil, err
+		}
+	} else if err := o.inf.apply(&p.Lab, &o.mf.shake.atomFlags); err != nil {
 		return nil, err
 	}
 	if o.xs == "" {
@@ -125,6 +139,45 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 		return nil, usagef("map settings: %v", err)
 	}
 	return p, nil
+}
+
+// trapLab sets up a trapped-cloud map: --trap (required), --atoms (unless
+// an axis is atoms), interactions from the atom's scattering lengths.
+func (o *mapOpts) trapLab(p *phases.MapProblem) error {
+	if p.Method != phases.MethodGPE {
+		return usagef("a trapped cloud (--trap, --atoms or the atoms axis) needs --method gpe")
+	}
+	if p.Lab.Scheme == nil || p.Lab.Scheme.Atom() == nil {
+		return usagef("a trapped cloud needs a scheme (--scheme shake|raman) to set k_R and E_R")
+	}
+	if o.tf.trap == "" {
+		return usagef("a trapped cloud needs --trap \"f_x,f_y,f_z\" (Hz)")
+	}
+	fr, err := o.tf.frequencies()
+	if err != nil {
+		return err
+	}
+	if o.tf.atoms.text != "" {
+		if !(o.tf.atoms.v >= 1) {
+			return usagef("--atoms %q: must be ≥ 1", o.tf.atoms.text)
+		}
+		p.Lab.Atoms = o.tf.atoms.v
+	}
+	for _, q := range []struct {
+		name string
+		q    *quantity
+	}{{"G1", o.inf.g1}, {"G2", o.inf.g2}, {"ng-uu", o.inf.nguu}, {"ng-dd", o.inf.ngdd}, {"ng-ud", o.inf.ngud}, {"density", o.inf.density}} {
+		if q.q.text != "" && !g.fromPlan[q.name] {
+			return usagef("--%s: a trapped cloud takes its interactions from the atom (or --a-uu/--a-dd/--a-ud) and its density from --atoms and --trap", q.name)
+		}
+	}
+	c, err := o.inf.couplings(&o.mf.shake.atomFlags)
+	if err != nil {
+		return err
+	}
+	p.Lab.HaveSI, p.Lab.Couplings = true, c
+	p.Trap = &phases.MapTrap{FreqHz: fr}
+	return nil
 }
 
 // shardSetting returns the shard of this run: from --shard I/N, else from
