@@ -88,10 +88,7 @@ var Axes = []AxisDef{
 		}},
 	{Name: AxisAtoms, Kind: dispersion.KindNumber, Unit: "dimensionless", Label: "atom number N", Scale: 1,
 		Overrides: []string{"atoms"}, set: func(l *Lab, v float64) error {
-			if !(v >= 1) || math.IsInf(v, 0) {
-				return fmt.Errorf("axis atoms: %g atoms, need at least 1", v)
-			}
-			l.Atoms = v
+			l.Atoms = v // checked (≥ 1) by MapProblem.Check
 			return nil
 		}},
 	{Name: AxisGradient, Kind: dispersion.KindGradient, Unit: "T/m", Label: "gradient amplitude  [G/cm]", Scale: 100,

@@ -31,7 +31,7 @@ func TestMapSweepFlags(t *testing.T) {
 		{[]string{"--plan", plan, "--method", "gpe", "--x", "rabi=5:20 Hz:2", "--trap", "20,200,200"}, "atom number"},
 		{[]string{"--plan", plan, "--method", "gpe", "--x", "atoms=1e4:2e4:2", "--trap", "20,200,200", "--G1", "1", "--G2", "0.1"}, "--G1"},
 	} {
-		code, _, stderr := runM(t, append(append([]string{"map", "--quiet", "--out", out}, c.args...))...)
+		code, _, stderr := runM(t, append([]string{"map", "--quiet", "--out", out}, c.args...)...)
 		if code != 2 || strings.Count(strings.TrimSpace(stderr), "\n") != 0 || !strings.Contains(stderr, c.want) {
 			t.Errorf("%v: exit %d, stderr %q (want 2, one line with %q)", c.args, code, stderr, c.want)
 		}
