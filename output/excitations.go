@@ -316,11 +316,20 @@ func (r *ExcitationsResult) WriteCSV(w io.Writer) error {
 	return err
 }
 
-// WritePNG renders the spectrum along the grid with every mode shaded by its
-// share of the f-sum, ω·Z/q² (density weight: sequential colour scale, light
-// = none, dark = all), and, when a Bragg momentum was given, the Bragg
-// spectrum at that momentum below it.
+// WritePNG renders Figure as PNG.
 func (r *ExcitationsResult) WritePNG(w io.Writer) error {
+	f, err := r.Figure()
+	if err != nil {
+		return err
+	}
+	return f.WritePNG(w)
+}
+
+// Figure is the spectrum along the grid with every mode shaded by its
+// share of the f-sum, ω·Z/q² (density weight: sequential colour scale, light
+// = none, dark = all; its colour bar beside), and, when a Bragg momentum was
+// given, the Bragg spectrum at that momentum below it.
+func (r *ExcitationsResult) Figure() (*Figure, error) {
 	res := &r.Res
 	si := r.si()
 	ys, yl := 1.0, "excitation energy  [E_R]"
@@ -343,7 +352,6 @@ func (r *ExcitationsResult) WritePNG(w io.Writer) error {
 	if r.Subtitle != "" {
 		title += "\n" + r.Subtitle
 	}
-	p.Title.Text = title
 	p.X.Label.Text = fmt.Sprintf("q_%s  [k_R]", axisName(res.Axis))
 	p.Y.Label.Text = yl
 	for b := 0; ; b++ {
@@ -369,7 +377,7 @@ func (r *ExcitationsResult) WritePNG(w io.Writer) error {
 			}
 			l, err := plotter.NewLine(plotter.XYs{{X: res.Q[i], Y: m0.Omega * ys}, {X: res.Q[i+1], Y: m1.Omega * ys}})
 			if err != nil {
-				return err
+				return nil, err
 			}
 			l.Color, l.Width = shade(fv), vg.Points(2.2)
 			p.Add(l)
@@ -396,16 +404,8 @@ func (r *ExcitationsResult) WritePNG(w io.Writer) error {
 	}
 	p.Y.Min = math.Min(0, p.Y.Min)
 	p.Add(plotter.NewGrid())
-	p.Legend.Top = true
-	p.Legend.Left = true
-	p.Legend.XOffs = vg.Points(8)
-	p.Legend.YOffs = -vg.Points(4)
-	cbar := plot.New()
-	cbar.HideY()
-	cbar.X.Label.Text = "share of the f-sum carried by the mode, ω·Z(q)/q²  (yellow: none, black: all)"
-	cbar.Add(&plotter.ColorBar{ColorMap: reversed{cm}})
-	panels := []*plot.Plot{p, cbar}
-	frac := []float64{0.88, 0.12}
+	cbar := NewColorBar(reversed{cm}, "share of the f-sum ω·Z(q)/q²  (light: none, dark: all)")
+	panels := []Panel{{Plot: p, ColorBar: cbar}}
 	h := 6.5 * vg.Inch
 	if b := res.Bragg; b != nil {
 		bp := plot.New()
@@ -434,7 +434,7 @@ func (r *ExcitationsResult) WritePNG(w io.Writer) error {
 			}
 			l, err := plotter.NewLine(xy)
 			if err != nil {
-				return err
+				return nil, err
 			}
 			l.Color, l.Width = c.col, vg.Points(1.5)
 			if c.dash {
@@ -456,13 +456,12 @@ func (r *ExcitationsResult) WritePNG(w io.Writer) error {
 			bp.Add(l)
 		}
 		bp.Add(plotter.NewGrid())
-		bp.Legend.Top = true
 		bp.Y.Max = 1.3 * math.Max(maxOf(b.Density), math.Max(maxOf(b.Spin), maxOf(b.Signal)))
-		panels = []*plot.Plot{p, cbar, bp}
-		frac = []float64{0.52, 0.08, 0.40}
+		panels[0].Height = 0.6
+		panels = append(panels, Panel{Plot: bp, Height: 0.4})
 		h = 10 * vg.Inch
 	}
-	return renderPanels(w, 8.5*vg.Inch, h, panels, frac)
+	return &Figure{Title: title, Width: 10 * vg.Inch, Height: h, Panels: panels}, nil
 }
 
 func maxOf(v []float64) float64 {

@@ -63,8 +63,10 @@ func (r *MapResult) Disagreements() []int {
 	return out
 }
 
-// Plot returns the PNG phase diagram: phases in colour, the closed-form
-// boundaries where they apply, GPE ≠ variational points marked.
+// Plot returns the phase diagram: phases in colour, the closed-form
+// boundaries where they apply, GPE ≠ variational points marked; the title
+// names the method and scheme and, on the next lines, the fixed settings
+// (those no axis replaces).
 func (r *MapResult) Plot() MapPlot {
 	d := r.Data
 	title := fmt.Sprintf("Mean-field phase diagram (variational), %s", r.subtitle())
@@ -80,7 +82,7 @@ func (r *MapResult) Plot() MapPlot {
 		}
 		title = fmt.Sprintf("Phase diagram from %dD %s, %s", dims, what, r.subtitle())
 	}
-	mp := MapPlot{Data: d, Title: title}
+	mp := MapPlot{Data: d, Title: r.titleWith(title)}
 	if r.Problem != nil {
 		xs, ys := axisScale(d.Spec.Sweep.X), axisScale(d.Spec.Sweep.Y)
 		for _, b := range r.Problem.ClosedFormBoundaries() {
@@ -94,13 +96,51 @@ func (r *MapResult) Plot() MapPlot {
 	return mp
 }
 
+// titleWith adds the fixed settings of the map's problem to a title.
+func (r *MapResult) titleWith(title string) string {
+	if r.Problem == nil {
+		return title
+	}
+	var except []string
+	for _, a := range []phases.Axis{r.Data.Spec.Sweep.X, r.Data.Spec.Sweep.Y} {
+		if def, ok := phases.LookupAxis(a.Name); ok && a.Len() > 0 {
+			except = append(except, def.Overrides...)
+		}
+	}
+	return titleWith(title, SettingParts(r.Problem.Lab, except), 110)
+}
+
 func axisScale(a phases.Axis) float64 {
 	_, s := AxisDisplay(a.Name, a.Unit)
 	return s
 }
 
-// WritePNG renders Plot.
+// Figure is the phase diagram's figure (Plot().Figure()).
+func (r *MapResult) Figure() (*Figure, error) { return r.Plot().Figure() }
+
+// WritePNG renders Plot as PNG.
 func (r *MapResult) WritePNG(w io.Writer) error { return r.Plot().WritePNG(w) }
+
+// ObservableFigure is the figure of one observable over the map (MapPlot.ObservableFigure),
+// titled with the observable, the method, the scheme and the fixed settings.
+func (r *MapResult) ObservableFigure(name string) (*Figure, error) {
+	mp := r.Plot()
+	method := "variational"
+	if r.Data.Spec.Method == string(phases.MethodGPE) {
+		method = "1D GPE"
+	}
+	mp.Title = r.titleWith(fmt.Sprintf("%s (%s), %s", name, method, r.subtitle()))
+	return mp.ObservableFigure(name)
+}
+
+// ObservableFigurer is the Figurer of one observable's map (for WriteFigure).
+type ObservableFigurer struct {
+	Result *MapResult
+	Name   string
+}
+
+// Figure implements Figurer.
+func (o ObservableFigurer) Figure() (*Figure, error) { return o.Result.ObservableFigure(o.Name) }
 
 // JSON is the map as a JSON document: x, y (name, unit, values), method,
 // phase_codes, phase and energy_over_ER (rows y, columns x; one row for a

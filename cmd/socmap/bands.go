@@ -55,7 +55,7 @@ h = (k − 2F_z)² + δF_z + εF_z² + (Ω/√2)F_x with --epsilon-er.`,
 			if err != nil {
 				return err
 			}
-			if err := checkOuts(outs, ".png", ".csv", ".h5", ".json"); err != nil {
+			if err := checkOuts(outs, outTypes(".csv", ".h5", ".json")...); err != nil {
 				return err
 			}
 			if !(kmax.v > 0) {
@@ -76,8 +76,8 @@ h = (k − 2F_z)² + δF_z + εF_z² + (Ω/√2)F_x with --epsilon-er.`,
 			for _, o := range outs {
 				var err error
 				switch strings.ToLower(filepath.Ext(o)) {
-				case ".png":
-					err = output.WriteFileAtomic(o, g.force, bp.WritePNG)
+				case ".png", ".svg", ".pdf":
+					err = output.WriteFigure(o, g.force, bp)
 				case ".csv":
 					err = output.WriteFileAtomic(o, g.force, bp.WriteCSV)
 				default:
@@ -100,7 +100,7 @@ h = (k − 2F_z)² + δF_z + εF_z² + (Ω/√2)F_x with --epsilon-er.`,
 	lf.add(c.Flags(), false)
 	kmax = qflag(c.Flags(), "k-max", KindNumber, "2.5", "plot and sample k_x over [−k-max, k-max] (units of k_R)")
 	c.Flags().IntVar(&samples, "samples", 501, "number of k points in the CSV/HDF5 curves and the plot")
-	c.Flags().StringSliceVar(&outs, "out", nil, "write FILE.png (plot), FILE.csv (curves), FILE.h5 or FILE.json (repeatable)")
+	c.Flags().StringSliceVar(&outs, "out", nil, "write FILE.png, .svg or .pdf (plot), FILE.csv (curves), FILE.h5 or FILE.json (repeatable)")
 	return c
 }
 

@@ -40,7 +40,7 @@ the roton minimum, dynamical instabilities (complex frequencies), and with
   socmap excitations --plan socmap-demo/plan.toml --bragg-q "3 1/um" --bragg-duration "2 ms" --out exc.h5`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			if err := checkOuts(outs, ".h5", ".png", ".json", ".csv"); err != nil {
+			if err := checkOuts(outs, outTypes(".h5", ".json", ".csv")...); err != nil {
 				return err
 			}
 			lab, err := mf.lab()
@@ -107,8 +107,8 @@ the roton minimum, dynamical instabilities (complex frequencies), and with
 			for _, o := range outs {
 				var err error
 				switch strings.ToLower(filepath.Ext(o)) {
-				case ".png":
-					err = output.WriteFileAtomic(o, g.force, r.WritePNG)
+				case ".png", ".svg", ".pdf":
+					err = output.WriteFigure(o, g.force, r)
 				case ".csv":
 					err = output.WriteFileAtomic(o, g.force, r.WriteCSV)
 				default:
@@ -134,7 +134,7 @@ the roton minimum, dynamical instabilities (complex frequencies), and with
 	fs.StringVar(&braggDur, "bragg-duration", "", `rectangular Bragg pulse duration, in ħ/E_R or with a unit ("2 ms"); default 25 ħ/E_R`)
 	fs.IntVar(&bands, "bands", 6, "stripe bands reported per momentum")
 	fs.IntVar(&harmonics, "harmonics", 0, "plane waves of the stripe basis (even); 0: raised until the bands converge to 1e-9 E_R")
-	fs.StringSliceVar(&outs, "out", nil, "write FILE.h5, FILE.json, FILE.csv (modes per momentum), FILE.png (spectrum; with --bragg-q also the Bragg spectrum) (repeatable)")
+	fs.StringSliceVar(&outs, "out", nil, "write FILE.h5, FILE.json, FILE.csv (modes per momentum), FILE.png, .svg or .pdf (spectrum; with --bragg-q also the Bragg spectrum) (repeatable)")
 	return c
 }
 

@@ -80,7 +80,7 @@ fz, f_perp, phase, energy_per_particle_over_ER, residual_over_ER, …`,
   socmap ground --plan socmap-demo/plan.toml --dims 1 --atoms 2e4 --trap "20,200,200" --out trap.png`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			if err := checkOuts(outs, ".h5", ".png", ".json"); err != nil {
+			if err := checkOuts(outs, outTypes(".h5", ".json")...); err != nil {
 				return err
 			}
 			if starts < 0 || starts > 50 {
@@ -111,8 +111,8 @@ fz, f_perp, phase, energy_per_particle_over_ER, residual_over_ER, …`,
 			for _, o := range outs {
 				var err error
 				switch strings.ToLower(filepath.Ext(o)) {
-				case ".png":
-					err = output.WriteFileAtomic(o, g.force, res.WritePNG)
+				case ".png", ".svg", ".pdf":
+					err = output.WriteFigure(o, g.force, res)
 				default:
 					err = writeResult(cmd, o, "ground", doc, res.WriteH5)
 				}
@@ -133,7 +133,7 @@ fz, f_perp, phase, energy_per_particle_over_ER, residual_over_ER, …`,
 	gf.add(c)
 	c.Flags().IntVar(&starts, "starts", 1, "random starts (seeds 1 … N) besides the plane waves, the stripe and the variational optimum")
 	tol = qflag(c.Flags(), "tol", KindNumber, "1e-8", "residual ‖Hψ − μψ‖ to converge to, in E_R")
-	c.Flags().StringSliceVar(&outs, "out", nil, "write FILE.h5 (state, observables, history), FILE.png (densities, momentum distribution), FILE.json (repeatable)")
+	c.Flags().StringSliceVar(&outs, "out", nil, "write FILE.h5 (state, observables, history), FILE.png, .svg or .pdf (densities, momentum distribution), FILE.json (repeatable)")
 	return c
 }
 

@@ -39,6 +39,7 @@ type mapOpts struct {
 	xs, ys, method string
 	holdDelta      string
 	outs           []string
+	observables    []string // --png-observable
 	workers        int
 	shard          string
 	flushEvery     int
@@ -67,7 +68,8 @@ func (o *mapOpts) addFlags(fs *pflag.FlagSet) {
 	fs.IntVar(&o.gpeStarts, "starts", 0, "gpe: random starts per point besides the variational optimum and the competing phase")
 	o.gpeTol = qflag(fs, "tol", KindNumber, "1e-8", "gpe: residual to converge to, in E_R")
 	fs.IntVar(&o.workers, "workers", 0, "parallel workers (0 = all cores, or SLURM_CPUS_PER_TASK inside a Slurm job)")
-	fs.StringSliceVar(&o.outs, "out", nil, "write FILE.h5 (map), FILE.png (phase diagram), FILE.json (repeatable)")
+	fs.StringSliceVar(&o.outs, "out", nil, "write FILE.h5 (map), FILE.png, .svg or .pdf (phase diagram), FILE.json (repeatable)")
+	fs.StringSliceVar(&o.observables, "png-observable", nil, "also write one figure per observable NAME beside each figure --out (map.png → map-NAME.png): sequential colours (diverging for a signed one), colour bar with units, NaN cells grey; e.g. contrast,period")
 	fs.StringVar(&o.shard, "shard", "", "compute only shard I/N of the points (p % N == I, p = iy·nx + ix) into FILE.shard-I-of-N.h5; default from SLURM_ARRAY_TASK_ID and SLURM_ARRAY_TASK_COUNT")
 	fs.IntVar(&o.flushEvery, "flush-every", 0, "points committed to the .h5 file together (0 = automatic: 256 for variational points, 1 for expensive ones; a killed run recomputes at most one batch)")
 	fs.BoolVar(&o.sbatch, "sbatch", false, "print a Slurm job script (a job array of --tasks shards and a dependent merge job) instead of computing")
@@ -258,7 +260,7 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 	if err != nil {
 		return err
 	}
-	if err := checkOutTypes(o.outs, ".h5", ".png", ".json"); err != nil {
+	if err := checkOutTypes(o.outs, outTypes(".h5", ".json")...); err != nil {
 		return err
 	}
 	if o.workers < 0 {
@@ -279,6 +281,10 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 			others = append(others, out)
 		}
 	}
+	obsOuts, err := observableOuts(o.observables, others, p.Sweep())
+	if err != nil {
+		return err
+	}
 	if o.sbatch {
 		return o.printSbatch(cmd, p, h5out, others)
 	}
@@ -287,7 +293,7 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 		return err
 	}
 	if sharded {
-		if h5out == "" || len(others) > 0 {
+		if h5out == "" || len(others) > 0 || len(obsOuts) > 0 {
 			return usagef("--shard %d/%d: give exactly one --out FILE.h5 (the shard goes to FILE.shard-%d-of-%d.h5; make the PNG with socmap merge)", shard, shards, shard, shards)
 		}
 		h5out = output.ShardName(h5out, shard, shards)
@@ -304,7 +310,7 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 	if h5out != "" {
 		outs = append(outs, h5out)
 	}
-	if err := checkOuts(outs, ".h5", ".png", ".json"); err != nil {
+	if err := checkOuts(append(outs, obsOuts...), outTypes(".h5", ".json")...); err != nil {
 		return err
 	}
 	spec := output.NewMapSpec(p, shard, shards)
@@ -353,6 +359,9 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 		if r.Data, _, err = output.ReadMap(h5out); err != nil {
 			return fmt.Errorf("map: reading back %s: %w", h5out, err)
 		}
+	}
+	if err := writeObservableOuts(o.observables, others, r); err != nil {
+		return err
 	}
 	if err := writeMapOuts(others, r); err != nil {
 		return err
@@ -447,13 +456,61 @@ func writeMapOuts(outs []string, r *output.MapResult) error {
 	for _, o := range outs {
 		var err error
 		switch strings.ToLower(filepath.Ext(o)) {
-		case ".png":
-			err = output.WriteFileAtomic(o, g.force, r.WritePNG)
+		case ".png", ".svg", ".pdf":
+			err = output.WriteFigure(o, g.force, r)
 		case ".json":
 			err = output.WriteFileAtomic(o, g.force, func(w io.Writer) error { return writeJSON(w, r.JSON()) })
 		}
 		if err != nil {
 			return err
+		}
+	}
+	return nil
+}
+
+// observableOuts checks --png-observable (names of the map's observables,
+// at least one figure --out to name the files after) and returns the
+// files it will write.
+func observableOuts(names, outs []string, sw phases.Sweep) ([]string, error) {
+	if len(names) == 0 {
+		return nil, nil
+	}
+	have := map[string]bool{}
+	for _, n := range output.ObservableNames(sw) {
+		have[n] = true
+	}
+	var figs, files []string
+	for _, o := range outs {
+		if output.IsFigure(o) {
+			figs = append(figs, o)
+		}
+	}
+	for _, n := range names {
+		if !have[n] {
+			return nil, usagef("--png-observable %q: not an observable of this map; allowed: %s", n, strings.Join(output.ObservableNames(sw), ", "))
+		}
+	}
+	if len(figs) == 0 {
+		return nil, usagef("--png-observable %s: needs a figure --out FILE.png (or .svg, .pdf) to name the files after (FILE-NAME.png)", strings.Join(names, ","))
+	}
+	for _, f := range figs {
+		for _, n := range names {
+			files = append(files, output.ObservablePath(f, n))
+		}
+	}
+	return files, nil
+}
+
+// writeObservableOuts writes the observable figures beside each figure in outs.
+func writeObservableOuts(names, outs []string, r *output.MapResult) error {
+	for _, o := range outs {
+		if !output.IsFigure(o) {
+			continue
+		}
+		for _, n := range names {
+			if err := output.WriteFigure(output.ObservablePath(o, n), g.force, output.ObservableFigurer{Result: r, Name: n}); err != nil {
+				return err
+			}
 		}
 	}
 	return nil

@@ -116,7 +116,7 @@ func (f *levelFlags) interactions(inf *interFlags, m dispersion.Spin1Model, atom
 // runBands3 is `bands --levels 3`.
 func runBands3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, outs []string, kmax float64, samples int) error {
 	for _, o := range outs {
-		if strings.ToLower(filepath.Ext(o)) == ".png" {
+		if output.IsFigure(o) {
 			return usagef("--out %q: --levels 3 writes .csv, .h5 and .json; the three-branch PNG is not implemented yet", o)
 		}
 	}
@@ -156,7 +156,7 @@ func runGround3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *interFl
 		return usagef("--levels 3: only a uniform periodic box is wired yet (no --trap/--atoms)")
 	}
 	for _, o := range outs {
-		if strings.ToLower(filepath.Ext(o)) == ".png" {
+		if output.IsFigure(o) {
 			return usagef("--out %q: --levels 3 writes .h5 and .json; the three-component PNG is not implemented yet", o)
 		}
 	}
