@@ -29,6 +29,7 @@ var phaseColors = map[label.Phase]color.Color{
 	label.Stripe:        color.RGBA{200, 90, 140, 255},  // magenta
 	label.NotConverged:  color.RGBA{80, 80, 80, 255},    // dark grey
 	label.NoCoupling:    color.RGBA{105, 180, 140, 255}, // green
+	label.UnderResolved: color.RGBA{110, 70, 30, 255},   // dark brown
 }
 
 // spareColor is drawn for a code without an entry in phaseColors, so that
