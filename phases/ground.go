@@ -333,11 +333,20 @@ func (p GroundProblem) setupBox(su *GroundSetup, lengths []float64, points func(
 	}
 	su.Variational = varRef("uniform box", vr)
 	k1 := gpe.BoxMomentum(vr.K1)
+	xPoints := 0 // points along x chosen with an automatic box (gpe.ResolveBox)
 	for a := 0; a < dims; a++ {
 		switch {
 		case lengths[a] == 0 && a == 0:
-			lengths[a] = gpe.AutoLength(k1)
-			su.Notes = append(su.Notes, fmt.Sprintf("box length along x %.4g/k_R admits ±k₁ = ±%.4g k_R of the variational optimum exactly", lengths[a], k1))
+			given := 0
+			if p.Points != nil {
+				given = p.Points[0]
+			}
+			box := gpe.ResolveBox(dims, k1, given, 0)
+			lengths[0], xPoints = box.Length, box.Points
+			su.Notes = append(su.Notes, fmt.Sprintf("box length along x %.4g/k_R (%d wavelengths) admits ±k₁ = ±%.4g k_R of the variational optimum exactly", lengths[0], box.Wavelengths, k1))
+			if !box.Resolved {
+				su.Notes = append(su.Notes, fmt.Sprintf("warning: no box of the automatic-grid rule resolves k₁ = %.4g k_R with k_max ≥ %d k_R (k_max = %.3g k_R on %d points): the state may be an artefact of the grid", k1, gpe.ResolvedKMax, box.KMax(), box.Points))
+			}
 		case lengths[a] == 0:
 			lengths[a] = gpe.AutoTransverse(lengths[0])
 		case a == 0 && p.Commensurate:
@@ -349,7 +358,11 @@ func (p GroundProblem) setupBox(su *GroundSetup, lengths []float64, points func(
 			}
 		}
 	}
-	grid, err := gpe.NewGrid(points(), lengths)
+	n := points()
+	if xPoints > 0 && p.Points == nil {
+		n[0] = xPoints
+	}
+	grid, err := gpe.NewGrid(n, lengths)
 	if err != nil {
 		return badInput(err)
 	}
