@@ -131,8 +131,9 @@ type DesignLimits struct {
 	// dispersion.PulseAreaLimit (π/4).
 	MaxPulseArea float64
 	// MaxMicromotion: largest position micromotion amplitude as a fraction
-	// of the stripe period at the planned point (π/|k_R| where there is no
-	// stripe) (shake). Default dispersion.MicromotionFraction (0.1).
+	// of the stripe period, the smaller of π/|k_R| (as the scheme's warning
+	// has it) and π/k₁ at the planned point (shake). Default
+	// dispersion.MicromotionFraction (0.1).
 	MaxMicromotion float64
 	// MaxSpread: largest rms momentum spread over a pulse as a fraction of
 	// the mean transfer (shake, rectangular and gaussian pulses). Default
@@ -677,10 +678,10 @@ func (e *DesignEvaluator) evaluate(ev *DesignEval) {
 		ev.Gap = r.Gap
 	}
 	e.commonMargins(ev, model)
-	if p.Scheme == "shake" { // micromotion against the planned stripe period
-		per := m.PeriodM
-		if math.IsNaN(per) {
-			per = math.Pi / math.Abs(model.KR)
+	if p.Scheme == "shake" { // micromotion against the stripe period
+		per := math.Pi / math.Abs(model.KR)
+		if !math.IsNaN(m.PeriodM) {
+			per = math.Min(per, m.PeriodM)
 		}
 		amp := math.Max(shr.MicroAmpUp, shr.MicroAmpDown)
 		if e.lim.MaxMicromotion > 0 {

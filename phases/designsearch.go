@@ -22,9 +22,10 @@ type DesignSettings struct {
 	// Default 1. The result depends only on the problem, Seed, Evaluations
 	// and Restarts, not on Workers.
 	Seed uint64
-	// Evaluations: the budget of chain evaluations, shared equally among the
-	// searches (Restarts per combination of categorical choices). Default
-	// 4000.
+	// Evaluations: the budget of chain evaluations: a fifth for the final
+	// Nelder–Mead polish of the best point of all searches, the rest shared
+	// equally among the searches (Restarts per combination of categorical
+	// choices). Default 4000.
 	Evaluations int
 	// Restarts: independent CMA-ES searches per combination of choices, the
 	// first from the middle of the ranges, the others from points drawn
@@ -67,7 +68,7 @@ func (s *DesignSettings) withDefaults() DesignSettings {
 		o.Evaluations = 4000
 	}
 	if o.Restarts <= 0 {
-		o.Restarts = 8
+		o.Restarts = 4
 	}
 	if o.Top <= 0 {
 		o.Top = 5
@@ -236,8 +237,12 @@ func Design(p DesignProblem, s *DesignSettings) (*DesignResult, error) {
 		}
 	}
 	res.Searches = len(jobs)
-	share := max(set.Evaluations/len(jobs), 1)
-	total := share * len(jobs)
+	polish := 0 // the final polish of the best point
+	if len(ev.free) > 0 {
+		polish = set.Evaluations / 5
+	}
+	share := max((set.Evaluations-polish)/len(jobs), 1)
+	total := share*len(jobs) + polish
 	if len(ev.free) == 0 {
 		total = len(jobs)
 	}
@@ -281,6 +286,12 @@ func Design(p DesignProblem, s *DesignSettings) (*DesignResult, error) {
 	}
 	for _, l := range logs {
 		res.Evaluations = append(res.Evaluations, l...)
+	}
+	if polish > 0 {
+		res.Evaluations = append(res.Evaluations, ev.polish(res.Evaluations, polish, &done)...)
+		if set.Progress != nil {
+			set.Progress(int(done.Load()), total)
+		}
 	}
 	for i := range res.Evaluations {
 		if res.Evaluations[i].Err != "" {
@@ -410,6 +421,63 @@ func (e *DesignEvaluator) search(choices []int, restart int, stream, seed uint64
 		nm := &optimize.NelderMead{SimplexSize: 0.05}
 		_, _ = optimize.Minimize(prob, best, &optimize.Settings{FuncEvaluations: left,
 			Converger: &optimize.FunctionConverge{Absolute: 1e-12, Relative: 1e-10, Iterations: 50}}, nm)
+	}
+	if len(log) > budget {
+		log = log[:budget]
+	}
+	return log
+}
+
+// polish refines the best evaluation of all searches (the lowest cost)
+// by Nelder–Mead from a small simplex (2 % of each range) with its choices
+// fixed, with at most budget evaluations.
+func (e *DesignEvaluator) polish(all []DesignEval, budget int, done *atomic.Int64) []DesignEval {
+	bi, bc := -1, math.Inf(1)
+	for i := range all {
+		if c := cost(&all[i]); c < bc {
+			bi, bc = i, c
+		}
+	}
+	if bi < 0 {
+		return nil
+	}
+	choices := make([]int, len(e.choice))
+	for j, i := range e.choice {
+		choices[j] = int(all[bi].Values[i])
+	}
+	x0 := make([]float64, len(e.free))
+	for k, i := range e.free {
+		x0[k] = all[bi].Unit[i]
+	}
+	var log []DesignEval
+	u := make([]float64, len(e.p.Free))
+	f := func(x []float64) float64 {
+		if len(log) >= budget {
+			return math.Inf(1)
+		}
+		for k, i := range e.free {
+			u[i] = fold(x[k])
+		}
+		d := DesignEval{Values: e.values(u, choices), Unit: append([]float64(nil), u...)}
+		for _, i := range e.choice {
+			d.Unit[i] = math.NaN()
+		}
+		e.evaluate(&d)
+		log = append(log, d)
+		done.Add(1)
+		return cost(&d)
+	}
+	// Restart Nelder–Mead from its best point with a smaller simplex until
+	// the budget is spent or it stops improving.
+	size := 0.02
+	for len(log) < budget-len(e.free)-1 && size > 1e-6 {
+		r, _ := optimize.Minimize(optimize.Problem{Func: f}, x0, &optimize.Settings{FuncEvaluations: budget - len(log),
+			Converger: &optimize.FunctionConverge{Absolute: 1e-12, Relative: 1e-10, Iterations: 30}}, &optimize.NelderMead{SimplexSize: size})
+		if r == nil || r.X == nil {
+			break
+		}
+		x0 = r.X
+		size /= 4
 	}
 	if len(log) > budget {
 		log = log[:budget]

@@ -206,7 +206,7 @@ verification and a 1D GPE ground state until one passes.`,
 	fs.StringSliceVar(&f.outs, "out", nil, "write FILE.h5 (every evaluated candidate), FILE.png (trade-off plot), FILE.json (repeatable)")
 	fs.Uint64Var(&f.seed, "seed", 1, "seed of the search (same seed, same result)")
 	fs.IntVar(&f.evaluations, "evaluations", 4000, "budget of chain evaluations")
-	fs.IntVar(&f.restarts, "restarts", 8, "CMA-ES searches per combination of choices")
+	fs.IntVar(&f.restarts, "restarts", 4, "CMA-ES searches per combination of choices")
 	fs.IntVar(&f.top, "top", 5, "number of distinct candidates reported")
 	fs.IntVar(&f.workers, "workers", 0, "parallel searches (0: all cores)")
 	fs.BoolVar(&f.noCheck, "no-check", false, "do not check the candidates with verify and a GPE ground state")
