@@ -22,7 +22,7 @@ type DesignSettings struct {
 	// Default 1. The result depends only on the problem, Seed, Evaluations
 	// and Restarts, not on Workers.
 	Seed uint64
-	// Evaluations: the budget of chain evaluations: a fifth for the final
+	// Evaluations: the budget (at most this many) of chain evaluations: a fifth for the final
 	// Nelder–Mead polish of the best point of all searches, the rest shared
 	// equally among the searches (Restarts per combination of categorical
 	// choices). Default 4000.
@@ -407,20 +407,29 @@ func (e *DesignEvaluator) search(choices []int, restart int, stream, seed uint64
 		return evalUnit(u)
 	}
 	prob := optimize.Problem{Func: f}
-	nCMA := max(budget*85/100, 1)
-	cma := &optimize.CmaEsChol{InitStepSize: 0.3, Src: rand.NewPCG(seed, stream)}
-	conv := &optimize.FunctionConverge{Absolute: 1e-12, Relative: 1e-10, Iterations: 40}
-	r, err := optimize.Minimize(prob, x0, &optimize.Settings{FuncEvaluations: nCMA, Converger: conv}, cma)
-	best := x0
-	if err == nil && r != nil {
-		best = r.X
-	} else if r != nil && r.X != nil {
-		best = r.X
-	}
-	if left := budget - len(log); left > len(e.free)+1 {
-		nm := &optimize.NelderMead{SimplexSize: 0.05}
-		_, _ = optimize.Minimize(prob, best, &optimize.Settings{FuncEvaluations: left,
-			Converger: &optimize.FunctionConverge{Absolute: 1e-12, Relative: 1e-10, Iterations: 50}}, nm)
+	src := rand.NewPCG(seed, stream)
+	// CMA-ES, then Nelder–Mead from its best point; a search that has
+	// converged with budget left starts again from a random point (the
+	// restarts within one search share its random stream).
+	for run := 0; len(log) < budget-len(e.free)-1; run++ {
+		if run > 0 {
+			for k := range x0 {
+				x0[k] = rng.Float64()
+			}
+		}
+		left := budget - len(log)
+		cma := &optimize.CmaEsChol{InitStepSize: 0.3, Src: src}
+		conv := &optimize.FunctionConverge{Absolute: 1e-12, Relative: 1e-10, Iterations: 40}
+		r, _ := optimize.Minimize(prob, x0, &optimize.Settings{FuncEvaluations: max(left*85/100, 1), Converger: conv}, cma)
+		best := x0
+		if r != nil && r.X != nil {
+			best = r.X
+		}
+		if left = budget - len(log); left > len(e.free)+1 {
+			nm := &optimize.NelderMead{SimplexSize: 0.05}
+			_, _ = optimize.Minimize(prob, best, &optimize.Settings{FuncEvaluations: min(left, max(budget*15/100, 4*len(e.free)+4)),
+				Converger: &optimize.FunctionConverge{Absolute: 1e-12, Relative: 1e-10, Iterations: 50}}, nm)
+		}
 	}
 	if len(log) > budget {
 		log = log[:budget]

@@ -6,6 +6,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -15,6 +16,9 @@ import (
 
 //go:embed plans/demo.toml
 var demoPlan string
+
+//go:embed plans/design.toml
+var designPlan string
 
 // calibrateExample is synthetic Doppler-slope data of our own for the demo's
 // calibrate step (same content as testdata/calibrate_example.csv).
@@ -65,6 +69,12 @@ non-empty --dir is refused unless --force is given.`,
 			}); err != nil {
 				return err
 			}
+			if err := output.WriteFileAtomic(p("design.toml"), true, func(w io.Writer) error {
+				_, err := io.WriteString(w, designPlan)
+				return err
+			}); err != nil {
+				return err
+			}
 			steps := []demoStep{
 				{[]string{"scheme", "shake", "--out", p("shake.h5")}, "shake.txt", "effective parameters of the shaking scheme"},
 				{[]string{"scheme", "raman", "--out", p("raman.h5")}, "raman.txt", "the Raman scheme used for comparison"},
@@ -75,11 +85,15 @@ non-empty --dir is refused unless --force is given.`,
 				{[]string{"ground", "--dims", "1", "--atoms", "2e4", "--trap", "20,200,200", "--out", p("ground-trap.h5"), "--out", p("ground-trap.png")}, "ground-trap.txt", "GPE ground state of 2e4 atoms in an elongated trap"},
 				{[]string{"verify", "--out", p("verify.h5"), "--out", p("verify.png")}, "verify.txt", "shaken dynamics without the cycle average: measured k_t, Doppler slope, Rabi frequency"},
 				{[]string{"calibrate", "--data", p("calibrate-example.csv"), "--out", p("calibrate.png")}, "calibrate.txt", "recoil and phase lag fitted from (synthetic) Doppler slopes"},
+				{[]string{"design", "--evaluations", "1500", "--out", p("design.h5"), "--out", p("design.png"), "--plan", p("design.toml")}, "design.txt", "inverse design: the most robust stripe within the example's hardware ranges"},
 			}
 			var report strings.Builder
 			fmt.Fprintf(&report, "socmap %s demo — built-in example plan (invented setting, see plan.toml)\n\n", version)
 			for _, s := range steps {
-				full := append(append([]string{}, s.args...), "--plan", planPath, "--force")
+				full := append(append([]string{}, s.args...), "--force")
+				if !slices.Contains(s.args, "--plan") {
+					full = append(full, "--plan", planPath)
+				}
 				if !g.quiet {
 					fmt.Fprintf(os.Stderr, "demo: socmap %s\n", strings.Join(full, " "))
 				}
@@ -109,6 +123,8 @@ non-empty --dir is refused unless --force is given.`,
 				{"verify.png, .h5, .txt", "spin-flip spectra per velocity and resonance centre vs velocity against the model"},
 				{"calibrate-example.csv", "synthetic Doppler-slope data of our own (gradient 85 % of nominal, 12° lag, 4 Hz/(mm/s) noise)"},
 				{"calibrate.png, .txt", "fit of k_t(θ) = k_max cos(θ − θ_lag) to those data"},
+				{"design.toml", "example design plan: the [design] table with free ranges, constraints, objective"},
+				{"design.png, .h5, .txt", "inverse design: best distinct candidates, margins, binding constraint, check; every evaluation; trade-off plot"},
 			}
 			for _, f := range files {
 				fmt.Fprintf(&report, "  %-32s %s\n", f.name, f.what)
