@@ -2,14 +2,13 @@ package output
 
 import (
 	"bufio"
-	"errors"
 	"fmt"
 	"io"
-	"io/fs"
 	"os"
 	"path/filepath"
 
 	"socmap/output/h5"
+	"socmap/output/internal/atomicfile"
 )
 
 // ErrExist is returned (wrapped) when a result file exists and force is not
@@ -55,56 +54,16 @@ func WriteFileAtomic(path string, force bool, write func(io.Writer) error) (err 
 	if err := bw.Flush(); err != nil {
 		return fail(pathless(err))
 	}
-	if err := f.Sync(); err != nil {
-		return fail(pathless(err))
-	}
 	if err := f.Close(); err != nil {
 		return fail(pathless(err))
 	}
-	if err := os.Chmod(tmp, 0o644); err != nil {
-		return fail(pathless(err))
-	}
-	if err := moveInto(tmp, path, force); err != nil {
+	if err := atomicfile.Commit(tmp, path, force); err != nil {
 		return fail(err)
 	}
 	committed = true
-	if d, err := os.Open(dir); err == nil {
-		d.Sync() // best effort: some file systems refuse fsync on directories
-		d.Close()
-	}
 	return nil
-}
-
-// moveInto renames tmp to path; without force it never replaces a file.
-func moveInto(tmp, path string, force bool) error {
-	if force {
-		return pathless(os.Rename(tmp, path))
-	}
-	err := os.Link(tmp, path)
-	switch {
-	case err == nil:
-		os.Remove(tmp)
-		return nil
-	case errors.Is(err, fs.ErrExist):
-		return ErrExist
-	}
-	// No hard links here: check, then rename.
-	if _, err := os.Lstat(path); err == nil {
-		return ErrExist
-	}
-	return pathless(os.Rename(tmp, path))
 }
 
 // pathless drops the path of an *fs.PathError or *os.LinkError (a
 // temporary name the user never chose), keeping the cause.
-func pathless(err error) error {
-	var pe *fs.PathError
-	var le *os.LinkError
-	switch {
-	case errors.As(err, &pe):
-		return pe.Err
-	case errors.As(err, &le):
-		return le.Err
-	}
-	return err
-}
+func pathless(err error) error { return atomicfile.Pathless(err) }

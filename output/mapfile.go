@@ -14,10 +14,11 @@ type MapSpec struct {
 	Sweep  phases.Sweep
 	Method string         // "variational" or "gpe"
 	Attrs  map[string]any // extra attributes of /map
-	// Key identifies the settings that determine the map's values (the
-	// command's effective settings as TOML lines, without run-only settings
-	// such as workers or the shard). Resume and merge refuse files whose
-	// Key differs. Stored as the /map attribute "settings".
+	// Key identifies the settings that determine the map's values: the
+	// text of a phases.Identity (MapProblem.Identity: TOML lines
+	// name = "value", by value, without run-only settings or the program
+	// version). Resume and merge refuse files whose Key differs in value
+	// (CompareMapSpecs). Stored as the /map attribute "settings".
 	Key string
 	// Shard, Shards: the file holds only the points p = iy·nx + ix with
 	// p % Shards == Shard (phases.RunSettings); Shards = 0: not sharded.
@@ -75,7 +76,7 @@ func (d *MapData) Observable(name string) []float64 {
 }
 
 // WriteMap writes a map held in memory to a new HDF5 file (temporary name
-// until complete), in the layout of a resumable map file (see mapsink.go):
+// until complete), in the layout of a resumable map file (maplayout.go):
 // /map/x (and /map/y) axis values with attributes name and units;
 // /map/phase (int8 codes, attribute codes spelling them out); /map/done
 // (int8 mask, 1 = computed); one float64 dataset per observable under

@@ -11,6 +11,7 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 	"gonum.org/v1/plot/vg/vgimg"
 
+	"socmap/phases"
 	"socmap/phases/label"
 )
 
@@ -29,38 +30,8 @@ type phasePalette struct{}
 func (phasePalette) Colors() []color.Color { return phaseColors }
 
 // AxisDisplay returns the plot label of a map axis and the factor that turns
-// its stored (SI or E_R) values into the displayed unit.
-func AxisDisplay(name, unit string) (string, float64) {
-	switch name {
-	case "omega":
-		return "coupling ħΩ / E_R", 1
-	case "delta":
-		return "detuning ħδ / E_R", 1
-	case "G1":
-		return "G1 = n(g + g↑↓)/4  [E_R]", 1
-	case "G2":
-		return "G2 = n(g − g↑↓)/4  [E_R]", 1
-	case "density":
-		return "density n  [cm⁻³]", 1e-6
-	case "ratio":
-		return "g↑↓ / g", 1
-	case "gradient":
-		return "gradient amplitude  [G/cm]", 100
-	case "shake":
-		return "shaking frequency  [kHz]", 1e-3
-	case "phase":
-		return "pulse phase θ  [deg]", 180 / math.Pi
-	case "bias":
-		return "bias field  [G]", 1e4
-	case "rabi":
-		return "Rabi frequency Ω/2π  [Hz]", 1
-	case "wavelength":
-		return "wavelength  [nm]", 1e9
-	case "angle":
-		return "crossing angle  [deg]", 180 / math.Pi
-	}
-	return name + " [" + unit + "]", 1
-}
+// its stored (SI or E_R) values into the displayed unit (phases.Axes).
+func AxisDisplay(name, unit string) (string, float64) { return phases.AxisDisplay(name, unit) }
 
 // Boundary is a curve drawn over a phase map, in the displayed units of the axes.
 type Boundary struct {

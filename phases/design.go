@@ -541,7 +541,7 @@ func (e *DesignEvaluator) settings(v []float64) (dispersion.Shake, dispersion.Ra
 		case "shake":
 			sh.ShakeHz = x
 		case "phase":
-			sh.Phase = x
+			sh.PulsePhase = x
 		case "pulse-width":
 			sh.PulseWidth = x
 		case "rabi":

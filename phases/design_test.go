@@ -215,7 +215,7 @@ func TestDesignCandidatesMeetConstraints(t *testing.T) {
 			t.Fatal(err)
 		}
 		if len(sr.Warnings) > 0 {
-			t.Errorf("candidate %d: scheme warnings %q", i, sr.Warnings)
+			t.Errorf("candidate %d: scheme warnings %v", i, sr.Warnings)
 		}
 		cr, err := Compare(Comparison{Shake: sh, Raman: ram, Couplings: p.Couplings, Density: p.Density}, nil)
 		if err != nil {

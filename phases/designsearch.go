@@ -615,7 +615,11 @@ func (e *DesignEvaluator) checkCandidate(c *DesignCandidate, set *DesignSettings
 			}
 		}
 	}
-	lab := Lab{Scheme: e.p.Scheme, Shake: sh, Raman: rm, HaveSI: true, Couplings: e.p.Couplings, Density: e.p.Density}
+	var scheme dispersion.Scheme = sh
+	if e.p.Scheme == "raman" {
+		scheme = rm
+	}
+	lab := Lab{Scheme: scheme, HaveSI: true, Couplings: e.p.Couplings, Density: e.p.Density}
 	gr, err := Ground(GroundProblem{Lab: lab, Dims: 1}, &GroundSettings{Variational: set.Variational})
 	switch {
 	case err != nil:

@@ -18,8 +18,7 @@ func Example() {
 	up, down := dispersion.Sublevel{F: 1, M: 0}, dispersion.Sublevel{F: 1, M: -1}
 	coup, _ := rb.PairCouplings(up, down)
 	lab := Lab{
-		Scheme: "shake",
-		Shake: dispersion.Shake{Species: rb, Up: up, Down: down,
+		Scheme: dispersion.Shake{Species: rb, Up: up, Down: down,
 			Bias:     60 * dispersion.Gauss,
 			Gradient: 100 * dispersion.Gauss / 1e-2, // 100 G/cm in T/m
 			ShakeHz:  3e3, Waveform: dispersion.Sine{},

@@ -31,7 +31,7 @@ func demoShake(t testing.TB) (dispersion.Shake, dispersion.Couplings) {
 
 func directLab(omega, g1, g2 float64) Lab {
 	u := Symmetric(omega, g1, g2)
-	return Lab{Scheme: "direct", Omega: omega, Guu: u.Guu, Gdd: u.Gdd, Gud: u.Gud}
+	return Lab{Scheme: dispersion.Direct{CouplingOverER: omega}, Guu: u.Guu, Gdd: u.Gdd, Gud: u.Gud}
 }
 
 // Ground in a 1D box of the symmetric case: the phases of the closed forms
@@ -101,7 +101,7 @@ func TestGroundGivenLengths(t *testing.T) {
 func TestGroundTrapped(t *testing.T) {
 	sh, c := demoShake(t)
 	tr := &GroundTrap{Atoms: 5000, FreqHz: [3]float64{20, 300, 300}, Couplings: c}
-	r, err := Ground(GroundProblem{Lab: Lab{Scheme: "shake", Shake: sh}, Dims: 1, Trap: tr}, nil)
+	r, err := Ground(GroundProblem{Lab: Lab{Scheme: sh}, Dims: 1, Trap: tr}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -135,8 +135,8 @@ func TestGroundBadInput(t *testing.T) {
 		"lengths count":     {Lab: directLab(1, 1, 0.1), Dims: 2, Lengths: []float64{20}},
 		"points count":      {Lab: directLab(1, 1, 0.1), Dims: 1, Points: []int{64, 64}},
 		"negative length":   {Lab: directLab(1, 1, 0.1), Dims: 1, Lengths: []float64{-3}},
-		"both lengths":      {Lab: Lab{Scheme: "shake", Shake: sh}, Dims: 1, Lengths: []float64{3}, LengthsSI: []float64{1e-5}},
-		"no atoms":          {Lab: Lab{Scheme: "shake", Shake: sh}, Dims: 1, Trap: &GroundTrap{FreqHz: tr.FreqHz, Couplings: c}},
+		"both lengths":      {Lab: Lab{Scheme: sh}, Dims: 1, Lengths: []float64{3}, LengthsSI: []float64{1e-5}},
+		"no atoms":          {Lab: Lab{Scheme: sh}, Dims: 1, Trap: &GroundTrap{FreqHz: tr.FreqHz, Couplings: c}},
 		"attractive":        {Lab: directLab(1, -1, 0.1), Dims: 1},
 	} {
 		if _, err := Ground(p, nil); !errors.Is(err, ErrInput) {

@@ -4,8 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"sort"
-	"strings"
 
 	"socmap/dispersion"
 )
@@ -13,17 +11,19 @@ import (
 // Lab is a complete experimental setting: a coupling scheme (or a directly
 // given effective model) and the atoms' interactions. Resolve turns it into
 // the uniform problem of the variational theory, in E_R. Map axes change one
-// field each (Set), so a map over lab settings goes through the whole
-// scheme → effective-model chain at every point.
+// setting each (Set, through the axis table Axes), so a map over lab
+// settings goes through the whole scheme → effective-model chain at every
+// point.
 type Lab struct {
-	Scheme string // "shake", "raman" or "direct"
-	Shake  dispersion.Shake
-	Raman  dispersion.Raman
+	// Scheme gives the effective model: dispersion.Shake, dispersion.Raman
+	// or dispersion.Direct. Required.
+	Scheme dispersion.Scheme
 
-	// Omega, Delta (E_R): the effective model when Scheme is "direct"; for a
-	// scheme they replace the scheme's Ω/E_R, δ/E_R when OmegaSet/DeltaSet.
-	Omega, Delta       float64
-	OmegaSet, DeltaSet bool
+	// CouplingOverER, DetuningOverER replace the scheme's ħΩ/E_R and ħδ/E_R
+	// when CouplingSet, DetuningSet (the omega and delta axes, or --omega-er
+	// with a scheme).
+	CouplingOverER, DetuningOverER float64
+	CouplingSet, DetuningSet       bool
 
 	// Interactions, either in SI (HaveSI: 3D couplings and mean density,
 	// converted with the scheme's E_R) or directly as n·g_ij in E_R.
@@ -39,87 +39,27 @@ type Lab struct {
 	G1Set, G2Set, RatioSet bool
 }
 
-// Axis names accepted by Lab.Set, with the unit of their values.
-var LabAxes = map[string]string{
-	"omega": "E_R", "delta": "E_R", "G1": "E_R", "G2": "E_R", "density": "m^-3", "ratio": "dimensionless",
-	"gradient": "T/m", "shake": "Hz", "phase": "rad", "bias": "T", "rabi": "Hz", "wavelength": "m", "angle": "rad",
+// SchemeName is the name of l's scheme ("shake", "raman", "direct"), or
+// "none" without one.
+func (l Lab) SchemeName() string {
+	if l.Scheme == nil {
+		return "none"
+	}
+	return l.Scheme.Name()
 }
 
-// LabAxisNames lists the axis names in a stable order.
-func LabAxisNames() []string {
-	n := make([]string, 0, len(LabAxes))
-	for k := range LabAxes {
-		n = append(n, k)
+// Set returns a copy of l with the setting of the named map axis (see
+// Axes) changed to v, in the axis's stored unit. An unknown axis, or a lab
+// setting that l's scheme does not have, is an error.
+func (l Lab) Set(axis string, v float64) (Lab, error) {
+	a, ok := LookupAxis(axis)
+	if !ok {
+		return l, fmt.Errorf("unknown axis %q; allowed: %s", axis, axisList())
 	}
-	sort.Strings(n)
-	return n
-}
-
-// Set returns a copy of l with the named setting changed to v (in the unit
-// of LabAxes). Lab settings that the scheme does not have are an error.
-func (l Lab) Set(name string, v float64) (Lab, error) {
-	bad := func() (Lab, error) {
-		return l, fmt.Errorf("axis %q needs the %s scheme (this map uses %q)", name, schemeOf(name), l.Scheme)
-	}
-	switch name {
-	case "omega":
-		l.Omega, l.OmegaSet = v, true
-	case "delta":
-		l.Delta, l.DeltaSet = v, true
-	case "G1":
-		l.G1, l.G1Set = v, true
-	case "G2":
-		l.G2, l.G2Set = v, true
-	case "ratio":
-		l.Ratio, l.RatioSet = v, true
-	case "density":
-		if !l.HaveSI {
-			return l, fmt.Errorf("axis density needs interactions from an atom (scattering lengths), not n·g in E_R")
-		}
-		l.Density = v
-	case "gradient", "shake", "phase", "bias":
-		if l.Scheme != "shake" {
-			return bad()
-		}
-		switch name {
-		case "gradient":
-			l.Shake.Gradient = v
-		case "shake":
-			l.Shake.ShakeHz = v
-		case "phase":
-			l.Shake.Phase = v
-		case "bias":
-			l.Shake.Bias = v
-		}
-	case "rabi":
-		switch l.Scheme {
-		case "shake":
-			l.Shake.RabiHz = v
-		case "raman":
-			l.Raman.RabiHz = v
-		default:
-			return l, fmt.Errorf("axis rabi needs a scheme (shake or raman); use omega for a direct model")
-		}
-	case "wavelength", "angle":
-		if l.Scheme != "raman" {
-			return bad()
-		}
-		if name == "wavelength" {
-			l.Raman.Wavelength = v
-		} else {
-			l.Raman.Angle = v
-		}
-	default:
-		return l, fmt.Errorf("unknown axis %q; allowed: %s", name, strings.Join(LabAxisNames(), ", "))
+	if err := a.set(&l, v); err != nil {
+		return l, err
 	}
 	return l, nil
-}
-
-func schemeOf(axis string) string {
-	if axis == "wavelength" || axis == "angle" {
-		return "raman"
-	}
-	return "shake"
 }
 
 // ErrNoRecoil is returned by Resolve when the scheme gives no momentum
@@ -127,44 +67,33 @@ func schemeOf(axis string) string {
 // there is no spin–orbit coupling and no E_R to measure energies in.
 var ErrNoRecoil = errors.New("the scheme gives no recoil here (k_t = 0): no spin–orbit coupling")
 
-// Model computes the effective model of l's scheme with the Ω/δ overrides
-// (no interactions). ErrNoRecoil when the scheme gives k_t = 0.
+// Model computes the effective model of l's scheme with the coupling and
+// detuning overrides (no interactions). ErrNoRecoil when a scheme with an
+// atom gives k_t = 0.
 func (l Lab) Model() (dispersion.Model, error) {
-	var m dispersion.Model
-	switch l.Scheme {
-	case "direct":
-		m = dispersion.Model{OmegaOverER: l.Omega, DeltaOverER: l.Delta}
-	case "shake":
-		r, err := l.Shake.Evaluate()
-		if err != nil {
-			return m, err
-		}
-		m = r.Model
-		if m.ER == 0 {
-			return m, ErrNoRecoil
-		}
-	case "raman":
-		r, err := l.Raman.Evaluate()
-		if err != nil {
-			return m, err
-		}
-		m = r.Model
-	default:
-		return m, fmt.Errorf("unknown scheme %q (shake, raman, direct)", l.Scheme)
+	if l.Scheme == nil {
+		return dispersion.Model{}, errors.New("lab setting without a scheme")
 	}
-	if l.OmegaSet {
-		m.OmegaOverER = l.Omega
+	m, err := l.Scheme.EffectiveModel()
+	if err != nil {
+		return m, err
 	}
-	if l.DeltaSet {
-		m.DeltaOverER = l.Delta
+	if l.Scheme.Atom() != nil && m.ER == 0 {
+		return m, ErrNoRecoil
+	}
+	if l.CouplingSet {
+		m.OmegaOverER = l.CouplingOverER
+	}
+	if l.DetuningSet {
+		m.DeltaOverER = l.DetuningOverER
 	}
 	return m, nil
 }
 
 // Resolve computes the effective model and the uniform problem (E_R) of l.
-// Order: the scheme's model, then Ω/δ overrides (Model), then interactions
-// (SI couplings × density / E_R, or the given n·g), then G1/G2/ratio
-// overrides.
+// Order: the scheme's model, then the coupling/detuning overrides (Model),
+// then interactions (SI couplings × density / E_R, or the given n·g), then
+// G1/G2/ratio overrides.
 func (l Lab) Resolve() (Uniform, dispersion.Model, error) {
 	m, err := l.Model()
 	if err != nil {
@@ -207,4 +136,62 @@ func (l Lab) Resolve() (Uniform, dispersion.Model, error) {
 		return u, m, fmt.Errorf("n·g↑↑ = %g, n·g↓↓ = %g, n·g↑↓ = %g E_R: the uniform gas must be repulsive (n g↑↑, n g↓↓ > 0 and G1 > 0); an attractive gas collapses", u.Guu, u.Gdd, u.Gud)
 	}
 	return u, m, nil
+}
+
+// Settings lists l's settings by value (dispersion.Setting): the scheme's
+// inputs, the coupling/detuning overrides, the interactions (in E_R as G1,
+// G2 and the asymmetry ng-asym = (n g↑↑ − n g↓↓)/4, or in SI as the three
+// couplings and the density) and the G1/G2/ratio overrides. Two labs with
+// equal settings resolve to the same problem.
+func (l Lab) Settings() []dispersion.Setting {
+	num := func(v float64) string { return dispersion.FormatSI(v, dispersion.KindNumber) }
+	var s []dispersion.Setting
+	add := func(name, v string) { s = append(s, dispersion.Setting{Name: name, Value: v}) }
+	add("scheme", l.SchemeName())
+	if l.Scheme != nil {
+		s = append(s, l.Scheme.Settings()...)
+	}
+	if l.CouplingSet {
+		add("omega-er", num(l.CouplingOverER))
+	}
+	if l.DetuningSet {
+		add("delta-er", num(l.DetuningOverER))
+	}
+	if l.HaveSI {
+		add("g-uu", strconvG(l.Couplings.Guu)+" J m^3")
+		add("g-dd", strconvG(l.Couplings.Gdd)+" J m^3")
+		add("g-ud", strconvG(l.Couplings.Gud)+" J m^3")
+		add("density", dispersion.FormatSI(l.Density, dispersion.KindDensity))
+	} else {
+		g1, g2, dg := Uniform{Guu: l.Guu, Gdd: l.Gdd, Gud: l.Gud}.Couplings()
+		add("G1", num(g1))
+		add("G2", num(g2))
+		add("ng-asym", num(dg))
+	}
+	if l.G1Set {
+		add("G1-override", num(l.G1))
+	}
+	if l.G2Set {
+		add("G2-override", num(l.G2))
+	}
+	if l.RatioSet {
+		add("ratio", num(l.Ratio))
+	}
+	return dedupSettings(s)
+}
+
+// dedupSettings keeps the last of settings with the same name, in the
+// place of the first (a direct model's omega-er replaced by an override).
+func dedupSettings(s []dispersion.Setting) []dispersion.Setting {
+	at := map[string]int{}
+	var out []dispersion.Setting
+	for _, x := range s {
+		if i, ok := at[x.Name]; ok {
+			out[i] = x
+			continue
+		}
+		at[x.Name] = len(out)
+		out = append(out, x)
+	}
+	return out
 }

@@ -17,7 +17,7 @@ func rbLab(t *testing.T) Lab {
 	if err != nil {
 		t.Fatal(err)
 	}
-	return Lab{Scheme: "shake", Shake: dispersion.Shake{Species: sp, Up: up, Down: down, Bias: 60e-4, Gradient: 1, ShakeHz: 3e3, RabiHz: 20},
+	return Lab{Scheme: dispersion.Shake{Species: sp, Up: up, Down: down, Bias: 60e-4, Gradient: 1, ShakeHz: 3e3, RabiHz: 20},
 		HaveSI: true, Couplings: c, Density: 1e20}
 }
 
@@ -66,7 +66,7 @@ func TestLabResolveChain(t *testing.T) {
 	if _, err := l.Set("nonsense", 1); err == nil {
 		t.Error("unknown axis accepted")
 	}
-	d := Lab{Scheme: "direct", Omega: 1, Guu: 1, Gdd: 1, Gud: 1}
+	d := Lab{Scheme: dispersion.Direct{CouplingOverER: 1}, Guu: 1, Gdd: 1, Gud: 1}
 	if _, err := d.Set("density", 1); err == nil {
 		t.Error("density axis accepted without SI interactions")
 	}

@@ -143,7 +143,9 @@ func parseRange(key, text string, k Kind) (phases.FreeSetting, error) {
 	}
 	f.Unit, f.Factor = u, 1
 	if k != KindNumber {
-		f.Factor = units[k][u]
+		if f.Factor, err = parseQuantity("1 "+u, k); err != nil {
+			return f, bad(err.Error())
+		}
 	}
 	if f.Lo > f.Hi {
 		return f, usagef("[design] %s = %q: LO > HI", key, text)

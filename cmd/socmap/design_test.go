@@ -77,13 +77,13 @@ func TestDesignCommand(t *testing.T) {
 			t.Fatalf("candidate %d: scheme shake exit %d: %s", i, code, se)
 		}
 		var sh struct {
-			Warnings []string `json:"warnings"`
+			Warnings []any `json:"warnings"`
 		}
 		if err := json.Unmarshal([]byte(out), &sh); err != nil {
 			t.Fatal(err)
 		}
 		if len(sh.Warnings) > 0 {
-			t.Errorf("candidate %d: scheme shake warns %q", i, sh.Warnings)
+			t.Errorf("candidate %d: scheme shake warns %v", i, sh.Warnings)
 		}
 		code, out, se = runArgs(t, "compare", "--plan", cp, "--json")
 		if code != 0 {

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"math"
 
 	"github.com/spf13/pflag"
@@ -139,7 +140,7 @@ func (s *shakeFlags) build() (dispersion.Shake, error) {
 		}
 	}
 	return dispersion.Shake{Species: sp, Up: up, Down: down, Bias: s.bias.v, Gradient: s.gradient.v,
-		ShakeHz: s.shake.v, Waveform: wf, Phase: s.phase.v, Pulse: ps, PulseWidth: s.width.v,
+		ShakeHz: s.shake.v, Waveform: wf, PulsePhase: s.phase.v, Pulse: ps, PulseWidth: s.width.v,
 		RabiHz: s.rabi.v, DetuningHz: s.detuning.v}, nil
 }
 
@@ -203,12 +204,10 @@ func (m *modelFlags) add(fs *pflag.FlagSet) {
 	m.deltaER = qflag(fs, "delta-er", KindNumber, "0", "detuning ħδ/E_R of a directly given effective model")
 }
 
-// modelChoice is the effective model and, when it came from a scheme, the scheme's result.
+// modelChoice is the effective model and the scheme it came from.
 type modelChoice struct {
 	Scheme string
 	Model  dispersion.Model // Mass, KR, ER are zero for a direct model
-	Shake  *dispersion.ShakeResult
-	Raman  *dispersion.RamanResult
 	Atom   *dispersion.Species
 }
 
@@ -218,72 +217,55 @@ func (m *modelFlags) build() (modelChoice, error) {
 	if err != nil {
 		return c, err
 	}
-	c.Scheme = l.Scheme
-	switch l.Scheme {
-	case "direct":
-		if l.Omega < 0 {
-			return c, usagef("--omega-er %q: must be ≥ 0", m.omegaER.text)
-		}
-		c.Model = dispersion.Model{OmegaOverER: l.Omega, DeltaOverER: l.Delta}
-	case "shake":
-		r, err := l.Shake.Evaluate()
-		if err != nil {
-			return c, usagef("%v", err)
-		}
-		if r.Model.ER == 0 {
-			return c, usagef("the shaking settings give no recoil (k_t = 0): no spin–orbit coupling to model")
-		}
-		c.Model, c.Shake, c.Atom = r.Model, &r, &l.Shake.Species
-	case "raman":
-		r, err := l.Raman.Evaluate()
-		if err != nil {
-			return c, usagef("%v", err)
-		}
-		c.Model, c.Raman, c.Atom = r.Model, &r, &l.Raman.Species
+	c.Scheme, c.Atom = l.Scheme.Name(), l.Scheme.Atom()
+	c.Model, err = l.Model()
+	if errors.Is(err, phases.ErrNoRecoil) {
+		return c, usagef("the shaking settings give no recoil (k_t = 0): no spin–orbit coupling to model")
 	}
-	if l.OmegaSet {
-		c.Model.OmegaOverER = l.Omega
+	if err != nil {
+		return c, usagef("%v", err)
 	}
 	return c, nil
 }
 
-// lab returns the scheme part of a phases.Lab (interactions are added by interFlags).
+// schemeBuilders read the flags of each scheme into a dispersion.Scheme:
+// the one place where the --scheme name picks a type.
+var schemeBuilders = map[string]func(m *modelFlags) (dispersion.Scheme, error){
+	"direct": func(m *modelFlags) (dispersion.Scheme, error) {
+		if err := require(m.omegaER, "omega-er", "2.0"); err != nil {
+			return nil, err
+		}
+		if m.omegaER.v < 0 {
+			return nil, usagef("--omega-er %q: must be ≥ 0", m.omegaER.text)
+		}
+		return dispersion.Direct{CouplingOverER: m.omegaER.v, DetuningOverER: m.deltaER.v}, nil
+	},
+	"shake": func(m *modelFlags) (dispersion.Scheme, error) { return m.shake.build() },
+	"raman": func(m *modelFlags) (dispersion.Scheme, error) { return m.raman.build(m.shake.atom) },
+}
+
+// lab returns the scheme part of a phases.Lab (interactions are added by
+// interFlags). With a scheme, --omega-er replaces its coupling.
 func (m *modelFlags) lab() (phases.Lab, error) {
 	var l phases.Lab
-	s := m.scheme
-	if s == "" {
+	name := m.scheme
+	if name == "" {
 		if m.omegaER.text == "" {
 			return l, usagef("--scheme is required (shake, raman) unless --omega-er is given")
 		}
-		s = "direct"
+		name = "direct"
+	}
+	build, ok := schemeBuilders[name]
+	if !ok {
+		return l, usagef("--scheme %q: allowed: shake, raman, direct", m.scheme)
+	}
+	s, err := build(m)
+	if err != nil {
+		return l, err
 	}
 	l.Scheme = s
-	switch s {
-	case "direct":
-		if err := require(m.omegaER, "omega-er", "2.0"); err != nil {
-			return l, err
-		}
-		l.Omega, l.Delta = m.omegaER.v, m.deltaER.v
-	case "shake":
-		p, err := m.shake.build()
-		if err != nil {
-			return l, err
-		}
-		l.Shake = p
-		if m.omegaER.text != "" {
-			l.Omega, l.OmegaSet = m.omegaER.v, true
-		}
-	case "raman":
-		p, err := m.raman.build(m.shake.atom)
-		if err != nil {
-			return l, err
-		}
-		l.Raman = p
-		if m.omegaER.text != "" {
-			l.Omega, l.OmegaSet = m.omegaER.v, true
-		}
-	default:
-		return l, usagef("--scheme %q: allowed: shake, raman, direct", m.scheme)
+	if _, direct := s.(dispersion.Direct); !direct && m.omegaER.text != "" {
+		l.CouplingOverER, l.CouplingSet = m.omegaER.v, true
 	}
 	return l, nil
 }

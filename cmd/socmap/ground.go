@@ -153,7 +153,7 @@ func groundProblem(mf *modelFlags, inf *interFlags, tf *trapFlags, gf *gridFlags
 		}
 	}
 	if gf.lengths != "" {
-		if lab.Scheme == "direct" {
+		if lab.Scheme.Atom() == nil {
 			return p, usagef("--length %q: SI lengths need a scheme (k_R); with a direct model use --length-kr", gf.lengths)
 		}
 		parts, err := perAxis("length", gf.lengths, dims)
@@ -182,7 +182,7 @@ func groundProblem(mf *modelFlags, inf *interFlags, tf *trapFlags, gf *gridFlags
 		}
 	}
 	if tf.atoms.text != "" || tf.trap != "" {
-		if lab.Scheme == "direct" {
+		if lab.Scheme.Atom() == nil {
 			return p, usagef("a trapped cloud needs a scheme (--scheme shake|raman) to set k_R and E_R")
 		}
 		if tf.atoms.text == "" || tf.trap == "" {

@@ -93,7 +93,7 @@ func (f *interFlags) apply(lab *phases.Lab, a *atomFlags) error {
 		if !(f.density.v > 0) {
 			return usagef("--density %q: must be positive", f.density.text)
 		}
-		if lab.Scheme == "direct" {
+		if lab.Scheme.Atom() == nil {
 			return usagef("--density needs a scheme (--scheme shake|raman) to set E_R; with a direct model give --G1/--G2 or --ng-*")
 		}
 		c, err := f.couplings(a)

@@ -332,8 +332,10 @@ func TestMapResumeChangedPlan(t *testing.T) {
 	if err := os.Rename(final, final+".partial"); err != nil {
 		t.Fatal(err)
 	}
+	// (--G2 is the y axis here: a changed --G2 does not change the map, so
+	// the refusal of a changed setting is checked with --G1.)
 	for _, c := range []struct{ flag, val, want string }{
-		{"--G2", "0.2", `setting G2 "0.1"`},
+		{"--G1", "1.5", `setting G1 "1"`},
 		{"--x", "omega=0.01:4:41", "setting x"},
 		{"--delta-er", "0.1", `setting delta-er "0"`},
 	} {

@@ -20,63 +20,14 @@ import (
 	"socmap/gpe"
 	"socmap/output"
 	"socmap/phases"
-	"socmap/phases/label"
 )
 
-// axisKind is the quantity kind of each map axis (values stored in SI or E_R).
-var axisKind = map[string]Kind{
-	"omega": KindNumber, "delta": KindNumber, "G1": KindNumber, "G2": KindNumber, "ratio": KindNumber,
-	"density": KindDensity, "gradient": KindGradient, "shake": KindFrequency, "phase": KindAngle,
-	"bias": KindField, "rabi": KindFrequency, "wavelength": KindLength, "angle": KindAngle,
-}
-
-// parseAxis reads NAME=LO:HI:N; LO and HI take units (LO may borrow HI's).
+// parseAxis reads NAME=LO:HI:N (phases.ParseAxis); errors name the flag.
 func parseAxis(flag, s string) (phases.Axis, error) {
-	var a phases.Axis
-	name, rng, ok := strings.Cut(s, "=")
-	bad := func(why string) (phases.Axis, error) {
-		return a, usagef("--%s %q: %s (form NAME=LO:HI:N, e.g. omega=0:4:81 or \"phase=0:180 deg:37\"; NAME one of %s)",
-			flag, s, why, strings.Join(phases.LabAxisNames(), ", "))
-	}
-	if !ok {
-		return bad("missing '='")
-	}
-	name = strings.TrimSpace(name)
-	k, known := axisKind[name]
-	if !known {
-		return bad("unknown axis name " + strconv.Quote(name))
-	}
-	parts := strings.Split(rng, ":")
-	if len(parts) != 3 {
-		return bad("need LO:HI:N")
-	}
-	n, err := strconv.Atoi(strings.TrimSpace(parts[2]))
-	if err != nil || n < 1 || n > 100000 {
-		return bad("N must be an integer from 1 to 100000")
-	}
-	hiText := strings.TrimSpace(parts[1])
-	loText := strings.TrimSpace(parts[0])
-	hi, err := parseQuantity(hiText, k)
+	a, err := phases.ParseAxis(s)
 	if err != nil {
-		return bad("HI: " + err.Error())
-	}
-	lo, err := parseQuantity(loText, k)
-	if err != nil && k != KindNumber {
-		// borrow HI's unit
-		unit := strings.TrimLeft(hiText, "0123456789.+-eE ")
-		lo, err = parseQuantity(loText+" "+unit, k)
-	}
-	if err != nil {
-		return bad("LO: " + err.Error())
-	}
-	a.Name, a.Unit = name, phases.LabAxes[name]
-	a.Values = make([]float64, n)
-	for i := range a.Values {
-		if n == 1 {
-			a.Values[i] = lo
-		} else {
-			a.Values[i] = lo + (hi-lo)*float64(i)/float64(n-1)
-		}
+		return a, usagef("--%s %q: %v (form NAME=LO:HI:N, e.g. omega=0:4:81 or \"phase=0:180 deg:37\"; NAME one of %s)",
+			flag, s, err, strings.Join(phases.AxisNames(), ", "))
 	}
 	return a, nil
 }
@@ -119,41 +70,13 @@ func (o *mapOpts) addFlags(fs *pflag.FlagSet) {
 	fs.StringArrayVar(&o.sbatchOptions, "sbatch-option", nil, `--sbatch: extra "#SBATCH" option for both jobs, e.g. "--partition=short" (repeatable)`)
 }
 
-// runOnlyFlags are map flags that change how a map is computed, not what it
-// holds: they are left out of the settings key that resume and merge compare.
-var runOnlyFlags = map[string]bool{
-	"workers": true, "shard": true, "flush-every": true, "sbatch": true, "tasks": true,
-	"cpus-per-task": true, "sbatch-option": true,
-}
-
-// mapKey returns the settings that determine a map's values: the effective
-// settings of the command (effectivePlan) without the run-only flags.
-func mapKey(cmd *cobra.Command) string {
-	var keep []string
-	for _, line := range strings.Split(effectivePlan(cmd), "\n") {
-		if name, _, ok := strings.Cut(line, " = "); ok && runOnlyFlags[name] {
-			continue
-		}
-		keep = append(keep, line)
-	}
-	return strings.Join(keep, "\n")
-}
-
-// mapSetup is a validated map: the lab settings, the sweep and the problem
-// of each point.
-type mapSetup struct {
-	method  string
-	lab     phases.Lab
-	sw      phases.Sweep
-	problem func(ix, iy int) (phases.Uniform, error)
-}
-
-// setup checks the settings and builds the sweep.
-func (o *mapOpts) setup() (*mapSetup, error) {
+// problem checks the settings and builds the map problem.
+func (o *mapOpts) problem() (*phases.MapProblem, error) {
 	if o.method != "variational" && o.method != "gpe" {
 		return nil, usagef("--method %q: allowed: variational, gpe", o.method)
 	}
-	if o.method == "gpe" {
+	p := &phases.MapProblem{Method: phases.Method(o.method)}
+	if p.Method == phases.MethodGPE {
 		if o.gpePoints != 0 && (o.gpePoints < 16 || o.gpePoints > 8192) {
 			return nil, usagef("--points %d: allowed 16 … 8192", o.gpePoints)
 		}
@@ -166,75 +89,35 @@ func (o *mapOpts) setup() (*mapSetup, error) {
 		if !(o.gpeTol.v > 0) {
 			return nil, usagef("--tol %q: must be positive", o.gpeTol.text)
 		}
+		p.GPE = phases.GPESettings{Points: o.gpePoints, Length: o.gpeLength.v, RandomStarts: o.gpeStarts,
+			Solver: gpe.Settings{Tol: o.gpeTol.v}}
 	}
-	lab, err := o.mf.lab()
-	if err != nil {
+	var err error
+	if p.Lab, err = o.mf.lab(); err != nil {
 		return nil, err
 	}
-	if err := o.inf.apply(&lab, &o.mf.shake.atomFlags); err != nil {
+	if err := o.inf.apply(&p.Lab, &o.mf.shake.atomFlags); err != nil {
 		return nil, err
 	}
 	if o.xs == "" {
 		return nil, usagef("--x is required (NAME=LO:HI:N)")
 	}
-	sw := phases.Sweep{Observables: phases.VariationalObservables}
-	if o.method == "gpe" {
-		sw.Observables = phases.GPEObservables
-	}
-	if sw.X, err = parseAxis("x", o.xs); err != nil {
+	if p.X, err = parseAxis("x", o.xs); err != nil {
 		return nil, err
 	}
 	if o.ys != "" {
-		if sw.Y, err = parseAxis("y", o.ys); err != nil {
+		if p.Y, err = parseAxis("y", o.ys); err != nil {
 			return nil, err
 		}
-		if sw.Y.Name == sw.X.Name {
+		if p.Y.Name == p.X.Name {
 			return nil, usagef("--y %q: same axis as --x", o.ys)
 		}
 	}
-	problem := func(ix, iy int) (phases.Uniform, error) {
-		l, err := lab.Set(sw.X.Name, sw.X.Values[ix])
-		if err == nil && sw.Y.Len() > 0 {
-			l, err = l.Set(sw.Y.Name, sw.Y.Values[iy])
-		}
-		if err != nil {
-			return phases.Uniform{}, err
-		}
-		u, _, err := l.Resolve()
-		return u, err
+	// The chain is validated at the corners before the run.
+	if err := p.Check(); err != nil {
+		return nil, usagef("map settings: %v", err)
 	}
-	// Validate the chain at the corners before the run.
-	nx, ny := sw.Shape()
-	for _, p := range [][2]int{{0, 0}, {nx - 1, ny - 1}} {
-		if _, err := problem(p[0], p[1]); err != nil && !errors.Is(err, phases.ErrNoRecoil) {
-			return nil, usagef("map settings: %v", err)
-		}
-	}
-	return &mapSetup{method: o.method, lab: lab, sw: sw, problem: problem}, nil
-}
-
-// spec returns the map file description of the setup.
-func (m *mapSetup) spec(key string, shard, shards int) output.MapSpec {
-	return output.MapSpec{Sweep: m.sw, Method: m.method, Key: key, Shard: shard, Shards: shards,
-		Attrs: map[string]any{
-			"threshold_single_minimum_k": label.DefaultThresholds.SingleMinimumK,
-			"threshold_stripe_minority":  label.DefaultThresholds.StripeMinority,
-			"scheme":                     m.lab.Scheme,
-		}}
-}
-
-// mapPlot is the PNG phase diagram of a map.
-func mapPlot(d *output.MapData, lab phases.Lab) output.MapPlot {
-	title := fmt.Sprintf("Mean-field phase diagram (variational), %s", mapSubtitle(lab))
-	if d.Spec.Method == "gpe" {
-		title = fmt.Sprintf("Phase diagram from 1D GPE ground states, %s", mapSubtitle(lab))
-	}
-	mp := output.MapPlot{Data: d, Title: title, Boundaries: symmetricBoundaries(lab, d.Spec.Sweep)}
-	if d.Observable("phase_variational") != nil {
-		mp.Marks = disagreements(d)
-		mp.MarksName = "GPE ≠ variational"
-	}
-	return mp
+	return p, nil
 }
 
 // shardSetting returns the shard of this run: from --shard I/N, else from
@@ -307,7 +190,7 @@ the merge as a dependent job.`,
 }
 
 func (o *mapOpts) run(cmd *cobra.Command) error {
-	m, err := o.setup()
+	p, err := o.problem()
 	if err != nil {
 		return err
 	}
@@ -333,20 +216,18 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 		}
 	}
 	if o.sbatch {
-		return o.printSbatch(cmd, m, h5out, others)
+		return o.printSbatch(cmd, p, h5out, others)
 	}
 	shard, shards, sharded, err := shardSetting(o.shard)
 	if err != nil {
 		return err
 	}
-	key := mapKey(cmd)
 	if sharded {
 		if h5out == "" || len(others) > 0 {
 			return usagef("--shard %d/%d: give exactly one --out FILE.h5 (the shard goes to FILE.shard-%d-of-%d.h5; make the PNG with socmap merge)", shard, shards, shard, shards)
 		}
 		h5out = output.ShardName(h5out, shard, shards)
-		spec := m.spec(key, shard, shards)
-		if done, err := shardAlreadyDone(h5out, spec); done || err != nil {
+		if done, err := shardAlreadyDone(h5out, output.NewMapSpec(p, shard, shards)); done || err != nil {
 			if err == nil {
 				fmt.Fprintf(cmd.OutOrStdout(), "shard %d/%d: %s is complete already (same settings); nothing to do\n", shard, shards, h5out)
 			}
@@ -362,27 +243,21 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 	if err := checkOuts(outs, ".h5", ".png", ".json"); err != nil {
 		return err
 	}
-	spec := m.spec(key, shard, shards)
+	spec := output.NewMapSpec(p, shard, shards)
 	workers := o.workers
 	if v, err := strconv.Atoi(os.Getenv("SLURM_CPUS_PER_TASK")); workers == 0 && err == nil && v > 0 {
 		workers = v // inside a Slurm job: the CPUs it was given
 	}
 	rs := &phases.RunSettings{Workers: workers, Shard: shard, Shards: max(shards, 1), Progress: progressBar(cmd, "map")}
-	pf := phases.VariationalPoints(m.problem, nil)
-	if m.method == "gpe" {
-		pf = phases.GPEPoints(m.problem, phases.GPESettings{Points: o.gpePoints, Length: o.gpeLength.v,
-			RandomStarts: o.gpeStarts, Solver: gpe.Settings{Tol: o.gpeTol.v}})
-	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
 
-	var data *output.MapData
-	var res phases.RunResult
+	r := &output.MapResult{Problem: p}
 	if h5out == "" {
-		data = output.NewMapData(spec)
-		if res, err = phases.Run(ctx, m.sw, pf, data, rs); err != nil {
-			if res.Status == phases.RunCanceled {
-				return fmt.Errorf("map interrupted after %d of %d points (nothing written: use --out FILE.h5 to make a map resumable)", res.Computed, res.Total)
+		r.Data = output.NewMapData(spec)
+		if r.Run, err = p.Run(ctx, r.Data, rs); err != nil {
+			if r.Run.Status == phases.RunCanceled {
+				return fmt.Errorf("map interrupted after %d of %d points (nothing written: use --out FILE.h5 to make a map resumable)", r.Run.Computed, r.Run.Total)
 			}
 			return fmt.Errorf("map: %w", err)
 		}
@@ -391,7 +266,7 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 		if err != nil {
 			return err
 		}
-		res, err = phases.Run(ctx, m.sw, pf, sink, rs)
+		r.Run, err = p.Run(ctx, sink, rs)
 		stop()
 		if err != nil {
 			cerr := sink.Close()
@@ -400,7 +275,7 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 			if cerr != nil {
 				where = fmt.Sprintf("closing %s: %v", sink.Path(), cerr)
 			}
-			if res.Status == phases.RunCanceled {
+			if r.Run.Status == phases.RunCanceled {
 				return fmt.Errorf("map interrupted: %s; run the same command again to resume", where)
 			}
 			return fmt.Errorf("map: %w (%s)", err, where)
@@ -409,21 +284,21 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 			return fmt.Errorf("map: %w", err)
 		}
 		if sharded {
-			return shardReport(cmd, h5out, shard, shards, res)
+			return shardReport(cmd, h5out, shard, shards, r.Run)
 		}
-		if data, _, err = output.ReadMap(h5out); err != nil {
+		if r.Data, _, err = output.ReadMap(h5out); err != nil {
 			return fmt.Errorf("map: reading back %s: %w", h5out, err)
 		}
 	}
-	if err := writeMapOuts(others, data, m.lab); err != nil {
+	if err := writeMapOuts(others, r); err != nil {
 		return err
 	}
 	if g.json {
-		doc := mapJSON(data)
-		doc["points_computed"], doc["points_resumed"] = res.Computed, res.Skipped
+		doc := r.JSON()
+		doc["points_computed"], doc["points_resumed"] = r.Run.Computed, r.Run.Skipped
 		return writeJSON(cmd.OutOrStdout(), doc)
 	}
-	return mapTable(data, res, m.lab).Write(cmd.OutOrStdout())
+	return r.Table().Write(cmd.OutOrStdout())
 }
 
 // openSink creates the map file, or resumes its partial file (unless --force).
@@ -504,15 +379,14 @@ func shardReport(cmd *cobra.Command, path string, shard, shards int, res phases.
 }
 
 // writeMapOuts writes the PNG and JSON files of a map.
-func writeMapOuts(outs []string, d *output.MapData, lab phases.Lab) error {
+func writeMapOuts(outs []string, r *output.MapResult) error {
 	for _, o := range outs {
 		var err error
 		switch strings.ToLower(filepath.Ext(o)) {
 		case ".png":
-			mp := mapPlot(d, lab)
-			err = output.WriteFileAtomic(o, g.force, mp.WritePNG)
+			err = output.WriteFileAtomic(o, g.force, r.WritePNG)
 		case ".json":
-			err = output.WriteFileAtomic(o, g.force, func(w io.Writer) error { return writeJSON(w, mapJSON(d)) })
+			err = output.WriteFileAtomic(o, g.force, func(w io.Writer) error { return writeJSON(w, r.JSON()) })
 		}
 		if err != nil {
 			return err
@@ -534,156 +408,6 @@ func checkOutTypes(outs []string, exts ...string) error {
 		}
 	}
 	return nil
-}
-
-func mapSubtitle(l phases.Lab) string {
-	switch l.Scheme {
-	case "shake":
-		return "shaking scheme, " + l.Shake.Species.Name
-	case "raman":
-		return "Raman scheme, " + l.Raman.Species.Name
-	}
-	return "direct model"
-}
-
-// symmetricBoundaries returns the closed-form boundaries of the symmetric
-// case (g↑↑ = g↓↓, δ = 0) when one axis is omega and the other G2 (or there
-// is no other axis), in displayed units; nil when they do not apply.
-func symmetricBoundaries(l phases.Lab, sw phases.Sweep) []output.Boundary {
-	u, _, err := l.Resolve()
-	if err != nil || u.Delta != 0 || math.Abs(u.Guu-u.Gdd) > 1e-12*math.Abs(u.Guu) || l.DeltaSet && l.Delta != 0 {
-		return nil
-	}
-	g1, _, _ := u.Couplings()
-	var other phases.Axis
-	var omegaIsX bool
-	switch {
-	case sw.X.Name == "omega" && sw.Y.Name == "G2":
-		other, omegaIsX = sw.Y, true
-	case sw.Y.Name == "omega" && sw.X.Name == "G2":
-		other = sw.X
-	default:
-		return nil
-	}
-	if l.G1Set {
-		g1 = l.G1
-	}
-	lo, hi := other.Values[0], other.Values[len(other.Values)-1]
-	var up, pw output.Boundary
-	up.Name = "stripe edge (closed form)"
-	pw.Name = "Ω = 4(1 − G2) (closed form)"
-	g2t := phases.TricriticalG2(g1)
-	for i := 0; i <= 400; i++ {
-		g2 := lo + (hi-lo)*float64(i)/400
-		o := phases.UpperStripeOmega(g1, g2)
-		if g2 > 0 {
-			add(&up, omegaIsX, o, g2)
-		}
-		if g2 <= g2t {
-			add(&pw, omegaIsX, phases.PlaneWaveSingleMinimumOmega(g2), g2)
-		}
-	}
-	return []output.Boundary{up, pw}
-}
-
-func add(b *output.Boundary, omegaIsX bool, omega, g2 float64) {
-	if omegaIsX {
-		b.X, b.Y = append(b.X, omega), append(b.Y, g2)
-	} else {
-		b.X, b.Y = append(b.X, g2), append(b.Y, omega)
-	}
-}
-
-func mapJSON(d *output.MapData) map[string]any {
-	sw := d.Spec.Sweep
-	axis := func(a phases.Axis) map[string]any {
-		return map[string]any{"name": a.Name, "unit": a.Unit, "values": a.Values}
-	}
-	names := make([][]string, d.NY)
-	energy := make([][]any, d.NY)
-	e := d.Observable("energy")
-	for iy := range names {
-		names[iy] = make([]string, d.NX)
-		energy[iy] = make([]any, d.NX)
-		for ix := range names[iy] {
-			names[iy][ix] = d.Phase[iy*d.NX+ix].String()
-			energy[iy][ix] = output.JSONNum(e[iy*d.NX+ix])
-		}
-	}
-	doc := map[string]any{"x": axis(sw.X), "method": d.Spec.Method, "phase_codes": label.Legend()}
-	if sw.Y.Len() > 0 {
-		doc["y"] = axis(sw.Y)
-		doc["phase"], doc["energy_over_ER"] = names, energy
-	} else {
-		doc["phase"], doc["energy_over_ER"] = names[0], energy[0]
-	}
-	return doc
-}
-
-// disagreements lists the converged GPE points whose phase differs from the
-// variational phase at the same point.
-func disagreements(d *output.MapData) []int {
-	pv := d.Observable("phase_variational")
-	var out []int
-	for i, p := range d.Phase {
-		if !d.Mask[i] || p == label.NotConverged || math.IsNaN(pv[i]) {
-			continue
-		}
-		if label.Phase(int8(pv[i])) != p {
-			out = append(out, i)
-		}
-	}
-	return out
-}
-
-func mapTable(d *output.MapData, res phases.RunResult, l phases.Lab) *output.Table {
-	t := &output.Table{Title: fmt.Sprintf("Phase map (%s), %s: %d × %d points in %s", d.Spec.Method, mapSubtitle(l), d.NX, d.NY, res.Elapsed.Round(time.Millisecond))}
-	counts := map[label.Phase]int{}
-	for _, p := range d.Phase {
-		counts[p]++
-	}
-	t.Section("Points per phase")
-	for _, p := range label.All[1:] {
-		t.Row(p.String(), strconv.Itoa(counts[p]), "")
-	}
-	if d.NY == 1 {
-		t.Section("Along " + d.Spec.Sweep.X.Name)
-		xl, xsc := output.AxisDisplay(d.Spec.Sweep.X.Name, d.Spec.Sweep.X.Unit)
-		start := 0
-		for i := 1; i <= d.NX; i++ {
-			if i == d.NX || d.Phase[i] != d.Phase[start] {
-				t.Row(fmt.Sprintf("%s … %s", output.Num(d.Spec.Sweep.X.Values[start]*xsc, 4), output.Num(d.Spec.Sweep.X.Values[i-1]*xsc, 4)), d.Phase[start].String(), "")
-				start = i
-			}
-		}
-		t.Text("(" + xl + ")")
-	}
-	if res.Skipped > 0 {
-		t.Text(fmt.Sprintf("resumed: %d points from an earlier run, %d computed now", res.Skipped, res.Computed))
-	}
-	if pv := d.Observable("phase_variational"); pv != nil {
-		dis := disagreements(d)
-		t.Section(fmt.Sprintf("GPE against the variational theory: %d of %d points disagree", len(dis), d.NX*d.NY))
-		xl, xsc := output.AxisDisplay(d.Spec.Sweep.X.Name, d.Spec.Sweep.X.Unit)
-		yl, ysc := "", 1.0
-		if d.Spec.Sweep.Y.Len() > 0 {
-			yl, ysc = output.AxisDisplay(d.Spec.Sweep.Y.Name, d.Spec.Sweep.Y.Unit)
-		}
-		for k, i := range dis {
-			if k == 12 {
-				t.Text(fmt.Sprintf("… and %d more (all in the HDF5 file: phase vs phase_variational)", len(dis)-12))
-				break
-			}
-			at := fmt.Sprintf("%s = %s", xl, output.Num(d.Spec.Sweep.X.Values[i%d.NX]*xsc, 4))
-			if yl != "" {
-				at += fmt.Sprintf(", %s = %s", yl, output.Num(d.Spec.Sweep.Y.Values[i/d.NX]*ysc, 4))
-			}
-			t.Text(fmt.Sprintf("%s: GPE %s, variational %s", at, d.Phase[i], label.Phase(int8(pv[i]))))
-		}
-	}
-	t.Text(fmt.Sprintf("classifier thresholds: single-minimum below |k| = %g k_R, stripe from minority weight %g",
-		label.DefaultThresholds.SingleMinimumK, label.DefaultThresholds.StripeMinority))
-	return t
 }
 
 // progressBar returns a progress callback that draws on stderr when it is a

@@ -80,10 +80,11 @@ same as --out FILE.png.`,
 				fmt.Fprintf(cmd.ErrOrStderr(), "socmap merge: warning: %d of %d points are in no input (%s); written with done = 0\n", n, res.Points, first)
 			}
 			info := output.RunInfo{Version: version, CommandLine: strings.Join(os.Args, " "), Plan: res.Info.Plan, Kind: "map"}
-			if err := output.WriteMapFile(h5out, g.force, info, d); err != nil {
+			r := &output.MapResult{Data: d, Problem: problemFromPlan(res.Info.Plan)}
+			if err := r.WriteH5(h5out, g.force, info); err != nil {
 				return err
 			}
-			if err := writeMapOuts(others, d, labFromKey(d.Spec.Key)); err != nil {
+			if err := writeMapOuts(others, r); err != nil {
 				return err
 			}
 			if g.json {
@@ -115,30 +116,28 @@ func sameFile(a, b string) bool {
 	return err1 == nil && err2 == nil && os.SameFile(sa, sb)
 }
 
-// labFromKey rebuilds the lab settings of a map from its stored settings
-// key (TOML lines `flag = "value"` of socmap map), for the PNG title and the
-// closed-form boundaries. Settings it cannot apply are skipped; a key that
-// gives no valid model yields the zero Lab (no boundaries).
-func labFromKey(key string) phases.Lab {
+// problemFromPlan rebuilds the map problem from the effective plan stored
+// in a map file (TOML, keys = flags of socmap map), for the PNG title and
+// the closed-form boundaries of a merged map. Keys it cannot apply are
+// skipped; a plan that gives no valid problem yields nil (no boundaries).
+func problemFromPlan(plan string) *phases.MapProblem {
+	settings, lists, err := readPlanText(plan, "stored plan")
+	if err != nil {
+		return nil
+	}
 	o := &mapOpts{}
 	fs := pflag.NewFlagSet("map", pflag.ContinueOnError)
 	o.addFlags(fs)
-	for _, line := range strings.Split(key, "\n") {
-		name, val, ok := strings.Cut(strings.TrimSpace(line), " = ")
-		if !ok || strings.HasPrefix(name, "#") {
-			continue
+	for name, v := range settings {
+		if f := fs.Lookup(name); f != nil {
+			setPlanFlag(fs, f, v, lists[name])
 		}
-		v, err := strconv.Unquote(val)
-		if err != nil || fs.Lookup(name) == nil {
-			continue
-		}
-		fs.Set(name, v)
 	}
-	m, err := o.setup()
+	p, err := o.problem()
 	if err != nil {
-		return phases.Lab{}
+		return nil
 	}
-	return m.lab
+	return p
 }
 
 // shellQuote quotes s for a POSIX shell.
@@ -160,11 +159,11 @@ var sbatchSkip = map[string]bool{
 // printSbatch prints a shell script that submits the map as a Slurm job
 // array of o.tasks shards and a merge job that runs when every task has
 // succeeded (afterok). It submits nothing itself.
-func (o *mapOpts) printSbatch(cmd *cobra.Command, m *mapSetup, h5out string, others []string) error {
+func (o *mapOpts) printSbatch(cmd *cobra.Command, p *phases.MapProblem, h5out string, others []string) error {
 	if h5out == "" {
 		return usagef("--sbatch: give --out FILE.h5 (the merged map; shards go to FILE.shard-I-of-N.h5)")
 	}
-	nx, ny := m.sw.Shape()
+	nx, ny := p.Sweep().Shape()
 	if o.tasks < 1 || o.tasks > nx*ny {
 		return usagef("--tasks %d: must be from 1 to the number of points (%d)", o.tasks, nx*ny)
 	}

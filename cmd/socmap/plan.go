@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"os"
 	"sort"
+	"strconv"
 	"strings"
 
 	"github.com/BurntSushi/toml"
@@ -33,8 +34,10 @@ import (
 // leaves them out of the flag settings.
 var planTables = map[string]func(map[string]any) error{}
 
-// planSettings flattens a decoded plan into key → text.
-func planSettings(data map[string]any, prefix string, out map[string]string) error {
+// planSettings flattens a decoded plan into key → text; an array is
+// joined with commas in out and kept element by element in lists (for
+// repeatable flags).
+func planSettings(data map[string]any, prefix string, out map[string]string, lists map[string][]string) error {
 	for k, v := range data {
 		if check, ok := planTables[k]; ok && prefix == "" {
 			t, isTable := v.(map[string]any)
@@ -48,7 +51,7 @@ func planSettings(data map[string]any, prefix string, out map[string]string) err
 		}
 		switch t := v.(type) {
 		case map[string]any:
-			if err := planSettings(t, k, out); err != nil {
+			if err := planSettings(t, k, out, lists); err != nil {
 				return err
 			}
 		case []any:
@@ -57,6 +60,7 @@ func planSettings(data map[string]any, prefix string, out map[string]string) err
 				parts[i] = fmt.Sprint(e)
 			}
 			out[k] = strings.Join(parts, ",")
+			lists[k] = parts
 		default:
 			if _, dup := out[k]; dup {
 				return fmt.Errorf("key %q appears twice", k)
@@ -69,17 +73,17 @@ func planSettings(data map[string]any, prefix string, out map[string]string) err
 
 // readPlanText decodes a plan. A leading UTF-8 byte-order mark (as some
 // editors and spreadsheets write it) is dropped.
-func readPlanText(text, name string) (map[string]string, error) {
+func readPlanText(text, name string) (map[string]string, map[string][]string, error) {
 	text = strings.TrimPrefix(text, "\ufeff")
 	var data map[string]any
 	if _, err := toml.Decode(text, &data); err != nil {
-		return nil, usagef("--plan %s: not valid TOML: %v", name, strings.ReplaceAll(err.Error(), "\n", " "))
+		return nil, nil, usagef("--plan %s: not valid TOML: %v", name, strings.ReplaceAll(err.Error(), "\n", " "))
 	}
-	out := map[string]string{}
-	if err := planSettings(data, "", out); err != nil {
-		return nil, usagef("--plan %s: %v", name, err)
+	out, lists := map[string]string{}, map[string][]string{}
+	if err := planSettings(data, "", out, lists); err != nil {
+		return nil, nil, usagef("--plan %s: %v", name, err)
 	}
-	return out, nil
+	return out, lists, nil
 }
 
 // applyPlan sets every flag of cmd that the plan names and the command line did not.
@@ -96,7 +100,7 @@ func applyPlan(cmd *cobra.Command) error {
 
 func applyPlanText(cmd *cobra.Command, text, name string) error {
 	g.planText = text
-	settings, err := readPlanText(text, name)
+	settings, lists, err := readPlanText(text, name)
 	if err != nil {
 		return err
 	}
@@ -114,7 +118,7 @@ func applyPlanText(cmd *cobra.Command, text, name string) error {
 		if f == nil || f.Changed {
 			continue
 		}
-		if err := cmd.Flags().Set(k, settings[k]); err != nil {
+		if err := setPlanFlag(cmd.Flags(), f, settings[k], lists[k]); err != nil {
 			return usagef("--plan %s: %s = %q: %v", name, k, settings[k], err)
 		}
 		f.Changed = true
@@ -126,6 +130,16 @@ func applyPlanText(cmd *cobra.Command, text, name string) error {
 	return nil
 }
 
+// setPlanFlag sets a flag from a plan value: a repeatable flag takes a
+// TOML array element by element, any other flag the text (an array joined
+// with commas).
+func setPlanFlag(fs *pflag.FlagSet, f *pflag.Flag, text string, list []string) error {
+	if sv, ok := f.Value.(pflag.SliceValue); ok && list != nil {
+		return sv.Replace(list)
+	}
+	return fs.Set(f.Name, text)
+}
+
 // effectivePlan renders the settings of cmd (every flag it has, with its value)
 // as TOML, for result files: running the command with this plan repeats it.
 func effectivePlan(cmd *cobra.Command) string {
@@ -134,6 +148,18 @@ func effectivePlan(cmd *cobra.Command) string {
 	cmd.Flags().VisitAll(func(f *pflag.Flag) {
 		switch f.Name {
 		case "plan", "json", "quiet", "force", "help", "version", "out":
+			return
+		}
+		if sv, ok := f.Value.(pflag.SliceValue); ok {
+			// Lists as TOML arrays; an empty list is left out (its text
+			// "[]" is not a value the flag takes back).
+			if vals := sv.GetSlice(); len(vals) > 0 {
+				q := make([]string, len(vals))
+				for i, v := range vals {
+					q[i] = strconv.Quote(v)
+				}
+				fmt.Fprintf(&b, "%s = [%s]\n", f.Name, strings.Join(q, ", "))
+			}
 			return
 		}
 		if f.Value.String() == "" {

@@ -21,7 +21,7 @@ func FuzzReadPlan(f *testing.F) {
 		f.Add(s)
 	}
 	f.Fuzz(func(t *testing.T, text string) {
-		out, err := readPlanText(text, "fuzz.toml")
+		out, _, err := readPlanText(text, "fuzz.toml")
 		if err != nil {
 			if _, ok := err.(usageError); !ok {
 				t.Fatalf("error %v (%T) is not a usage error", err, err)
@@ -36,7 +36,7 @@ func FuzzReadPlan(f *testing.F) {
 
 // A plan saved with a UTF-8 byte-order mark reads like one without.
 func TestPlanWithByteOrderMark(t *testing.T) {
-	a, err := readPlanText("\ufeffatom = \"Na23\"\nbias = \"11.4 G\"\n", "bom.toml")
+	a, _, err := readPlanText("\ufeffatom = \"Na23\"\nbias = \"11.4 G\"\n", "bom.toml")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -60,7 +60,9 @@ func probeWritable(dir string) error {
 func runInfo(cmd *cobra.Command, kind string) output.RunInfo {
 	plan := effectivePlan(cmd)
 	if g.planText != "" {
-		plan += "\n# plan file " + g.plan + " as read:\n" + g.planText
+		// The plan file as read, commented out: the effective settings above
+		// already hold its values, and the stored plan stays a valid plan.
+		plan += "\n# plan file " + g.plan + " as read:\n# " + strings.ReplaceAll(strings.TrimRight(g.planText, "\n"), "\n", "\n# ") + "\n"
 	}
 	return output.RunInfo{Version: version, CommandLine: strings.Join(os.Args, " "), Plan: plan, Kind: kind}
 }

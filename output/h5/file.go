@@ -9,10 +9,11 @@ import "C"
 import (
 	"errors"
 	"fmt"
-	"io/fs"
 	"os"
 	"path/filepath"
 	"syscall"
+
+	"socmap/output/internal/atomicfile"
 )
 
 type fileMode int
@@ -82,15 +83,9 @@ func Create(name string, force bool) (*File, error) {
 		dsets: map[*Dataset]struct{}{}}, nil
 }
 
-// osCause strips the *PathError wrapper (whose path is a temporary name) and
-// keeps the errno, which still matches fs.ErrPermission etc.
-func osCause(err error) error {
-	var pe *fs.PathError
-	if errors.As(err, &pe) {
-		return pe.Err
-	}
-	return err
-}
+// osCause strips the wrapper whose path is a temporary name and keeps the
+// errno, which still matches fs.ErrPermission etc.
+func osCause(err error) error { return atomicfile.Pathless(err) }
 
 // Open opens an existing HDF5 file read-only. A file that is not HDF5, or is
 // truncated or damaged, gives an error wrapping ErrFormat.
@@ -136,7 +131,11 @@ func open(name string, rw bool) (*File, error) {
 	case r == 0:
 		return nil, fail(fmt.Errorf("%w: no HDF5 signature (not an HDF5 file)", ErrFormat))
 	case r < 0:
-		return nil, fail(fmt.Errorf("%w: %v", ErrFormat, stackError()))
+		err := stackError()
+		if errors.Is(err, ErrLocked) {
+			return nil, fail(err)
+		}
+		return nil, fail(fmt.Errorf("%w: %v", ErrFormat, err))
 	}
 	var irw C.int
 	if rw {
@@ -144,7 +143,11 @@ func open(name string, rw bool) (*File, error) {
 	}
 	id := C.sm_fopen(cs, irw)
 	if id < 0 {
-		return nil, fail(fmt.Errorf("%w: truncated or damaged: %v", ErrFormat, stackError()))
+		err := stackError()
+		if errors.Is(err, ErrLocked) {
+			return nil, fail(err)
+		}
+		return nil, fail(fmt.Errorf("%w: truncated or damaged: %v", ErrFormat, err))
 	}
 	m := modeRead
 	if rw {
@@ -189,7 +192,7 @@ func (f *File) Close() error {
 	tmp := f.tmp
 	f.tmp = ""
 	if err == nil {
-		err = commit(tmp, f.name, f.force)
+		err = atomicfile.Commit(tmp, f.name, f.force)
 	}
 	if err != nil {
 		os.Remove(tmp)
@@ -258,53 +261,6 @@ func (f *File) Sync() error {
 	}
 	if err := syscall.Fsync(int(fd)); err != nil {
 		return f.err("sync", "", err)
-	}
-	return nil
-}
-
-// commit moves the finished temporary file tmp to name: fsync, permissions
-// 0644, then a hard link (which fails if name exists, so nothing is ever
-// replaced without force) or, with force, a rename; finally the directory is
-// fsynced. The caller removes tmp on error.
-func commit(tmp, name string, force bool) error {
-	fh, err := os.OpenFile(tmp, os.O_RDWR, 0)
-	if err != nil {
-		return osCause(err)
-	}
-	err = fh.Sync()
-	if cerr := fh.Close(); err == nil {
-		err = cerr
-	}
-	if err != nil {
-		return osCause(err)
-	}
-	if err := os.Chmod(tmp, 0o644); err != nil {
-		return osCause(err)
-	}
-	if force {
-		if err := os.Rename(tmp, name); err != nil {
-			return osCause(err)
-		}
-	} else {
-		err := os.Link(tmp, name)
-		switch {
-		case err == nil:
-			os.Remove(tmp)
-		case errors.Is(err, fs.ErrExist):
-			return ErrExist
-		default:
-			// No hard links on this file system: check, then rename.
-			if _, serr := os.Lstat(name); serr == nil {
-				return ErrExist
-			}
-			if err := os.Rename(tmp, name); err != nil {
-				return osCause(err)
-			}
-		}
-	}
-	if d, err := os.Open(filepath.Dir(name)); err == nil {
-		d.Sync() // best effort: some file systems refuse fsync on directories
-		d.Close()
 	}
 	return nil
 }

@@ -29,7 +29,9 @@
 // file and the object path, with a one-line summary of HDF5's error stack.
 // HDF5's automatic printing of the error stack to stderr is switched off.
 // A file that is not HDF5, or is truncated or damaged, gives an error that
-// wraps ErrFormat.
+// wraps ErrFormat; a file that libhdf5 cannot lock (another process writes
+// it) one that wraps ErrLocked, detected from the error stack's minor code
+// H5E_CANTLOCKFILE, never from message text.
 //
 // # Resumable writing and crash safety
 //
@@ -75,10 +77,11 @@ import "C"
 import (
 	"errors"
 	"fmt"
-	"io/fs"
 	"runtime"
 	"sync"
 	"unsafe"
+
+	"socmap/output/internal/atomicfile"
 )
 
 var (
@@ -180,17 +183,16 @@ var (
 	ErrClosed = errors.New("already closed")
 	// ErrReadOnly: a write was attempted on a file opened read-only.
 	ErrReadOnly = errors.New("file opened read-only")
+	// ErrLocked: libhdf5 could not lock the file (it locks every file it
+	// opens; another process has it open for writing, or the file is open
+	// for reading elsewhere and this open asks to write).
+	ErrLocked = errors.New("file is locked by another process (HDF5 file lock)")
 )
 
 // ErrExist is returned (wrapped) when Create would replace an existing file
 // without force, or a dataset would replace an existing object. It also
 // matches fs.ErrExist.
-var ErrExist error = existError{}
-
-type existError struct{}
-
-func (existError) Error() string        { return "file exists (use --force to overwrite)" }
-func (existError) Is(target error) bool { return target == fs.ErrExist }
+var ErrExist = atomicfile.ErrExist
 
 // Error is the error type of every failing operation of the package.
 type Error struct {
@@ -212,10 +214,16 @@ func (e *Error) Unwrap() error { return e.Err }
 
 // stackError reads (and clears) the calling thread's HDF5 error stack.
 // The caller holds the lock, so the stack belongs to the failed call.
+// An error stack that holds HDF5's "unable to lock file" entry (minor
+// error H5E_CANTLOCKFILE) gives an error wrapping ErrLocked.
 func stackError() error {
 	var buf [600]C.char
-	C.sm_errmsg(&buf[0], C.size_t(len(buf)))
-	return errors.New("hdf5: " + C.GoString(&buf[0]))
+	locked := C.sm_errmsg(&buf[0], C.size_t(len(buf))) != 0
+	err := errors.New("hdf5: " + C.GoString(&buf[0]))
+	if locked {
+		return fmt.Errorf("%w: %v", ErrLocked, err)
+	}
+	return err
 }
 
 func cstr(s string) *C.char { return C.CString(s) }

@@ -23,6 +23,7 @@ struct walk {
 	char first[256];
 	char last[256];
 	int n;
+	int locked;
 };
 
 static herr_t walk_cb(unsigned n, const H5E_error2_t *e, void *data) {
@@ -32,11 +33,12 @@ static herr_t walk_cb(unsigned n, const H5E_error2_t *e, void *data) {
 		snprintf(w->first, sizeof w->first, "%s", d);
 	}
 	snprintf(w->last, sizeof w->last, "%s", d);
+	if (e->min_num == H5E_CANTLOCKFILE) w->locked = 1;
 	w->n++;
 	return 0;
 }
 
-void sm_errmsg(char *buf, size_t n) {
+int sm_errmsg(char *buf, size_t n) {
 	struct walk w;
 	memset(&w, 0, sizeof w);
 	H5Ewalk2(H5E_DEFAULT, H5E_WALK_DOWNWARD, walk_cb, &w);
@@ -52,6 +54,7 @@ void sm_errmsg(char *buf, size_t n) {
 	for (char *p = buf; *p; p++) {
 		if (*p == '\n' || *p == '\r') *p = ' ';
 	}
+	return w.locked;
 }
 
 // fapl is the file-access property list of every file: the strong close

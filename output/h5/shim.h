@@ -27,8 +27,10 @@ hid_t sm_type(int code);
 herr_t sm_quiet(void);
 
 // sm_errmsg writes a one-line summary of the calling thread's error stack
-// into buf (outermost and innermost descriptions) and clears the stack.
-void sm_errmsg(char *buf, size_t n);
+// into buf (outermost and innermost descriptions) and clears the stack. It
+// returns 1 when an entry of the stack is HDF5's "unable to lock file"
+// (minor error H5E_CANTLOCKFILE), else 0.
+int sm_errmsg(char *buf, size_t n);
 
 hid_t sm_fcreate(const char *name);
 hid_t sm_fopen(const char *name, int rw);
