@@ -369,7 +369,6 @@ type DesignEvaluator struct {
 	lim    DesignLimits
 	vs     *Settings
 	tol    float64
-	nCont  int
 	free   []int // indices of numeric free settings
 	choice []int // indices of categorical free settings
 }
