@@ -52,6 +52,9 @@ func demoDesign(t testing.TB, obj string) DesignProblem {
 // (min-period) make them the optimum; brute force on a fine grid finds it
 // there, and Design finds the grid's optimum within one grid step.
 func TestDesignRoundTrip(t *testing.T) {
+	if testing.Short() {
+		t.Skip("thousands of chain evaluations; run without -short")
+	}
 	p := demoDesign(t, "window")
 	e, err := NewDesignEvaluator(p, 0, nil)
 	if err != nil {
@@ -120,6 +123,9 @@ func TestDesignRoundTrip(t *testing.T) {
 // TestDesignMonotone: widening a range or loosening a constraint never gives
 // a worse best objective.
 func TestDesignMonotone(t *testing.T) {
+	if testing.Short() {
+		t.Skip("thousands of chain evaluations; run without -short")
+	}
 	set := &DesignSettings{Evaluations: 800, SkipCheck: true}
 	base := demoDesign(t, "window")
 	base.Limits.MinPeriod = 2.6e-6
@@ -165,6 +171,9 @@ func TestDesignMonotone(t *testing.T) {
 // scheme at those settings gives no validity warning (default thresholds)
 // and the comparison predicts a stripe at the planned coupling.
 func TestDesignCandidatesMeetConstraints(t *testing.T) {
+	if testing.Short() {
+		t.Skip("thousands of chain evaluations; run without -short")
+	}
 	p := demoDesign(t, "field*window^0.5")
 	p.Free = append(p.Free, FreeSetting{Name: "pulse-width", Lo: 5e-6, Hi: 60e-6, Unit: "us", Factor: 1e-6},
 		FreeSetting{Name: "bias", Lo: 30e-4, Hi: 120e-4, Unit: "G", Factor: 1e-4})
