@@ -3,6 +3,7 @@ package output
 import (
 	"fmt"
 	"io"
+	"strings"
 
 	"socmap/dispersion"
 	"socmap/gpe"
@@ -39,7 +40,7 @@ func (r *GroundResult) Table() *Table {
 	if o.Phase == label.Stripe && o.StripePeriod > 0 {
 		t.Row("stripe period π/k₁", N(o.StripePeriod, 5), "1/k_R")
 	}
-	t.Row("density contrast", N(o.Contrast, 4), "")
+	t.RowNote("density contrast", N(o.Contrast, 4), "", contrastNote(o))
 	t.Row("Fourier amplitude at 2k₁", N(o.Fourier2K1, 4), "")
 	if r.Units != nil {
 		t.Section("In SI")
@@ -99,7 +100,8 @@ func (r *GroundResult) JSON() map[string]any {
 	doc := map[string]any{
 		"phase": o.Phase.String(), "status": b.Status.String(), "energy_per_particle_over_ER": n(o.Energies.Total),
 		"mu_over_ER": n(o.Energies.Mu), "sz": n(o.Sz), "sx": n(o.Sx), "k1_over_kR": n(o.K1), "contrast": n(o.Contrast),
-		"fourier_2k1": n(o.Fourier2K1), "stripe_period_over_inv_kR": n(o.StripePeriod),
+		"contrast_definition": o.ContrastDef,
+		"fourier_2k1":         n(o.Fourier2K1), "stripe_period_over_inv_kR": n(o.StripePeriod),
 		"iterations": b.Iterations, "split_steps": b.SplitSteps, "residual_over_ER": n(b.Residual),
 		"energy_parts_over_ER": map[string]any{"kinetic": n(o.Energies.Kinetic), "potential": n(o.Energies.Potential),
 			"rabi": n(o.Energies.Rabi), "detuning": n(o.Energies.Detuning), "interaction": n(o.Energies.Interaction)},
@@ -111,6 +113,9 @@ func (r *GroundResult) JSON() map[string]any {
 	}
 	if o.MuTF > 0 {
 		doc["mu_thomas_fermi_over_ER"] = n(o.MuTF) // band bottom + μ_TF(g_eff), from gpe.Observe
+	}
+	if c := r.Cloud; c != nil {
+		doc["cloud"] = CloudJSON(c)
 	}
 	if v := r.Variational; v != nil {
 		doc["variational"] = map[string]any{"where": v.Where, "phase": v.Phase.String(), "energy_per_particle_over_ER": v.Energy,
@@ -124,6 +129,19 @@ func (r *GroundResult) JSON() map[string]any {
 		}
 	}
 	return doc
+}
+
+// contrastNote says how the contrast was measured (one line for tables).
+func contrastNote(o *gpe.Observables) string {
+	switch {
+	case o.ContrastWindow > 0:
+		return fmt.Sprintf("(2k₁ amplitude / local mean at the cloud centre, window σ = %s/k_R: envelope removed)", Num(o.ContrastWindow, 3))
+	case strings.Contains(o.ContrastDef, "central half"):
+		return "(continuous n_max, n_min over the central half)"
+	case strings.HasPrefix(o.ContrastDef, "2|"):
+		return "(no stripe wavenumber: k₁ below the single-minimum threshold)"
+	}
+	return "(continuous n_max, n_min)"
 }
 
 func lengths(g *gpe.Grid) string {
@@ -157,6 +175,13 @@ func (r *GroundResult) WriteH5(w *Writer) {
 	w.Attr("/model", "potential", m.Potential.Kind.String())
 	if m.Potential.Kind == gpe.Harmonic {
 		w.Array("/model/trap_omega", m.Potential.AngularFreq[:g.Dim], nil, "E_R/ħ", "harmonic trap angular frequencies")
+	}
+	if c := r.Cloud; c != nil {
+		w.Attr("/model", "cloud_model", c.Model.String())
+		w.Attr("/model", "cloud_warning", c.Warning)
+		w.Scalar("/model/mu_over_hbar_omega_perp", c.Ratio, "dimensionless", "validity check of the reduced couplings: Thomas–Fermi μ of the reduced model over ħω⊥ (valid up to 1; in 3D μ over ħω of the stiffest axis, valid from 1)")
+		w.Scalar("/model/coupling_scale", c.Scale, "dimensionless", "factor applied to the reduced couplings (1, or the factor that makes μ the 3D Thomas–Fermi μ)")
+		w.Scalar("/model/peak_density", c.PeakDensity, "1/m^3", "effective 3D peak density μ/g of the cloud model")
 	}
 	if r.Units != nil {
 		w.Scalar("/units/k_R", r.Units.KR, "1/m", "recoil wavenumber: unit of momentum")
@@ -195,7 +220,7 @@ func (r *GroundResult) WriteH5(w *Writer) {
 	w.Scalar(ob+"sigma_x", o.Sx, "dimensionless", "⟨σ_x⟩ per particle")
 	w.Scalar(ob+"k1", o.K1, "k_R", "|k_x| of the largest momentum peak")
 	w.Scalar(ob+"stripe_period", o.StripePeriod, "1/k_R", "π/k₁")
-	w.Scalar(ob+"contrast", o.Contrast, "dimensionless", "(n_max − n_min)/(n_max + n_min) of the total density along x (central region)")
+	w.Scalar(ob+"contrast", o.Contrast, "dimensionless", "stripe contrast of the total density along x: "+o.ContrastDef)
 	w.Scalar(ob+"fourier_2k1", o.Fourier2K1, "dimensionless", "|ñ(2k₁)|/ñ(0) of the total density along x")
 	w.Scalar(ob+"mu_thomas_fermi", o.MuTF, "E_R", "Thomas–Fermi estimate of μ (0 without a trap)")
 	w.Attr("/observables", "phase", o.Phase.String())

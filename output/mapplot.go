@@ -29,6 +29,7 @@ var phaseColors = map[label.Phase]color.Color{
 	label.Stripe:        color.RGBA{200, 90, 140, 255},  // magenta
 	label.NotConverged:  color.RGBA{80, 80, 80, 255},    // dark grey
 	label.NoCoupling:    color.RGBA{105, 180, 140, 255}, // green
+	label.UnderResolved: color.RGBA{110, 70, 30, 255},   // dark brown
 	// the three-level (spin-1) phases
 	label.Stripe3:           color.RGBA{120, 30, 80, 255},   // dark magenta
 	label.BrokenAxisymmetry: color.RGBA{60, 120, 200, 255},  // teal blue

@@ -236,44 +236,48 @@ func (r *SequenceResult) WritePNG(w io.Writer) error {
 		return nil
 	}
 	red, blue, green := color.RGBA{200, 40, 40, 255}, color.RGBA{30, 80, 200, 255}, color.RGBA{30, 140, 60, 255}
-	p1 := plot.New()
+	// One quantity per axis: the overlap with the instantaneous ground state,
+	// ⟨σz⟩ and the stripe contrast each get a panel of their own.
+	tEnd := 0.0
+	if n := len(r.Times); n > 0 {
+		tEnd = r.Times[n-1] * ts
+	}
+	timePanel := func(ylabel string) *plot.Plot {
+		p := plot.New()
+		p.X.Label.Text = "time  [" + tu + "]"
+		p.X.Min, p.X.Max = 0, tEnd
+		p.Y.Label.Text = ylabel
+		p.Add(plotter.NewGrid())
+		return p
+	}
+	p1 := timePanel("overlap with ground state")
 	p1.Title.Text = r.Title
-	p1.X.Label.Text = "time  [" + tu + "]"
-	p1.Y.Label.Text = "overlap, ⟨σz⟩, contrast"
 	var ovx, ovy []float64
 	for i, v := range r.Overlap {
 		if !math.IsNaN(v) {
 			ovx, ovy = append(ovx, r.Times[i]), append(ovy, v)
 		}
 	}
-	if err := line(p1, ovx, ovy, "overlap", color.Black, false); err != nil {
+	if err := line(p1, ovx, ovy, "|<ψ|ψ_ground>|²", color.Black, false); err != nil {
 		return err
 	}
-	if err := line(p1, r.Times, r.Sz, "⟨σz⟩", red, true); err != nil {
+	pz := timePanel("<σz>")
+	if err := line(pz, r.Times, r.Sz, "<σz>", red, false); err != nil {
 		return err
 	}
-	if err := line(p1, r.Times, r.Contrast, "contrast", green, false); err != nil {
+	pc := timePanel("stripe contrast")
+	if err := line(pc, r.Times, r.Contrast, "contrast", green, false); err != nil {
 		return err
 	}
-	p1.Legend.Top, p1.Legend.Left = false, false
-	p1.Legend.YOffs = vg.Points(20)
-	p1.Add(plotter.NewGrid())
-	p2 := plot.New()
-	p2.X.Label.Text = "time  [" + tu + "]"
-	p2.Y.Label.Text = "Ω, δ  [E_R at t = 0]"
+	pc.Y.Min = 0
+	p2 := timePanel("Ω, δ  [E_R at t = 0]")
 	if err := line(p2, r.Times, r.Omega, "Ω", blue, false); err != nil {
 		return err
 	}
 	if err := line(p2, r.Times, r.Delta, "δ", red, true); err != nil {
 		return err
 	}
-	p2.Legend.Top = true
-	p2.Legend.Left = true
-	p2.Legend.XOffs = vg.Points(8)
-	p2.Add(plotter.NewGrid())
-	pe := plot.New()
-	pe.X.Label.Text = "time  [" + tu + "]"
-	pe.Y.Label.Text = "E/N − E(0)/N  [E_R]"
+	pe := timePanel("E/N − E(0)/N  [E_R]")
 	if len(r.Energy) > 0 {
 		de := make([]float64, len(r.Energy))
 		for i, e := range r.Energy {
@@ -283,21 +287,18 @@ func (r *SequenceResult) WritePNG(w io.Writer) error {
 			return err
 		}
 	}
-	pe.Legend.Top = true
-	pe.Add(plotter.NewGrid())
-	panels := []*plot.Plot{p1, p2, pe}
-	frac := []float64{0.28, 0.22, 0.2, 0.3}
+	panels := []*plot.Plot{p1, pz, pc, p2, pe}
+	frac := []float64{0.15, 0.13, 0.13, 0.15, 0.15, 0.29}
 	if d := r.Detection; d != nil {
 		p3 := plot.New()
 		xs, xl := 1e6, "x  [µm]"
 		if r.Units == nil {
 			xs, xl = 1, "x  [1/k_R]"
 		}
-		p3.Title.Text = fmt.Sprintf("final state: contrast %.3g in situ, %.3g imaged, SNR(2k₁) %.3g: %s", d.Image.ContrastInSitu, d.Image.ContrastImaged, d.Image.SNR2K1, d.Verdict)
+		p3.Title.Text = fmt.Sprintf("final state: contrast %.3g in situ, %.3g imaged\nSNR(2k₁) %.3g: %s", d.Image.ContrastInSitu, d.Image.ContrastImaged, d.Image.SNR2K1, d.Verdict)
 		p3.X.Label.Text = xl
 		p3.Y.Label.Text = "atoms per pixel (profile scaled to pixels)"
 		pix := d.Image.X[1] - d.Image.X[0]
-		dx := d.X[1] - d.X[0]
 		sc := func(x, y []float64, f float64, name string, c color.Color, dash bool) error {
 			xy := make(plotter.XYs, len(x))
 			for i := range x {
@@ -327,21 +328,18 @@ func (r *SequenceResult) WritePNG(w io.Writer) error {
 				return err
 			}
 		} else {
-			p3.Title.Text += " (shot noise far above the signal: not drawn)"
+			p3.Title.Text += " (shot-noise image not drawn: noise far above the signal)"
 		}
 		if err := sc(d.Image.X, d.Image.Ideal, 1, "imaged (noise-free)", blue, true); err != nil {
 			return err
 		}
-		_ = dx
-		p3.Legend.Top, p3.Legend.Left = true, true
-		p3.Legend.XOffs = vg.Points(8)
 		p3.Y.Min = 0
 		p3.Add(plotter.NewGrid())
 		panels = append(panels, p3)
 	} else {
-		frac = []float64{0.4, 0.3, 0.3}
+		frac = []float64{0.22, 0.18, 0.18, 0.21, 0.21}
 	}
-	return renderPanels(w, 9*vg.Inch, 11*vg.Inch, panels, frac)
+	return renderPanels(w, 9*vg.Inch, 14*vg.Inch, panels, frac)
 }
 
 // WriteGIF animates the snapshots: in 1D the density along x per frame, in

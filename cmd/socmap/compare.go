@@ -53,6 +53,7 @@ func newCompareCmd() *cobra.Command {
 	var inf interFlags
 	var tf trapFlags
 	var lf levelFlags
+	var method string
 	c := &cobra.Command{
 		Use:   "compare",
 		Short: "shaking scheme vs Raman scheme side by side for one atom and density",
@@ -73,14 +74,22 @@ check, with advice when they move an edge by more than 5 % of the window.`,
 		Example: `  socmap compare --plan socmap-demo/plan.toml --density "1e14 cm^-3"`,
 		Args:    cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			p, err := comparison(&sf, &rf, &inf, &tf)
+			p, notes, err := comparison(&sf, &rf, &inf, &tf)
 			if err != nil {
 				return err
 			}
 			if err := lf.check(); err != nil {
 				return err
 			}
-			res, err := phases.Compare(p, nil)
+			var set phases.CompareSettings
+			switch method {
+			case "variational":
+			case "gpe":
+				set.GPE = true
+			default:
+				return usagef("--method %q: allowed variational, gpe", method)
+			}
+			res, err := phases.Compare(p, &set)
 			if errors.Is(err, phases.ErrInput) {
 				return usagef("%v", err)
 			}
@@ -91,7 +100,7 @@ check, with advice when they move an edge by more than 5 % of the window.`,
 			if err != nil {
 				return err
 			}
-			rep := &output.CompareReport{Problem: p, CompareResult: res, Cautions: []string{output.CautionCoils, output.CautionLasers}}
+			rep := &output.CompareReport{Problem: p, CompareResult: res, Notes: notes, Cautions: []string{output.CautionCoils, output.CautionLasers}}
 			if g.json {
 				doc := rep.JSON()
 				if s1 != nil {
@@ -113,12 +122,38 @@ check, with advice when they move an edge by more than 5 % of the window.`,
 	tf.add(fs)
 	lf.add(fs, false)
 	lf.addLengths(fs)
+	fs.StringVar(&method, "method", "variational", "variational, or gpe: also the upper stripe edge from 1D GPE ground states (bisection, each branch in a box of its own momentum; ~10 s per scheme)")
 	return c
 }
 
 // comparison builds the library problem from the flags (the checks here are
 // about the flags; phases.Compare checks the physics).
-func comparison(sf *shakeFlags, rf *ramanFlags, inf *interFlags, tf *trapFlags) (phases.Comparison, error) {
+func comparison(sf *shakeFlags, rf *ramanFlags, inf *interFlags, tf *trapFlags) (phases.Comparison, []string, error) {
+	p, err := comparisonProblem(sf, rf, inf, tf)
+	if err != nil {
+		return p, nil, err
+	}
+	// compare takes its interactions from scattering lengths and a density
+	// in each scheme's own E_R: interaction parameters in E_R cannot be
+	// used. On the command line they are refused; from a plan (shared with
+	// map or ground) they are named in a note.
+	var notes []string
+	for _, q := range []struct {
+		name string
+		q    *quantity
+	}{{"G1", inf.g1}, {"G2", inf.g2}, {"ng-uu", inf.nguu}, {"ng-dd", inf.ngdd}, {"ng-ud", inf.ngud}} {
+		if q.q.text == "" {
+			continue
+		}
+		if !g.fromPlan[q.name] {
+			return p, nil, usagef("--%s: compare takes its interactions from the atom's scattering lengths (or --a-uu/--a-dd/--a-ud) and a density (--density, or --atoms with --trap), in each scheme's own E_R; interaction parameters in E_R are not used", q.name)
+		}
+		notes = append(notes, fmt.Sprintf("plan key %s = %s not used: compare takes its interactions from the scattering lengths and the density", q.name, q.q.text))
+	}
+	return p, notes, nil
+}
+
+func comparisonProblem(sf *shakeFlags, rf *ramanFlags, inf *interFlags, tf *trapFlags) (phases.Comparison, error) {
 	var p phases.Comparison
 	var err error
 	if p.Shake, err = sf.build(); err != nil {

@@ -37,6 +37,7 @@ type mapOpts struct {
 	mf             modelFlags
 	inf            interFlags
 	xs, ys, method string
+	holdDelta      string
 	outs           []string
 	observables    []string // --png-observable
 	workers        int
@@ -46,6 +47,8 @@ type mapOpts struct {
 	tasks, cpus    int
 	sbatchOptions  []string
 	// GPE method
+	tf                   trapFlags
+	gpeDims              int
 	gpePoints, gpeStarts int
 	gpeLength, gpeTol    *quantity
 	// --levels (spin1.go)
@@ -58,11 +61,14 @@ func (o *mapOpts) addFlags(fs *pflag.FlagSet) {
 	o.mf.add(fs)
 	o.inf.add(fs)
 	o.lf.add(fs, true)
-	fs.StringVar(&o.xs, "x", "", "x axis NAME=LO:HI:N")
-	fs.StringVar(&o.ys, "y", "", "y axis NAME=LO:HI:N (optional)")
+	fs.StringVar(&o.xs, "x", "", "x axis NAME=LO:HI:N, or NAME=LO:HI:N:log (evenly spaced in log)")
+	fs.StringVar(&o.ys, "y", "", "y axis NAME=LO:HI:N or NAME=LO:HI:N:log (optional)")
+	fs.StringVar(&o.holdDelta, "hold-delta", "", "hold the detuning at every point: balance (δ = δ_b = (n g↓↓ − n g↑↑)/2) or compensate (δ/2π as at the base setting: the RF follows the micromotion shift); default: the scheme's detuning")
 	fs.StringVar(&o.method, "method", "variational", "method: variational (two-plane-wave mean-field theory) or gpe (1D GPE ground state per point)")
-	fs.IntVar(&o.gpePoints, "points", 0, "gpe: grid points along x (0: a power of two ≥ 128 with k_max ≥ 4 k_R)")
+	fs.IntVar(&o.gpePoints, "points", 0, "gpe: grid points along x (0: per point, the automatic-grid rule: k_max = π/dx ≥ 4 k_R; a given count is kept and the box shortened to fewer wavelengths; points that cannot be resolved are labelled under-resolved)")
 	o.gpeLength = qflag(fs, "length-kr", KindNumber, "", "gpe: box length in 1/k_R (default: per point, commensurate with the variational k₁)")
+	fs.IntVar(&o.gpeDims, "dims", 1, "gpe: dimension of the grid, 1 or 2 (a uniform box, or the trapped cloud with the other axes frozen out)")
+	o.tf.add(fs)
 	fs.IntVar(&o.gpeStarts, "starts", 0, "gpe: random starts per point besides the variational optimum and the competing phase")
 	o.gpeTol = qflag(fs, "tol", KindNumber, "1e-8", "gpe: residual to converge to, in E_R")
 	fs.IntVar(&o.workers, "workers", 0, "parallel workers (0 = all cores, or SLURM_CPUS_PER_TASK inside a Slurm job)")
@@ -87,7 +93,12 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 	if o.lf.levels == 3 {
 		return o.spin1Problem()
 	}
-	p := &phases.MapProblem{Method: phases.Method(o.method)}
+	switch o.holdDelta {
+	case "", "balance", "compensate":
+	default:
+		return nil, usagef("--hold-delta %q: allowed: balance, compensate", o.holdDelta)
+	}
+	p := &phases.MapProblem{Method: phases.Method(o.method), HoldDelta: phases.HoldMode(o.holdDelta)}
 	if p.Method == phases.MethodGPE {
 		if o.gpePoints != 0 && (o.gpePoints < 16 || o.gpePoints > 8192) {
 			return nil, usagef("--points %d: allowed 16 … 8192", o.gpePoints)
@@ -101,14 +112,24 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 		if !(o.gpeTol.v > 0) {
 			return nil, usagef("--tol %q: must be positive", o.gpeTol.text)
 		}
+		if o.gpeDims != 1 && o.gpeDims != 2 {
+			return nil, usagef("--dims %d: allowed 1, 2", o.gpeDims)
+		}
 		p.GPE = phases.GPESettings{Points: o.gpePoints, Length: o.gpeLength.v, RandomStarts: o.gpeStarts,
-			Solver: gpe.Settings{Tol: o.gpeTol.v}}
+			Solver: gpe.Settings{Tol: o.gpeTol.v}, Dims: o.gpeDims}
+	} else if o.gpeDims != 1 {
+		return nil, usagef("--dims %d: a grid dimension is for --method gpe", o.gpeDims)
 	}
 	var err error
 	if p.Lab, err = o.mf.lab(); err != nil {
 		return nil, err
 	}
-	if err := o.inf.apply(&p.Lab, &o.mf.shake.atomFlags); err != nil {
+	trapped := o.tf.trap != "" || o.tf.atoms.text != "" || strings.HasPrefix(o.xs, "atoms=") || strings.HasPrefix(o.ys, "atoms=")
+	if trapped {
+		if err := o.trapLab(p); err != nil {
+			return nil, err
+		}
+	} else if err := o.inf.apply(&p.Lab, &o.mf.shake.atomFlags); err != nil {
 		return nil, err
 	}
 	if o.xs == "" {
@@ -131,6 +152,45 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 	}
 	o.check = spin1MapCheck(p)
 	return p, nil
+}
+
+// trapLab sets up a trapped-cloud map: --trap (required), --atoms (unless
+// an axis is atoms), interactions from the atom's scattering lengths.
+func (o *mapOpts) trapLab(p *phases.MapProblem) error {
+	if p.Method != phases.MethodGPE {
+		return usagef("a trapped cloud (--trap, --atoms or the atoms axis) needs --method gpe")
+	}
+	if p.Lab.Scheme == nil || p.Lab.Scheme.Atom() == nil {
+		return usagef("a trapped cloud needs a scheme (--scheme shake|raman) to set k_R and E_R")
+	}
+	if o.tf.trap == "" {
+		return usagef("a trapped cloud needs --trap \"f_x,f_y,f_z\" (Hz)")
+	}
+	fr, err := o.tf.frequencies()
+	if err != nil {
+		return err
+	}
+	if o.tf.atoms.text != "" {
+		if !(o.tf.atoms.v >= 1) {
+			return usagef("--atoms %q: must be ≥ 1", o.tf.atoms.text)
+		}
+		p.Lab.Atoms = o.tf.atoms.v
+	}
+	for _, q := range []struct {
+		name string
+		q    *quantity
+	}{{"G1", o.inf.g1}, {"G2", o.inf.g2}, {"ng-uu", o.inf.nguu}, {"ng-dd", o.inf.ngdd}, {"ng-ud", o.inf.ngud}, {"density", o.inf.density}} {
+		if q.q.text != "" && !g.fromPlan[q.name] {
+			return usagef("--%s: a trapped cloud takes its interactions from the atom (or --a-uu/--a-dd/--a-ud) and its density from --atoms and --trap", q.name)
+		}
+	}
+	c, err := o.inf.couplings(&o.mf.shake.atomFlags)
+	if err != nil {
+		return err
+	}
+	p.Lab.HaveSI, p.Lab.Couplings = true, c
+	p.Trap = &phases.MapTrap{FreqHz: fr}
+	return nil
 }
 
 // shardSetting returns the shard of this run: from --shard I/N, else from
@@ -176,9 +236,13 @@ func newMapCmd() *cobra.Command {
 		Long: `Fills a one- or two-axis map with the mean-field phase (single-minimum,
 plane-wave, stripe), energy, stripe k1, contrast, ⟨σz⟩ and the energy gap to
 the competing phase. Axes: omega, delta (E_R), G1, G2 (E_R), density, ratio
-(g↑↓/g), and the schemes' lab settings gradient, shake, phase, bias, rabi
-(shake) or rabi, wavelength, angle (raman), which go through the whole
-scheme → effective-model chain at every point.
+(g↑↓/g), and the schemes' lab settings gradient, shake, phase, bias, rabi,
+rf-detuning (shake) or rabi, wavelength, angle (raman), which go through
+the whole scheme → effective-model chain at every point. NAME=LO:HI:N:log
+spaces the points evenly in log (density over decades). While sweeping lab
+settings, --hold-delta balance holds δ at the balancing value δ_b =
+(n g↓↓ − n g↑↑)/2 at every point, --hold-delta compensate holds δ/2π at its
+value at the base setting (the RF detuning follows the micromotion shift).
 
 With --out MAP.h5 the map is written point by point into MAP.h5.partial,
 which becomes MAP.h5 when every point is done. If the run is interrupted
