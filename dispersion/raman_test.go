@@ -351,3 +351,29 @@ func TestRamanPairRefused(t *testing.T) {
 		}
 	}
 }
+
+// The RF scheme refuses pairs that one RF photon does not couple: |Δm| ≠ 1
+// inside a manifold, |Δm| > 1 across them; Δm = 0 across them is a π
+// microwave transition, accepted with WarnMicrowave.
+func TestRFPairRefused(t *testing.T) {
+	sp := rb87(t)
+	base := Shake{Species: sp, Bias: 5 * Gauss, Gradient: 0.4, ShakeHz: 5e3, RabiHz: 100}
+	for _, pr := range []struct {
+		up, down Sublevel
+		ok       bool
+	}{{Sublevel{1, 1}, Sublevel{1, -1}, false}, {Sublevel{2, -2}, Sublevel{2, 1}, false}, {Sublevel{1, -1}, Sublevel{2, 1}, false},
+		{Sublevel{1, 0}, Sublevel{1, -1}, true}, {Sublevel{1, 0}, Sublevel{2, 0}, true}, {Sublevel{1, 1}, Sublevel{2, 2}, true}} {
+		p := base
+		p.Up, p.Down = pr.up, pr.down
+		r, err := p.Evaluate()
+		if pr.ok != (err == nil) {
+			t.Errorf("%v, %v: error %v, want ok = %v", pr.up, pr.down, err, pr.ok)
+		}
+		if err != nil && (!errors.Is(err, ErrBadInput) || !strings.Contains(err.Error(), "Δm")) {
+			t.Errorf("%v, %v: %v", pr.up, pr.down, err)
+		}
+		if err == nil && pr.up.F != pr.down.F && !HasWarning(r.Warnings, WarnMicrowave) {
+			t.Errorf("%v, %v: no microwave warning", pr.up, pr.down)
+		}
+	}
+}
