@@ -256,8 +256,8 @@ func ramanTable(p dispersion.Raman, r dispersion.RamanResult, info dispersion.Ba
 	t.Text("lower-band minima: " + minimaText(info))
 	if p.HasPair() {
 		t.Section("Two-photon transition (Breit–Rabi at B0)")
-		t.Row("beam frequency difference at resonance |E↓ − E↑|/h", N(r.TwoPhotonHz/1e6, 7), "MHz")
-		t.RowNote("… for the planned δ", N(r.BeamDifferenceHz/1e6, 7), "MHz", "(δ/2π = sgn(f₀)(Δf − |f₀|))")
+		t.Row("beam frequency difference at resonance |f₀| = |E↓ − E↑|/h", N(r.TwoPhotonHz/1e6, 9), "MHz")
+		t.RowNote("… for the planned δ", N(r.BeamDifferenceHz/1e6, 9), "MHz", fmt.Sprintf("(|f₀| %+.4g Hz; δ/2π = sgn(f₀)(Δf − |f₀|))", r.BeamDifferenceHz-r.TwoPhotonHz))
 		if !math.IsNaN(r.QuadZeemanHz) {
 			t.Row("quadratic Zeeman q/h", N(r.QuadZeemanHz, 4), "Hz")
 		}
