@@ -106,7 +106,7 @@ func (s *shakeFlags) build() (dispersion.Shake, error) {
 		return p, err
 	}
 	if dispersion.RFPairAllowed(up, down) != nil {
-		return p, usagef("--up %q, --down %q: |Δm| = %d; the RF scheme needs |Δm| = 1 inside one manifold (or |Δm| ≤ 1 between F = %d and F = %d, a microwave transition)",
+		return p, usagef("--up %q, --down %q: |Δm| = %d; the RF scheme needs two adjacent sublevels (|Δm| = 1) of one manifold, or |Δm| ≤ 1 between F = %d and F = %d (a microwave transition)",
 			s.up, s.down, absInt(up.M-down.M), int(sp.I-0.5), int(sp.I+0.5))
 	}
 	for _, r := range []struct {
