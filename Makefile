@@ -40,6 +40,7 @@ refs: deps
 	$(PY) testdata/ref_spin1.py
 	$(PY) testdata/ref_spin1_gpe.py
 	$(PY) testdata/ref_gpe_edge.py
+	$(PY) testdata/ref_raman.py
 
 # Outside readers of our HDF5 files: h5py and h5dump on a fixture of every
 # type the layer writes, and on the result files of a demo run.
