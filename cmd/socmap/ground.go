@@ -85,7 +85,18 @@ reduced 1D/2D couplings for tight transverse confinement).`,
 			if err != nil {
 				return err
 			}
-			pr, err := phases.Ground(p, &phases.GroundSettings{RandomStarts: starts, Solver: gpe.Settings{Tol: tol.v}})
+			set := &phases.GroundSettings{RandomStarts: starts, Solver: gpe.Settings{Tol: tol.v}}
+			su, err := p.Setup(set.Variational)
+			if errors.Is(err, phases.ErrInput) {
+				return usagef("%v", err)
+			}
+			if err != nil {
+				return err
+			}
+			if err := checkEstimate(cmd, su.Estimate(set), h5Out(outs)); err != nil {
+				return err
+			}
+			pr, err := su.Solve(set)
 			if errors.Is(err, phases.ErrInput) {
 				return usagef("%v", err)
 			}
@@ -119,6 +130,7 @@ reduced 1D/2D couplings for tight transverse confinement).`,
 	c.Flags().IntVar(&starts, "starts", 1, "random starts (seeds 1 … N) besides the plane waves, the stripe and the variational optimum")
 	tol = qflag(c.Flags(), "tol", KindNumber, "1e-8", "residual ‖Hψ − μψ‖ to converge to, in E_R")
 	c.Flags().StringSliceVar(&outs, "out", nil, "write FILE.h5 (state, observables, history), FILE.png (densities, momentum distribution), FILE.json (repeatable)")
+	addSizeCheckFlag(c.Flags())
 	return c
 }
 

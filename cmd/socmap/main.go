@@ -31,6 +31,7 @@ func usagef(format string, a ...any) error { return usageError{fmt.Sprintf(forma
 // globals are the persistent flags shared by every command.
 type globals struct {
 	json, quiet, force bool
+	noSizeCheck        bool // --no-size-check (estimate.go)
 	plan               string
 	planText           string          // the plan file as read, for result files
 	fromPlan           map[string]bool // flags whose value came from the plan file
@@ -50,7 +51,10 @@ states. Quantities take units as text: "40 G/cm", "3 kHz", "90 deg", "790 nm".`,
 		SilenceUsage:  true,
 		SilenceErrors: true,
 		PersistentPreRunE: func(cmd *cobra.Command, args []string) error {
-			return applyPlan(cmd)
+			if err := applyPlan(cmd); err != nil {
+				return err
+			}
+			return checkEmptyOuts(cmd)
 		},
 	}
 	pf := root.PersistentFlags()

@@ -68,6 +68,7 @@ func (o *mapOpts) addFlags(fs *pflag.FlagSet) {
 	fs.IntVar(&o.tasks, "tasks", 4, "--sbatch: number of array tasks (shards)")
 	fs.IntVar(&o.cpus, "cpus-per-task", 1, "--sbatch: CPUs per array task (the map's --workers)")
 	fs.StringArrayVar(&o.sbatchOptions, "sbatch-option", nil, `--sbatch: extra "#SBATCH" option for both jobs, e.g. "--partition=short" (repeatable)`)
+	addSizeCheckFlag(fs)
 }
 
 // problem checks the settings and builds the map problem.
@@ -248,7 +249,17 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 	if v, err := strconv.Atoi(os.Getenv("SLURM_CPUS_PER_TASK")); workers == 0 && err == nil && v > 0 {
 		workers = v // inside a Slurm job: the CPUs it was given
 	}
-	rs := &phases.RunSettings{Workers: workers, Shard: shard, Shards: max(shards, 1), Progress: progressBar(cmd, "map")}
+	rs := &phases.RunSettings{Workers: workers, Shard: shard, Shards: max(shards, 1)}
+	// The estimate (and a refusal) before any file is made; a map that
+	// resumes its partial file needs no new disk.
+	diskOut := h5out
+	if _, err := os.Stat(output.PartialName(h5out)); h5out != "" && err == nil && !g.force {
+		diskOut = ""
+	}
+	if err := checkEstimate(cmd, p.Estimate(rs), diskOut); err != nil {
+		return err
+	}
+	rs.Progress = progressBar(cmd, "map")
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
 
@@ -262,8 +273,11 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 			return fmt.Errorf("map: %w", err)
 		}
 	} else {
-		sink, err := o.openSink(cmd, h5out, spec)
+		sink, err := o.openSink(ctx, cmd, h5out, spec)
 		if err != nil {
+			if ctx.Err() != nil {
+				return fmt.Errorf("map interrupted while laying out %s: nothing written", output.PartialName(h5out))
+			}
 			return err
 		}
 		r.Run, err = p.Run(ctx, sink, rs)
@@ -302,7 +316,7 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 }
 
 // openSink creates the map file, or resumes its partial file (unless --force).
-func (o *mapOpts) openSink(cmd *cobra.Command, final string, spec output.MapSpec) (*output.MapFile, error) {
+func (o *mapOpts) openSink(ctx context.Context, cmd *cobra.Command, final string, spec output.MapSpec) (*output.MapFile, error) {
 	partial := output.PartialName(final)
 	var sink *output.MapFile
 	var err error
@@ -322,7 +336,7 @@ func (o *mapOpts) openSink(cmd *cobra.Command, final string, spec output.MapSpec
 			fmt.Fprintf(cmd.ErrOrStderr(), "map: resuming %s: %d of %d points done\n", partial, done, total)
 		}
 	} else {
-		sink, err = output.CreateMapFile(final, g.force, runInfo(cmd, "map"), spec)
+		sink, err = output.CreateMapFileContext(ctx, final, g.force, runInfo(cmd, "map"), spec)
 		if err != nil {
 			return nil, err
 		}

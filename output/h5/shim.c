@@ -24,16 +24,30 @@ struct walk {
 	char last[256];
 	int n;
 	int locked;
+	int write;
 };
+
+// clause copies the first clause of an HDF5 error description (up to the
+// first ':'), which names what failed; the rest holds call details (time,
+// file descriptor, buffer addresses) that mean nothing to a user.
+static void clause(char *dst, size_t n, const char *d) {
+	size_t k = 0;
+	while (d[k] && d[k] != ':' && k + 1 < n) {
+		dst[k] = d[k];
+		k++;
+	}
+	dst[k] = 0;
+}
 
 static herr_t walk_cb(unsigned n, const H5E_error2_t *e, void *data) {
 	struct walk *w = data;
 	const char *d = (e->desc && e->desc[0]) ? e->desc : (e->func_name ? e->func_name : "?");
 	if (w->n == 0) {
-		snprintf(w->first, sizeof w->first, "%s", d);
+		clause(w->first, sizeof w->first, d);
 	}
-	snprintf(w->last, sizeof w->last, "%s", d);
+	clause(w->last, sizeof w->last, d);
 	if (e->min_num == H5E_CANTLOCKFILE) w->locked = 1;
+	if (e->maj_num == H5E_IO && (e->min_num == H5E_WRITEERROR || e->min_num == H5E_SEEKERROR || e->min_num == H5E_TRUNCATED)) w->write = 1;
 	w->n++;
 	return 0;
 }
@@ -54,7 +68,7 @@ int sm_errmsg(char *buf, size_t n) {
 	for (char *p = buf; *p; p++) {
 		if (*p == '\n' || *p == '\r') *p = ' ';
 	}
-	return w.locked;
+	return w.locked | (w.write << 1);
 }
 
 // fapl is the file-access property list of every file: the strong close

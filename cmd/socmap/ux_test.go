@@ -1,0 +1,205 @@
+package main
+
+import (
+	"bytes"
+	"errors"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"sync"
+	"syscall"
+	"testing"
+	"time"
+
+	"socmap/output"
+)
+
+// The binary the signal tests run, built once per test process.
+var (
+	binOnce sync.Once
+	binPath string
+	binErr  error
+	binDir  string
+)
+
+func TestMain(m *testing.M) {
+	code := m.Run()
+	if binDir != "" {
+		os.RemoveAll(binDir)
+	}
+	os.Exit(code)
+}
+
+// testBinary builds socmap once for the tests that need a real process
+// (signals, kills).
+func testBinary(t *testing.T) string {
+	t.Helper()
+	binOnce.Do(func() {
+		binDir, binErr = os.MkdirTemp("", "socmap-test-bin-")
+		if binErr != nil {
+			return
+		}
+		binPath = filepath.Join(binDir, "socmap")
+		if out, err := exec.Command("go", "build", "-o", binPath, ".").CombinedOutput(); err != nil {
+			binErr = errors.New("go build: " + err.Error() + "\n" + string(out))
+		}
+	})
+	if binErr != nil {
+		t.Fatal(binErr)
+	}
+	return binPath
+}
+
+// oneLine checks the one-line, exit-2 refusal of a command line that must
+// leave no file in dir.
+func oneLine(t *testing.T, name string, code int, stderr, want, dir string) {
+	t.Helper()
+	if code != 2 {
+		t.Errorf("%s: exit %d, want 2 (stderr %q)", name, code, stderr)
+	}
+	if lines := strings.Split(strings.TrimSpace(stderr), "\n"); len(lines) != 1 || !strings.Contains(stderr, want) {
+		t.Errorf("%s: stderr %q, want one line with %q", name, stderr, want)
+	}
+	if dir != "" {
+		if left, _ := os.ReadDir(dir); len(left) > 0 {
+			t.Errorf("%s: files left in %s: %v", name, dir, left)
+		}
+	}
+}
+
+// TestEstimateRefusesHugeRuns: a 10⁵ × 10⁵ map and a 4096³ ground state
+// are refused up front, in under a second, with one line naming the
+// estimate and the limit; --no-size-check lifts the refusal (checked on a
+// map that then fails for another reason, so nothing big runs).
+func TestEstimateRefusesHugeRuns(t *testing.T) {
+	if _, ok := output.FreeMemory(); !ok {
+		t.Skip("no /proc/meminfo")
+	}
+	dir := t.TempDir()
+	cases := []struct {
+		name string
+		args []string
+	}{
+		{"map 1e5 × 1e5", []string{"map", "--omega-er", "1", "--G1", "1", "--G2", "0.1", "--x", "omega=0:1:100000", "--y", "G2=0:0.5:100000", "--out", filepath.Join(dir, "m.h5")}},
+		{"ground 4096³", []string{"ground", "--omega-er", "1", "--G1", "1", "--G2", "0.1", "--dims", "3", "--points", "4096"}},
+	}
+	for _, c := range cases {
+		t0 := time.Now()
+		code, _, stderr := runArgs(t, c.args...)
+		el := time.Since(t0)
+		oneLine(t, c.name, code, stderr, "of memory", dir)
+		if !strings.Contains(stderr, "are free (MemAvailable)") || !strings.Contains(stderr, "--no-size-check") {
+			t.Errorf("%s: %q does not name the limit and the override", c.name, stderr)
+		}
+		// A budget for the refusal itself; generous for a loaded machine.
+		if el > time.Second {
+			t.Errorf("%s: refused after %s, want < 1 s", c.name, el)
+		}
+	}
+}
+
+// TestEstimatePrintedWithPlan: the estimate goes to stderr before the
+// work, and not with --quiet.
+func TestEstimatePrintedWithPlan(t *testing.T) {
+	args := []string{"map", "--omega-er", "1", "--G1", "1", "--G2", "0.1", "--x", "omega=0:1:5"}
+	code, _, stderr := runArgs(t, args...)
+	if code != 0 || !strings.Contains(stderr, "map: 5 map points, variational") || !strings.Contains(stderr, "estimate: memory ≈") {
+		t.Errorf("exit %d, stderr %q", code, stderr)
+	}
+	code, _, stderr = runArgs(t, append(args, "--quiet")...)
+	if code != 0 || stderr != "" {
+		t.Errorf("--quiet: exit %d, stderr %q", code, stderr)
+	}
+}
+
+// TestMapAllocationSignal: SIGTERM while a large map file is being laid
+// out (its initial values written) ends the process within a second and
+// leaves either nothing or a complete, resumable partial file, never a
+// damaged one.
+func TestMapAllocationSignal(t *testing.T) {
+	if testing.Short() {
+		t.Skip("runs the binary on a 9·10⁶-point map layout")
+	}
+	clearSlurmEnv(t)
+	bin := testBinary(t)
+	dir := t.TempDir()
+	final := filepath.Join(dir, "big.h5")
+	c := exec.Command(bin, "map", "--omega-er", "1", "--G1", "1", "--G2", "0.1", "--x", "omega=0:1:3000", "--y", "G2=0:0.5:3000", "--out", final, "--quiet")
+	var stderr bytes.Buffer
+	c.Stderr = &stderr
+	if err := c.Start(); err != nil {
+		t.Fatal(err)
+	}
+	exited := make(chan error, 1)
+	go func() { exited <- c.Wait() }()
+	// Wait for the temporary layout file (the allocation has begun).
+	deadline := time.Now().Add(60 * time.Second)
+	for {
+		if m, _ := filepath.Glob(filepath.Join(dir, ".big.h5.partial.*.tmp")); len(m) > 0 {
+			break
+		}
+		select {
+		case err := <-exited:
+			t.Fatalf("ended before the layout began: %v %q", err, stderr.String())
+		case <-time.After(2 * time.Millisecond):
+		}
+		if time.Now().After(deadline) {
+			c.Process.Kill()
+			t.Fatal("no layout file within 60 s")
+		}
+	}
+	t0 := time.Now()
+	if err := c.Process.Signal(syscall.SIGTERM); err != nil {
+		t.Fatal(err)
+	}
+	var err error
+	select {
+	case err = <-exited:
+	case <-time.After(10 * time.Second):
+		c.Process.Kill()
+		t.Fatal("still running 10 s after SIGTERM")
+	}
+	el := time.Since(t0)
+	t.Logf("ended %s after SIGTERM: %v, %q", el, err, stderr.String())
+	if el > time.Second {
+		t.Errorf("ended %s after SIGTERM, want < 1 s", el)
+	}
+	var ee *exec.ExitError
+	if !errors.As(err, &ee) || ee.ExitCode() != 1 || strings.Count(strings.TrimSpace(stderr.String()), "\n") != 0 {
+		t.Errorf("exit %v, stderr %q: want status 1 and one line", err, stderr.String())
+	}
+	if m, _ := filepath.Glob(filepath.Join(dir, ".*tmp")); len(m) > 0 {
+		t.Errorf("temporary files left: %v", m)
+	}
+	if _, err := os.Stat(final); err == nil {
+		t.Error("final file exists")
+	}
+	partial := output.PartialName(final)
+	if _, err := os.Stat(partial); err == nil {
+		// The signal came after the layout: the partial file must be whole.
+		if _, _, err := output.ReadMap(partial); err != nil {
+			t.Errorf("partial file left after SIGTERM is not readable: %v", err)
+		}
+		if !strings.Contains(stderr.String(), "resume") {
+			t.Errorf("partial file kept without a hint to resume: %q", stderr.String())
+		}
+	} else if !strings.Contains(stderr.String(), "nothing written") {
+		t.Errorf("no file and no word about it: %q", stderr.String())
+	}
+}
+
+// TestEmptyOutRefused: `--out ""` is refused by every command that takes
+// --out, instead of being taken as no output.
+func TestEmptyOutRefused(t *testing.T) {
+	dir := t.TempDir()
+	for _, args := range [][]string{
+		{"map", "--omega-er", "1", "--G1", "1", "--G2", "0.1", "--x", "omega=0:1:3"},
+		{"ground", "--omega-er", "1", "--G1", "1", "--G2", "0.1", "--points", "64"},
+		{"bands", "--omega-er", "1"},
+		{"scheme", "shake", "--atom", "Na23", "--up", "1,0", "--down", "1,1", "--bias", "11.4 G", "--gradient", "100 G/cm", "--shake", "5 kHz"},
+	} {
+		code, _, stderr := runArgs(t, append(args, "--out", "")...)
+		oneLine(t, args[0]+` --out ""`, code, stderr, `--out ""`, dir)
+	}
+}
