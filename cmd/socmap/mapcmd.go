@@ -17,6 +17,7 @@ import (
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
+	"socmap/dispersion"
 	"socmap/gpe"
 	"socmap/output"
 	"socmap/phases"
@@ -94,12 +95,6 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 			Solver: gpe.Settings{Tol: o.gpeTol.v}}
 	}
 	var err error
-	if p.Lab, err = o.mf.lab(); err != nil {
-		return nil, err
-	}
-	if err := o.inf.apply(&p.Lab, &o.mf.shake.atomFlags); err != nil {
-		return nil, err
-	}
 	if o.xs == "" {
 		return nil, usagef("--x is required (NAME=LO:HI:N)")
 	}
@@ -114,11 +109,34 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 			return nil, usagef("--y %q: same axis as --x", o.ys)
 		}
 	}
+	if p.Lab, err = o.lab(p.X.Name, p.Y.Name); err != nil {
+		return nil, err
+	}
+	if err := o.inf.apply(&p.Lab, &o.mf.shake.atomFlags); err != nil {
+		return nil, err
+	}
 	// The chain is validated at the corners before the run.
 	if err := p.Check(); err != nil {
 		return nil, usagef("map settings: %v", err)
 	}
 	return p, nil
+}
+
+// lab is the scheme part of the map's lab setting (modelFlags.lab), with
+// one rule of its own: without --scheme and --omega-er, an axis over omega
+// implies the direct model (the axis gives Ω at every point; --delta-er
+// the detuning), and an axis over delta asks for --omega-er only.
+func (o *mapOpts) lab(x, y string) (phases.Lab, error) {
+	if o.mf.scheme != "" || o.mf.omegaER.text != "" {
+		return o.mf.lab()
+	}
+	switch {
+	case x == phases.AxisCoupling || y == phases.AxisCoupling:
+		return phases.Lab{Scheme: dispersion.Direct{DetuningOverER: o.mf.deltaER.v}}, nil
+	case x == phases.AxisDetuning || y == phases.AxisDetuning:
+		return phases.Lab{}, usagef("--omega-er is required: a delta axis implies the direct model, which needs the coupling ħΩ/E_R (or give --scheme shake|raman)")
+	}
+	return o.mf.lab()
 }
 
 // shardSetting returns the shard of this run: from --shard I/N, else from
