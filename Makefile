@@ -26,7 +26,7 @@ lint: vet
 # The race detector on the packages that run goroutines (sweep workers,
 # solver threads, FFTW plan cache, the HDF5 lock, verify workers).
 race: deps
-	$(GO) test -race -short -count=1 ./phases/... ./gpe/... ./output/... ./floquet/...
+	$(GO) test -race -short -count=1 ./phases/... ./gpe/... ./output/...
 
 # Reference values from outside libraries (numpy/scipy), regenerated or
 # recomputed and compared on every run.
@@ -49,7 +49,7 @@ h5check: build
 	for f in $$tmp/demo/*.h5; do h5dump -H $$f > /dev/null || exit 1; done && \
 	echo "h5check: h5py and h5dump read every file"
 
-test: deps vet refs
+test: deps lint refs
 	$(GO) test -count=1 ./...
 	CGO_ENABLED=0 $(GO) test -count=1 ./gpe/...
 	$(GO) test -count=1 -tags purego ./gpe/...

@@ -22,10 +22,10 @@ type RamanResult struct {
 	// positive = blue of the line) and that line's name.
 	NearestLine    string
 	LineDetuningHz float64
-	ScatterRate    float64 // photon scattering rate estimate, 1/s
-	ScatterPerER   float64 // ħΓ_sc/E_R: scattering events per ħ/E_R
-	HeatingER      float64 // heating rate estimate, E_R per second (2E_R recoil per scattered photon)
-	Warnings       []string
+	ScatterRate    float64   // photon scattering rate estimate, 1/s
+	ScatterPerER   float64   // ħΓ_sc/E_R: scattering events per ħ/E_R
+	HeatingER      float64   // heating rate estimate, E_R per second (2E_R recoil per scattered photon)
+	Warnings       []Warning // codes Warn… (WarnNearResonant)
 }
 
 // Evaluate computes k_R = (2π/λ) sin(α/2), E_R = ħ²k_R²/2m, Ω/E_R, δ/E_R, and
@@ -71,7 +71,7 @@ func (p Raman) Evaluate() (RamanResult, error) {
 		r.ScatterPerER = Hbar * r.ScatterRate / eR
 		r.HeatingER = 2 * r.ScatterRate
 		if math.Abs(best) < 100*gamma {
-			r.Warnings = append(r.Warnings, fmt.Sprintf("the beams are only %.3g GHz from the %s line: near-resonant light, strong heating", best/1e9, r.NearestLine))
+			r.Warnings = append(r.Warnings, Warning{Code: WarnNearResonant, Text: fmt.Sprintf("the beams are only %.3g GHz from the %s line: near-resonant light, strong heating", best/1e9, r.NearestLine)})
 		}
 	}
 	return r, nil

@@ -86,7 +86,7 @@ func (p Shake) Settings() []Setting {
 		{"atom", p.Species.Name}, {"up", sublevelText(p.Up)}, {"down", sublevelText(p.Down)},
 		{"bias", FormatSI(p.Bias, KindField)}, {"gradient", FormatSI(p.Gradient, KindGradient)},
 		{"shake", FormatSI(p.ShakeHz, KindFrequency)}, {"waveform", wf},
-		{"phase", FormatSI(p.Phase, KindAngle)}, {"pulse", p.Pulse.String()},
+		{"phase", FormatSI(p.PulsePhase, KindAngle)}, {"pulse", p.Pulse.String()},
 	}
 	if p.Pulse == PulseRect || p.Pulse == PulseGauss {
 		s = append(s, Setting{"pulse-width", FormatSI(p.PulseWidth, KindTime)})

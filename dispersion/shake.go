@@ -71,7 +71,7 @@ type Shake struct {
 	Gradient   float64    // gradient amplitude b′, T/m
 	ShakeHz    float64    // shaking frequency ω/2π, Hz (> 0)
 	Waveform   Waveform   // zero-mean waveform s(ωt); nil means Sine
-	Phase      float64    // pulse centre phase θ, rad
+	PulsePhase float64    // pulse centre phase θ in the shaking cycle, rad (flag --phase)
 	Pulse      PulseShape // pulse envelope
 	PulseWidth float64    // s; rectangular: full duration; gaussian: FWHM; ignored for delta/continuous
 	RabiHz     float64    // cycle-averaged Rabi frequency Ω/2π, Hz (≥ 0)
@@ -84,29 +84,29 @@ type Shake struct {
 type ShakeResult struct {
 	Model Model // effective model (k_R, E_R, Ω/E_R, δ/E_R)
 
-	MomentUp, MomentDown float64 // μ = −∂E/∂B at B0, J/T
-	DeltaForce           float64 // ΔF = (μ↑ − μ↓) b′, N
-	RFHz                 float64 // |E↓ − E↑|/h at B0, Hz
-	KtDelta              float64 // k_t for a delta pulse at θ, 1/m
-	KtMean               float64 // k_t averaged over the pulse envelope, 1/m
-	KtSpread             float64 // rms spread of k_t over the envelope, 1/m
-	KtMax                float64 // largest |k_t| over all pulse phases (delta pulses), 1/m
-	KRF                  float64 // RF photon wavenumber 2π f_RF/c, 1/m
-	Enhancement          float64 // |k_t|/k_RF
-	DopplerHzPerMmS      float64 // k_t v/2π per mm/s: shift of the transition, i.e. of sgn(f0)(f_RF − |f0|), Hz/(mm/s)
-	RFShiftHzPerMmS      float64 // shift of the RF resonance f_RF itself per mm/s: sgn(f0)·k_t/2π, Hz/(mm/s)
-	PulseArea            float64 // ∫Ω(t)dt per pulse, rad
-	PeakRabiHz           float64 // peak Rabi frequency of one pulse, Hz (= RabiHz for continuous)
-	MicroKinUpHz         float64 // ⟨A↑²⟩/2m /h, Hz
-	MicroKinDownHz       float64 // ⟨A↓²⟩/2m /h, Hz
-	MicroShiftHz         float64 // (⟨A↑²⟩ − ⟨A↓²⟩)/2m /h, part of δ, Hz
-	MicroAmpUp           float64 // position micromotion amplitude of ↑, m
-	MicroAmpDown         float64 // position micromotion amplitude of ↓, m
-	DeltaHz              float64 // effective δ/2π including the micromotion shift, Hz
-	ZeroDeltaDetuningHz  float64 // the RF detuning f_RF − |f_0| that makes δ = 0, Hz
-	QuadZeemanHz         float64 // q/h of the manifold of Up (if F shared and |m|≤1 exists), Hz
-	NeighbourHz          float64 // detuning of the nearest other RF transition, Hz (NaN if none)
-	Warnings             []string
+	MomentUp, MomentDown float64   // μ = −∂E/∂B at B0, J/T
+	DeltaForce           float64   // ΔF = (μ↑ − μ↓) b′, N
+	RFHz                 float64   // |E↓ − E↑|/h at B0, Hz
+	KtDelta              float64   // k_t for a delta pulse at θ, 1/m
+	KtMean               float64   // k_t averaged over the pulse envelope, 1/m
+	KtSpread             float64   // rms spread of k_t over the envelope, 1/m
+	KtMax                float64   // largest |k_t| over all pulse phases (delta pulses), 1/m
+	KRF                  float64   // RF photon wavenumber 2π f_RF/c, 1/m
+	Enhancement          float64   // |k_t|/k_RF
+	DopplerHzPerMmS      float64   // k_t v/2π per mm/s: shift of the transition, i.e. of sgn(f0)(f_RF − |f0|), Hz/(mm/s)
+	RFShiftHzPerMmS      float64   // shift of the RF resonance f_RF itself per mm/s: sgn(f0)·k_t/2π, Hz/(mm/s)
+	PulseArea            float64   // ∫Ω(t)dt per pulse, rad
+	PeakRabiHz           float64   // peak Rabi frequency of one pulse, Hz (= RabiHz for continuous)
+	MicroKinUpHz         float64   // ⟨A↑²⟩/2m /h, Hz
+	MicroKinDownHz       float64   // ⟨A↓²⟩/2m /h, Hz
+	MicroShiftHz         float64   // (⟨A↑²⟩ − ⟨A↓²⟩)/2m /h, part of δ, Hz
+	MicroAmpUp           float64   // position micromotion amplitude of ↑, m
+	MicroAmpDown         float64   // position micromotion amplitude of ↓, m
+	DeltaHz              float64   // effective δ/2π including the micromotion shift, Hz
+	ZeroDeltaDetuningHz  float64   // the RF detuning f_RF − |f_0| that makes δ = 0, Hz
+	QuadZeemanHz         float64   // q/h of the manifold of Up (if F shared and |m|≤1 exists), Hz
+	NeighbourHz          float64   // detuning of the nearest other RF transition, Hz (NaN if none)
+	Warnings             []Warning // validity of the cycle average and of the two-level picture (codes Warn…)
 }
 
 // zeroRecoil is the fraction of the largest transfer below which a computed
@@ -154,8 +154,8 @@ func (p Shake) Evaluate() (ShakeResult, error) {
 		return r, badf("Rabi frequency must be ≥ 0 and finite, got %g Hz", p.RabiHz)
 	case math.IsNaN(p.DetuningHz) || math.IsInf(p.DetuningHz, 0):
 		return r, badf("detuning must be finite, got %g Hz", p.DetuningHz)
-	case math.IsNaN(p.Phase) || math.IsInf(p.Phase, 0):
-		return r, badf("pulse phase must be finite, got %g rad", p.Phase)
+	case math.IsNaN(p.PulsePhase) || math.IsInf(p.PulsePhase, 0):
+		return r, badf("pulse phase must be finite, got %g rad", p.PulsePhase)
 	}
 	w := p.Waveform
 	if w == nil {
@@ -184,9 +184,9 @@ func (p Shake) Evaluate() (ShakeResult, error) {
 	r.RFHz = math.Abs(f0)
 
 	scale := r.DeltaForce / omega / Hbar // k_t = scale · S(θ)
-	r.KtDelta = scale * cyc.Impulse(p.Phase)
+	r.KtDelta = scale * cyc.Impulse(p.PulsePhase)
 	r.KtMax = math.Abs(scale) * cyc.SMax
-	mean, rms := envelopeMoments(cyc, p.Pulse, p.Phase, omega*p.PulseWidth)
+	mean, rms := envelopeMoments(cyc, p.Pulse, p.PulsePhase, omega*p.PulseWidth)
 	r.KtMean = scale * mean
 	r.KtSpread = math.Abs(scale) * rms
 	// A transfer at the rounding level of the cycle integrals (θ = 90° for
@@ -304,50 +304,53 @@ func envelopeMoments(c *Cycle, shape PulseShape, theta, wPhi float64) (mean, rms
 	return mean, rms
 }
 
-func (p Shake) warnings(r *ShakeResult, cyc *Cycle) []string {
-	var w []string
+func (p Shake) warnings(r *ShakeResult, cyc *Cycle) []Warning {
+	var w []Warning
+	add := func(code, format string, a ...any) {
+		w = append(w, Warning{Code: code, Text: fmt.Sprintf(format, a...)})
+	}
 	hOmega := Planck * p.ShakeHz
 	eR := r.Model.ER
 	if p.Pulse == PulseContinuous {
-		w = append(w, fmt.Sprintf("continuous drive: the mean momentum transfer is zero and its rms spread is %.3g /m; this is not spin–orbit coupling", r.KtSpread))
+		add(WarnContinuousDrive, "continuous drive: the mean momentum transfer is zero and its rms spread is %.3g /m; this is not spin–orbit coupling", r.KtSpread)
 	} else if r.KtMean == 0 && r.DeltaForce != 0 {
-		w = append(w, "no recoil at this pulse phase (k_t = 0): no spin–orbit coupling, E_R = 0")
+		add(WarnNoRecoil, "no recoil at this pulse phase (k_t = 0): no spin–orbit coupling, E_R = 0")
 	}
 	if r.DeltaForce == 0 {
-		w = append(w, "the two sublevels have equal magnetic moments at this bias field: no differential force, no recoil")
+		add(WarnEqualMoments, "the two sublevels have equal magnetic moments at this bias field: no differential force, no recoil")
 	} else if r.KtMean != 0 && math.Abs(r.KtMean) < 0.05*r.KtMax && p.Pulse != PulseContinuous {
-		w = append(w, fmt.Sprintf("recoil nearly zero at this pulse phase: |k_t| is %.1f%% of its largest value", 100*math.Abs(r.KtMean)/r.KtMax))
+		add(WarnSmallRecoil, "recoil nearly zero at this pulse phase: |k_t| is %.1f%% of its largest value", 100*math.Abs(r.KtMean)/r.KtMax)
 	}
 	if eR > 0 && hOmega < ScaleSeparation*eR {
-		w = append(w, fmt.Sprintf("ħω is only %.2g E_R (want ≥ %g): the cycle average is doubtful", hOmega/eR, ScaleSeparation))
+		add(WarnShakeVsRecoil, "ħω is only %.2g E_R (want ≥ %g): the cycle average is doubtful", hOmega/eR, ScaleSeparation)
 	}
 	if p.RabiHz > 0 && p.ShakeHz < ScaleSeparation*p.RabiHz {
-		w = append(w, fmt.Sprintf("shaking frequency is only %.2g × the Rabi frequency (want ≥ %g)", p.ShakeHz/p.RabiHz, ScaleSeparation))
+		add(WarnShakeVsRabi, "shaking frequency is only %.2g × the Rabi frequency (want ≥ %g)", p.ShakeHz/p.RabiHz, ScaleSeparation)
 	}
 	if r.PulseArea > PulseAreaLimit && p.Pulse != PulseContinuous {
-		w = append(w, fmt.Sprintf("pulse area per cycle %.2f rad exceeds %.2f rad: the averaged coupling needs weak pulses", r.PulseArea, PulseAreaLimit))
+		add(WarnPulseArea, "pulse area per cycle %.2f rad exceeds %.2f rad: the averaged coupling needs weak pulses", r.PulseArea, PulseAreaLimit)
 	}
 	if kR := math.Abs(r.Model.KR); kR > 0 {
 		period := math.Pi / kR
 		amp := math.Max(r.MicroAmpUp, r.MicroAmpDown)
 		if amp > MicromotionFraction*period {
-			w = append(w, fmt.Sprintf("position micromotion %.3g µm is not small against the stripe period %.3g µm", amp*1e6, period*1e6))
+			add(WarnMicromotion, "position micromotion %.3g µm is not small against the stripe period %.3g µm", amp*1e6, period*1e6)
 		}
 	}
 	if p.Pulse != PulseDelta && p.Pulse != PulseContinuous && r.KtMean != 0 && r.KtSpread > SpreadFraction*math.Abs(r.KtMean) {
-		w = append(w, fmt.Sprintf("pulses are long: rms momentum spread is %.0f%% of the mean transfer", 100*r.KtSpread/math.Abs(r.KtMean)))
+		add(WarnLongPulses, "pulses are long: rms momentum spread is %.0f%% of the mean transfer", 100*r.KtSpread/math.Abs(r.KtMean))
 	}
 	if p.RabiHz > 0 && r.KtSpread > 0 && p.Pulse != PulseContinuous {
 		d := r.KtSpread * Hbar * math.Abs(r.KtMean) / p.Species.Mass / (2 * p.RabiHz)
 		if d > DephasingLimit {
-			w = append(w, fmt.Sprintf("momentum spread over the pulse dephases successive pulses: k_spread·(ħ|k_t|/m)·t_π = %.2g (want ≪ 1, limit %g): the real coupling is weaker than Ω; shorten the pulses or check with socmap verify", d, DephasingLimit))
+			add(WarnPulseDephasing, "momentum spread over the pulse dephases successive pulses: k_spread·(ħ|k_t|/m)·t_π = %.2g (want ≪ 1, limit %g): the real coupling is weaker than Ω; shorten the pulses or check with socmap verify", d, DephasingLimit)
 		}
 	}
 	if p.Up.F == p.Down.F && absInt(p.Up.M-p.Down.M) != 1 {
-		w = append(w, "the sublevels differ by |Δm| ≠ 1: a single RF photon does not couple them directly")
+		add(WarnDeltaM, "the sublevels differ by |Δm| ≠ 1: a single RF photon does not couple them directly")
 	}
 	if p.Up.F != p.Down.F {
-		w = append(w, "the sublevels lie in different hyperfine manifolds: this is a microwave transition")
+		add(WarnMicrowave, "the sublevels lie in different hyperfine manifolds: this is a microwave transition")
 	}
 	if !math.IsNaN(r.NeighbourHz) && p.RabiHz > 0 {
 		bw := r.PeakRabiHz
@@ -355,9 +358,9 @@ func (p Shake) warnings(r *ShakeResult, cyc *Cycle) []string {
 			bw = math.Max(bw, 1/p.PulseWidth)
 		}
 		if math.IsInf(bw, 1) {
-			w = append(w, fmt.Sprintf("delta pulses have unbounded bandwidth, and the nearest other RF transition is %.3g kHz away: real pulses must be long against 1/(%.3g kHz) to keep atoms out of the third sublevel", r.NeighbourHz/1e3, r.NeighbourHz/NeighbourSeparation/1e3))
+			add(WarnDeltaBandwidth, "delta pulses have unbounded bandwidth, and the nearest other RF transition is %.3g kHz away: real pulses must be long against 1/(%.3g kHz) to keep atoms out of the third sublevel", r.NeighbourHz/1e3, r.NeighbourHz/NeighbourSeparation/1e3)
 		} else if r.NeighbourHz < NeighbourSeparation*bw {
-			w = append(w, fmt.Sprintf("the nearest other RF transition is only %.3g kHz away (peak Rabi / pulse bandwidth %.3g kHz): atoms leak to the third sublevel; raise the bias field or lengthen the pulses", r.NeighbourHz/1e3, bw/1e3))
+			add(WarnNeighbour, "the nearest other RF transition is only %.3g kHz away (peak Rabi / pulse bandwidth %.3g kHz): atoms leak to the third sublevel; raise the bias field or lengthen the pulses", r.NeighbourHz/1e3, bw/1e3)
 		}
 	}
 	return w

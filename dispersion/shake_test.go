@@ -9,7 +9,7 @@ import (
 func naShake() Shake {
 	sp, _ := LookupSpecies("Na23")
 	return Shake{Species: sp, Up: Sublevel{1, 0}, Down: Sublevel{1, 1}, Bias: 11.4 * Gauss,
-		Gradient: 1.0 /* 100 G/cm */, ShakeHz: 5e3, Waveform: Sine{}, Phase: 0, Pulse: PulseDelta, RabiHz: 100}
+		Gradient: 1.0 /* 100 G/cm */, ShakeHz: 5e3, Waveform: Sine{}, PulsePhase: 0, Pulse: PulseDelta, RabiHz: 100}
 }
 
 // Cycle integrals of the sine and square waveforms against their closed forms
@@ -66,34 +66,34 @@ func TestKtLaws(t *testing.T) {
 	}
 	k0 := base.DeltaForce / omega / Hbar
 	for _, deg := range []float64{0, 30, 60, 90, 120, 180, 270} {
-		p.Phase = deg * math.Pi / 180
+		p.PulsePhase = deg * math.Pi / 180
 		r, _ := p.Evaluate()
-		want := -k0 * math.Cos(p.Phase)
+		want := -k0 * math.Cos(p.PulsePhase)
 		if math.Abs(r.KtMean-want) > 1e-6*math.Abs(k0) {
 			t.Errorf("sine θ=%g°: k_t %g, want %g", deg, r.KtMean, want)
 		}
 	}
-	p.Phase = math.Pi / 2
+	p.PulsePhase = math.Pi / 2
 	r90, _ := p.Evaluate()
 	if math.Abs(r90.KtMean) > 1e-6*math.Abs(k0) {
 		t.Errorf("sine k_t(90°) = %g, want 0", r90.KtMean)
 	}
-	if !strings.Contains(strings.Join(r90.Warnings, "\n"), "no recoil") || r90.KtMean != 0 || r90.Model.ER != 0 {
+	if !strings.Contains(strings.Join(WarningTexts(r90.Warnings), "\n"), "no recoil") || !HasWarning(r90.Warnings, WarnNoRecoil) || r90.KtMean != 0 || r90.Model.ER != 0 {
 		t.Error("no warning at 90°")
 	}
-	p.Phase = 0
+	p.PulsePhase = 0
 	r0, _ := p.Evaluate()
-	p.Phase = math.Pi
+	p.PulsePhase = math.Pi
 	r180, _ := p.Evaluate()
 	if math.Abs(r0.KtMean+r180.KtMean) > 1e-6*math.Abs(k0) || r0.KtMean == 0 {
 		t.Errorf("sign reversal: k_t(0)=%g, k_t(180°)=%g", r0.KtMean, r180.KtMean)
 	}
-	p.Waveform, p.Phase = Square{}, 0
+	p.Waveform, p.PulsePhase = Square{}, 0
 	sq, _ := p.Evaluate()
 	if relErr(sq.KtMean/r0.KtMean, math.Pi/2) > 1e-6 {
 		t.Errorf("square/sine maximum ratio %g, want π/2", sq.KtMean/r0.KtMean)
 	}
-	p.Phase = 1.0
+	p.PulsePhase = 1.0
 	sq1, _ := p.Evaluate()
 	if relErr(sq1.KtMean, -k0*(math.Pi/2-1)) > 1e-5 {
 		t.Errorf("square θ=1: k_t %g, want %g", sq1.KtMean, -k0*(math.Pi/2-1))
@@ -109,14 +109,14 @@ func TestPulseEnvelopes(t *testing.T) {
 	omega := 2 * math.Pi * p.ShakeHz
 	r, _ := p.Evaluate()
 	k0 := r.DeltaForce / omega / Hbar
-	p.Pulse, p.PulseWidth, p.Phase = PulseRect, 20e-6, 0.4
+	p.Pulse, p.PulseWidth, p.PulsePhase = PulseRect, 20e-6, 0.4
 	a := omega * p.PulseWidth / 2
 	rr, err := p.Evaluate()
 	if err != nil {
 		t.Fatal(err)
 	}
-	mean := -math.Cos(p.Phase) * math.Sin(a) / a
-	cos2 := 0.5 + math.Cos(2*p.Phase)*math.Sin(2*a)/(4*a)
+	mean := -math.Cos(p.PulsePhase) * math.Sin(a) / a
+	cos2 := 0.5 + math.Cos(2*p.PulsePhase)*math.Sin(2*a)/(4*a)
 	spread := math.Sqrt(cos2 - mean*mean)
 	if relErr(rr.KtMean, k0*mean) > 1e-6 || relErr(rr.KtSpread, math.Abs(k0)*spread) > 1e-4 {
 		t.Errorf("rect: mean %g (want %g), spread %g (want %g)", rr.KtMean, k0*mean, rr.KtSpread, math.Abs(k0)*spread)
@@ -139,7 +139,7 @@ func TestPulseEnvelopes(t *testing.T) {
 	if math.Abs(c.KtMean) > 1e-6*math.Abs(k0) || relErr(c.KtSpread, math.Abs(k0)/math.Sqrt2) > 1e-5 {
 		t.Errorf("continuous: mean %g, spread %g (want 0, %g)", c.KtMean, c.KtSpread, math.Abs(k0)/math.Sqrt2)
 	}
-	if !strings.Contains(strings.Join(c.Warnings, "\n"), "not spin–orbit coupling") {
+	if !strings.Contains(strings.Join(WarningTexts(c.Warnings), "\n"), "not spin–orbit coupling") || !HasWarning(c.Warnings, WarnContinuousDrive) {
 		t.Error("continuous drive not flagged")
 	}
 	p.Pulse, p.PulseWidth = PulseRect, 1e-3
@@ -244,12 +244,12 @@ func TestDephasingWarning(t *testing.T) {
 	p := Shake{Species: sp, Up: Sublevel{1, 0}, Down: Sublevel{1, -1}, Bias: 60 * Gauss, Gradient: 1, ShakeHz: 3e3,
 		Pulse: PulseRect, PulseWidth: 30e-6, RabiHz: 20}
 	r, _ := p.Evaluate()
-	if !strings.Contains(strings.Join(r.Warnings, "\n"), "dephases") {
+	if !strings.Contains(strings.Join(WarningTexts(r.Warnings), "\n"), "dephases") || !HasWarning(r.Warnings, WarnPulseDephasing) {
 		t.Errorf("30 µs pulses: no dephasing warning in %q", r.Warnings)
 	}
 	p.PulseWidth = 10e-6
 	r, _ = p.Evaluate()
-	if strings.Contains(strings.Join(r.Warnings, "\n"), "dephases") {
+	if strings.Contains(strings.Join(WarningTexts(r.Warnings), "\n"), "dephases") || HasWarning(r.Warnings, WarnPulseDephasing) {
 		t.Errorf("10 µs pulses warned: %q", r.Warnings)
 	}
 }
@@ -257,9 +257,9 @@ func TestDephasingWarning(t *testing.T) {
 // Near 90° but not at it the recoil is small, real, and flagged.
 func TestSmallRecoilWarning(t *testing.T) {
 	p := naShake()
-	p.Phase = 89 * math.Pi / 180
+	p.PulsePhase = 89 * math.Pi / 180
 	r, _ := p.Evaluate()
-	if r.KtMean == 0 || !strings.Contains(strings.Join(r.Warnings, "\n"), "recoil nearly zero") {
+	if r.KtMean == 0 || !strings.Contains(strings.Join(WarningTexts(r.Warnings), "\n"), "recoil nearly zero") || !HasWarning(r.Warnings, WarnSmallRecoil) {
 		t.Errorf("89°: k_t %g, warnings %q", r.KtMean, r.Warnings)
 	}
 }

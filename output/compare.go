@@ -36,7 +36,7 @@ func (r *CompareReport) ThomasFermiText() string {
 func (r *CompareReport) ShakeLimitTexts() []string {
 	l := r.ShakeLimits
 	var out []string // nil when nothing is flagged (JSON null, as before)
-	out = append(out, l.Warnings...)
+	out = append(out, dispersion.WarningTexts(l.Warnings)...)
 	if m := l.Micromotion; m != nil {
 		out = append(out, fmt.Sprintf("micromotion amplitude %s µm against a stripe period of %s µm (%s%%)",
 			Num(m.AmplitudeM*1e6, 3), Num(m.PeriodM*1e6, 3), Num(100*m.Fraction, 2)))
@@ -58,7 +58,7 @@ func (r *CompareReport) RamanLimitTexts() []string {
 		out = append(out, fmt.Sprintf("photon scattering ≈ %s /s at mid-window coupling (two-level estimate, %s %s GHz away): heating ≈ %s E_R/s",
 			Num(s.Rate, 3), s.NearestLine, Num(s.LineDetuningHz/1e9, 4), Num(s.HeatingER, 3)))
 	}
-	return append(out, r.RamanLimits.Warnings...)
+	return append(out, dispersion.WarningTexts(r.RamanLimits.Warnings)...)
 }
 
 // VerdictText states a side's verdict in one line.

@@ -89,7 +89,7 @@ func (w *Writer) WriteShake(p dispersion.Shake, r dispersion.ShakeResult) {
 	w.Scalar(s+"bias", p.Bias, "T", "bias field B0")
 	w.Scalar(s+"gradient", p.Gradient, "T/m", "gradient amplitude b′")
 	w.Scalar(s+"shake_frequency", p.ShakeHz, "Hz", "shaking frequency ω/2π")
-	w.Scalar(s+"pulse_phase", p.Phase, "rad", "pulse centre phase θ in the shaking cycle")
+	w.Scalar(s+"pulse_phase", p.PulsePhase, "rad", "pulse centre phase θ in the shaking cycle")
 	w.Scalar(s+"pulse_width", p.PulseWidth, "s", "pulse width (rect: duration; gauss: FWHM)")
 	w.Scalar(s+"rabi", p.RabiHz, "Hz", "cycle-averaged Rabi frequency Ω/2π")
 	w.Scalar(s+"rf_detuning", p.DetuningHz, "Hz", "RF detuning f_RF − f_0")
@@ -117,7 +117,7 @@ func (w *Writer) WriteShake(p dispersion.Shake, r dispersion.ShakeResult) {
 	w.Scalar(o+"delta_total", r.DeltaHz, "Hz", "effective δ/2π including the micromotion shift")
 	w.Scalar(o+"quadratic_zeeman", r.QuadZeemanHz, "Hz", "quadratic Zeeman shift q/h of the manifold (NaN if n/a)")
 	w.Scalar(o+"neighbour_detuning", r.NeighbourHz, "Hz", "detuning of the nearest other RF transition (NaN if none)")
-	w.Attr("/results", "warnings", joinLines(r.Warnings))
+	w.writeWarnings("/results", r.Warnings)
 }
 
 // WriteRaman writes the inputs and results of the Raman scheme.
@@ -132,7 +132,7 @@ func (w *Writer) WriteRaman(p dispersion.Raman, r dispersion.RamanResult) {
 	w.Scalar("/results/line_detuning", r.LineDetuningHz, "Hz", "single-photon detuning from the nearest D line ("+r.NearestLine+")")
 	w.Scalar("/results/scattering_rate", r.ScatterRate, "1/s", "photon scattering rate, two-level estimate Γ Ω/|Δ|")
 	w.Scalar("/results/heating", r.HeatingER, "E_R/s", "heating rate estimate, 2E_R per scattered photon")
-	w.Attr("/results", "warnings", joinLines(r.Warnings))
+	w.writeWarnings("/results", r.Warnings)
 }
 
 // WriteBands writes sampled bands and their minima.

@@ -89,7 +89,7 @@ var Axes = []AxisDef{
 	{Name: AxisShakeFrequency, Kind: dispersion.KindFrequency, Unit: "Hz", Label: "shaking frequency  [kHz]", Scale: 1e-3,
 		Overrides: []string{"shake"}, set: shakeSetting(AxisShakeFrequency, func(p *dispersion.Shake, v float64) { p.ShakeHz = v })},
 	{Name: AxisPulseAngle, Kind: dispersion.KindAngle, Unit: "rad", Label: "pulse phase θ  [deg]", Scale: 180 / math.Pi,
-		Overrides: []string{"phase"}, set: shakeSetting(AxisPulseAngle, func(p *dispersion.Shake, v float64) { p.Phase = v })},
+		Overrides: []string{"phase"}, set: shakeSetting(AxisPulseAngle, func(p *dispersion.Shake, v float64) { p.PulsePhase = v })},
 	{Name: AxisBias, Kind: dispersion.KindField, Unit: "T", Label: "bias field  [G]", Scale: 1e4,
 		Overrides: []string{"bias"}, set: shakeSetting(AxisBias, func(p *dispersion.Shake, v float64) { p.Bias = v })},
 	{Name: AxisRabi, Kind: dispersion.KindFrequency, Unit: "Hz", Label: "Rabi frequency Ω/2π  [Hz]", Scale: 1,
@@ -112,11 +112,14 @@ var Axes = []AxisDef{
 		Overrides: []string{"angle"}, set: ramanSetting(AxisCrossingAngle, func(p *dispersion.Raman, v float64) { p.Angle = v })},
 }
 
-func shakeSetting(axis string, f func(p *dispersion.Shake, v float64)) func(l *Lab, v float64) error {
+// schemeSetting returns a setter of one setting of the scheme type S (Shake
+// or Raman); a lab with another scheme is refused, naming the axis.
+func schemeSetting[S dispersion.Scheme](axis string, f func(p *S, v float64)) func(l *Lab, v float64) error {
 	return func(l *Lab, v float64) error {
-		s, ok := l.Scheme.(dispersion.Shake)
+		s, ok := l.Scheme.(S)
 		if !ok {
-			return fmt.Errorf("axis %q needs the shake scheme (this map uses %q)", axis, l.SchemeName())
+			var want S
+			return fmt.Errorf("axis %q needs the %s scheme (this map uses %q)", axis, want.Name(), l.SchemeName())
 		}
 		f(&s, v)
 		l.Scheme = s
@@ -124,16 +127,12 @@ func shakeSetting(axis string, f func(p *dispersion.Shake, v float64)) func(l *L
 	}
 }
 
+func shakeSetting(axis string, f func(p *dispersion.Shake, v float64)) func(l *Lab, v float64) error {
+	return schemeSetting(axis, f)
+}
+
 func ramanSetting(axis string, f func(p *dispersion.Raman, v float64)) func(l *Lab, v float64) error {
-	return func(l *Lab, v float64) error {
-		s, ok := l.Scheme.(dispersion.Raman)
-		if !ok {
-			return fmt.Errorf("axis %q needs the raman scheme (this map uses %q)", axis, l.SchemeName())
-		}
-		f(&s, v)
-		l.Scheme = s
-		return nil
-	}
+	return schemeSetting(axis, f)
 }
 
 // LookupAxis returns the table entry of the named axis.

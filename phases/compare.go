@@ -144,7 +144,7 @@ type Verdict struct {
 type ShakeLimits struct {
 	// Warnings: the validity warnings of the cycle average
 	// (dispersion.ShakeResult.Warnings).
-	Warnings []string
+	Warnings []dispersion.Warning
 	// Micromotion: the micromotion amplitude against the stripe period at
 	// mid window; nil without a converged mid-window stripe.
 	Micromotion *MicromotionLimit
@@ -176,7 +176,7 @@ type RamanLimits struct {
 	// a stripe window.
 	Scattering *ScatteringLimit
 	// Warnings: dispersion.RamanResult.Warnings.
-	Warnings []string
+	Warnings []dispersion.Warning
 }
 
 // ScatteringLimit is the two-level photon-scattering estimate of the Raman

@@ -91,7 +91,7 @@ func TestCompareBadInput(t *testing.T) {
 	ra := demoRaman(sh.Species)
 	tr := &CompareTrap{Atoms: 1000, FreqHz: [3]float64{10, 10, 10}}
 	noRecoil := sh
-	noRecoil.Phase = math.Pi / 2 // a sine's θ = 90°: k_t = 0
+	noRecoil.PulsePhase = math.Pi / 2 // a sine's θ = 90°: k_t = 0
 	for name, p := range map[string]Comparison{
 		"density and trap": {Shake: sh, Raman: ra, Couplings: c, Density: 1e20, Trap: tr},
 		"neither":          {Shake: sh, Raman: ra, Couplings: c},

@@ -19,7 +19,6 @@ type memSink struct {
 	pts    map[int]PointResult
 	writes map[int]int
 	busy   atomic.Int32
-	doneFn func(ix, iy int) bool
 }
 
 func newMemSink(t *testing.T, nx int) *memSink {

@@ -1,5 +1,7 @@
 #!/usr/bin/python3
-"""Reference fit for `socmap calibrate` (floquet.Calibrate), from numpy and scipy.
+"""Reference fits for `socmap calibrate` (dispersion.Calibrate) and for the
+weighted straight-line fit of the Doppler slope (dispersion.FitLinear, used by
+gpe.Verify), from numpy and scipy.
 
 The data file testdata/calibrate_example.csv is SYNTHETIC, invented for the
 tests (not a measurement): Doppler slopes of the RF resonance against
@@ -18,13 +20,21 @@ The fit k(θ) = K cos(θ − lag) is done twice: numpy.linalg.lstsq on the
 linear form a cos θ + b sin θ (covariance s²(XᵀX)⁻¹, s² = RSS/(n−2)), and
 scipy.optimize.curve_fit on the nonlinear form (pcov, absolute_sigma=False).
 K takes the sign of the nominal slope. Both must agree; the results go to
-testdata/ref_calibrate.json, which the Go test floquet/calibrate_test.go
+testdata/ref_calibrate.json, which the Go test dispersion/calibrate_test.go
 compares with its own fit.
 
-Usage:
-    /usr/bin/python3 testdata/ref_calibrate.py           # recompute, compare with the committed files
+Weighted lines: for a few invented data sets (x, y, σ; see WEIGHTED_CASES,
+our own numbers, not measurements) numpy.polyfit(x, y, 1, w=1/σ,
+cov="unscaled") gives slope, intercept and their covariance from the
+propagated data errors; for two points the script also checks the closed form
+σ_b² = (σ1² + σ2²)/(x2 − x1)². dispersion/calibrate_test.go compares
+FitLinear with these numbers.
+
+Usage (the convention of every reference script in testdata/):
+    /usr/bin/python3 testdata/ref_calibrate.py           # check: recompute, compare with the committed files
     /usr/bin/python3 testdata/ref_calibrate.py --write   # regenerate the CSV and the JSON
-Exits non-zero on any mismatch, printing what it compared.
+Exits non-zero on any mismatch, printing what it compared; exits 2 on an
+unknown argument.
 """
 import json
 import math
@@ -96,8 +106,37 @@ def fit(ph_deg, s):
                 cf_lag_deg=math.degrees(lag2), cf_lag_err_deg=math.degrees(math.sqrt(pcov[1, 1])))
 
 
+# Invented data sets for the weighted line fit: velocities (mm/s), resonance
+# centres (Hz), their standard errors (Hz). Our own numbers, chosen like a
+# verify run (slope near -377 Hz per mm/s), not measurements.
+WEIGHTED_CASES = [
+    dict(name="two points", x=[-1.7, 1.7], y=[786.2, -495.4], sigma=[0.03, 0.07]),
+    dict(name="five points", x=[-3.4, -1.7, 0.0, 1.7, 3.4],
+         y=[1427.31, 786.12, 145.38, -495.91, -1136.62], sigma=[0.05, 0.02, 0.01, 0.03, 0.08]),
+    dict(name="three points, far from 0", x=[10.0, 10.5, 12.0],
+         y=[-3624.1, -3812.9, -4378.0], sigma=[0.4, 0.1, 0.9]),
+]
+
+
+def weighted_lines():
+    out = []
+    for c in WEIGHTED_CASES:
+        x, y, sg = (np.array(c[k], dtype=float) for k in ("x", "y", "sigma"))
+        (b, a), cov = np.polyfit(x, y, 1, w=1 / sg, cov="unscaled")
+        chi2 = float(np.sum(((y - a - b * x) / sg) ** 2))
+        out.append(dict(name=c["name"], x=c["x"], y=c["y"], sigma=c["sigma"], slope=float(b), intercept=float(a),
+                        slope_err=math.sqrt(cov[0, 0]), intercept_err=math.sqrt(cov[1, 1]), cov=float(cov[0, 1]),
+                        chi2=chi2))
+    return out
+
+
 def main():
-    if "--write" in sys.argv:
+    args = sys.argv[1:]
+    if any(a != "--write" for a in args):
+        print("usage: ref_calibrate.py [--write]  (default: check against the committed files)")
+        sys.exit(2)
+    write = "--write" in args
+    if write:
         make_csv()
     ph, s = read_csv()
     r = fit(ph, s)
@@ -116,10 +155,19 @@ def main():
         if abs(val - true) > 3 * err:
             ok = False
             print("  truth outside 3 standard errors")
-    doc = dict(source="numpy.linalg.lstsq and scipy.optimize.curve_fit on calibrate_example.csv (synthetic)",
+    wl = weighted_lines()
+    two = wl[0]
+    closed = math.hypot(*two["sigma"]) / abs(two["x"][1] - two["x"][0])
+    rel = abs(two["slope_err"] - closed) / closed
+    print("two-point slope error: polyfit %.10g, closed form %.10g, rel diff %.2e" % (two["slope_err"], closed, rel))
+    if rel > 1e-12:
+        ok = False
+        print("  MISMATCH between numpy.polyfit and the closed form")
+    doc = dict(source="numpy.linalg.lstsq and scipy.optimize.curve_fit on calibrate_example.csv (synthetic); "
+                      "numpy.polyfit(w=1/sigma, cov='unscaled') on the invented weighted_lines",
                slope_nominal_hz_per_mm_s=S_NOMINAL, seed=SEED, ratio_true=RATIO_TRUE, lag_true_deg=LAG_TRUE_DEG,
-               numpy=np.__version__, **r)
-    if "--write" in sys.argv:
+               numpy=np.__version__, **r, weighted_lines=wl)
+    if write:
         with open(OUT, "w") as f:
             json.dump(doc, f, indent=2)
         print("wrote", CSV, "and", OUT)
@@ -130,6 +178,16 @@ def main():
             if rel > 1e-9:
                 ok = False
                 print("committed %s = %.12g differs from recomputed %.12g" % (k, old[k], r[k]))
+        oldwl = old.get("weighted_lines", [])
+        if len(oldwl) != len(wl):
+            ok = False
+            print("committed file has %d weighted lines, recomputed %d (rerun with --write)" % (len(oldwl), len(wl)))
+        for o, n in zip(oldwl, wl):
+            for k in ("slope", "intercept", "slope_err", "intercept_err", "cov", "chi2"):
+                rel = abs(o[k] - n[k]) / max(abs(n[k]), 1e-300)
+                if rel > 1e-9 or o["x"] != n["x"] or o["y"] != n["y"] or o["sigma"] != n["sigma"]:
+                    ok = False
+                    print("weighted line %r: committed %s = %.12g differs from recomputed %.12g" % (n["name"], k, o[k], n[k]))
         print("compared with the committed", os.path.basename(OUT))
     if not ok:
         print("ref_calibrate: FAILED")

@@ -75,7 +75,7 @@ planned couplings give a stripe.`,
 			if err != nil {
 				return err
 			}
-			rep := &output.CompareReport{Problem: p, CompareResult: res, Cautions: []string{cautionCoils, cautionLasers}}
+			rep := &output.CompareReport{Problem: p, CompareResult: res, Cautions: []string{output.CautionCoils, output.CautionLasers}}
 			if g.json {
 				return writeJSON(cmd.OutOrStdout(), rep.JSON())
 			}

@@ -140,7 +140,7 @@ func (s *shakeFlags) build() (dispersion.Shake, error) {
 		}
 	}
 	return dispersion.Shake{Species: sp, Up: up, Down: down, Bias: s.bias.v, Gradient: s.gradient.v,
-		ShakeHz: s.shake.v, Waveform: wf, Phase: s.phase.v, Pulse: ps, PulseWidth: s.width.v,
+		ShakeHz: s.shake.v, Waveform: wf, PulsePhase: s.phase.v, Pulse: ps, PulseWidth: s.width.v,
 		RabiHz: s.rabi.v, DetuningHz: s.detuning.v}, nil
 }
 

@@ -13,13 +13,10 @@ import (
 	"socmap/output"
 )
 
-// Safety cautions shown with scheme outputs (common practice, no source).
-var (
-	cautionCoils = "Gradient coils: tens to hundreds of amperes switched at kHz rates store energy and " +
-		"produce voltage transients; use rated drivers, interlocks and coil cooling. RF amplifiers: never run " +
-		"them unloaded, and keep antennas clear of people. Follow your local rules and your lab's safety officer."
-	cautionLasers = "Raman beams are class 3B/4 lasers: wear the specified eyewear, enclose the beam paths and " +
-		"follow your local laser rules and your lab's laser safety officer."
+// Safety cautions shown with scheme outputs (the texts live in output).
+const (
+	cautionCoils  = output.CautionCoils
+	cautionLasers = output.CautionLasers
 )
 
 func newSchemeCmd() *cobra.Command {
@@ -73,14 +70,11 @@ coefficient, RF recoil enhancement and the validity of the cycle average.`,
 
 func shakeJSON(p dispersion.Shake, r dispersion.ShakeResult, info dispersion.BandInfo) map[string]any {
 	n := output.JSONNum
-	w := r.Warnings
-	if w == nil {
-		w = []string{}
-	}
+	w, wc := output.WarningsJSON(r.Warnings)
 	return map[string]any{
 		"scheme": "shake", "atom": p.Species.Name, "up": p.Up.String(), "down": p.Down.String(),
 		"bias_T": p.Bias, "gradient_T_per_m": p.Gradient, "shake_hz": p.ShakeHz, "waveform": p.Waveform.Name(),
-		"phase_rad": p.Phase, "pulse": p.Pulse.String(), "pulse_width_s": p.PulseWidth,
+		"phase_rad": p.PulsePhase, "pulse": p.Pulse.String(), "pulse_width_s": p.PulseWidth,
 		"moment_up_J_per_T": r.MomentUp, "moment_down_J_per_T": r.MomentDown,
 		"delta_force_N": r.DeltaForce, "rf_hz": r.RFHz,
 		"k_t_per_m": r.KtMean, "k_t_delta_pulse_per_m": r.KtDelta, "k_t_max_per_m": r.KtMax,
@@ -94,7 +88,7 @@ func shakeJSON(p dispersion.Shake, r dispersion.ShakeResult, info dispersion.Ban
 		"micromotion_amplitude_down_m": r.MicroAmpDown, "quadratic_zeeman_hz": n(r.QuadZeemanHz),
 		"neighbour_transition_detuning_hz": n(r.NeighbourHz),
 		"minima":                           minimaJSON(info), "barrier_over_ER": info.Barrier,
-		"warnings": w, "cautions": []string{cautionCoils},
+		"warnings": w, "warning_codes": wc, "cautions": []string{cautionCoils},
 		"note": "two-level model of the pair; couplings to the other sublevels are not included",
 	}
 }
@@ -130,7 +124,7 @@ func shakeTable(p dispersion.Shake, r dispersion.ShakeResult, info dispersion.Ba
 	if p.Pulse == dispersion.PulseRect || p.Pulse == dispersion.PulseGauss {
 		pulse += fmt.Sprintf(", width %s µs", N(p.PulseWidth*1e6, 3))
 	}
-	t.Row("pulses", pulse+fmt.Sprintf(" at θ = %s°", N(deg(p.Phase), 4)), "")
+	t.Row("pulses", pulse+fmt.Sprintf(" at θ = %s°", N(deg(p.PulsePhase), 4)), "")
 	t.Section("Recoil of one spin flip ↑→↓")
 	t.RowNote("k_t", N(r.KtMean, 4), "1/m", fmt.Sprintf("(largest over θ: %s 1/m)", N(r.KtMax, 4)))
 	t.Row("rms spread over the pulse", N(r.KtSpread, 3), "1/m")
@@ -155,7 +149,7 @@ func shakeTable(p dispersion.Shake, r dispersion.ShakeResult, info dispersion.Ba
 		t.Text("no warning")
 	}
 	for _, w := range r.Warnings {
-		t.Text("! " + w)
+		t.Text("! " + w.Text)
 	}
 	t.Section("Caution")
 	t.Text(cautionCoils)
@@ -219,10 +213,7 @@ func newRamanCmd() *cobra.Command {
 }
 
 func ramanJSON(p dispersion.Raman, r dispersion.RamanResult, info dispersion.BandInfo) map[string]any {
-	w := r.Warnings
-	if w == nil {
-		w = []string{}
-	}
+	w, wc := output.WarningsJSON(r.Warnings)
 	return map[string]any{
 		"scheme": "raman", "atom": p.Species.Name, "wavelength_m": p.Wavelength, "angle_rad": p.Angle,
 		"k_R_per_m": r.Model.KR, "E_R_hz": r.Model.ERHz(), "omega_hz": p.RabiHz, "delta_hz": p.DetuningHz,
@@ -230,7 +221,7 @@ func ramanJSON(p dispersion.Raman, r dispersion.RamanResult, info dispersion.Ban
 		"nearest_line": r.NearestLine, "line_detuning_hz": r.LineDetuningHz,
 		"scattering_rate_per_s": r.ScatterRate, "heating_ER_per_s": r.HeatingER,
 		"minima": minimaJSON(info), "barrier_over_ER": info.Barrier,
-		"warnings": w, "cautions": []string{cautionLasers},
+		"warnings": w, "warning_codes": wc, "cautions": []string{cautionLasers},
 	}
 }
 
@@ -250,7 +241,7 @@ func ramanTable(p dispersion.Raman, r dispersion.RamanResult, info dispersion.Ba
 	t.Row("scattering rate Γ_sc ≈ Γ Ω/|Δ|", N(r.ScatterRate, 3), "1/s")
 	t.Row("heating ≈ 2E_R per photon", N(r.HeatingER, 3), "E_R/s")
 	for _, w := range r.Warnings {
-		t.Text("! " + w)
+		t.Text("! " + w.Text)
 	}
 	t.Section("Caution")
 	t.Text(cautionLasers)

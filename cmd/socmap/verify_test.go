@@ -102,3 +102,48 @@ func TestVerifyBadInput(t *testing.T) {
 		}
 	}
 }
+
+// Warnings carry codes beside their texts in the JSON, in the same order;
+// the sweep table picks the warnings it repeats by code (ħω ≫ E_R broken at
+// 800 Hz, and the comb overlap), not by their wording.
+func TestVerifyWarningCodes(t *testing.T) {
+	code, out, errs := runFQ(t, "verify", "--plan", fqPlan, "--method", "delta", "--x", "shake=800 Hz:3 kHz:2", "--json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var doc struct {
+		Points []struct {
+			Warnings []string `json:"warnings"`
+			Codes    []string `json:"warning_codes"`
+		} `json:"points"`
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if len(doc.Points) != 2 {
+		t.Fatalf("%d points", len(doc.Points))
+	}
+	has := func(cs []string, c string) bool {
+		for _, x := range cs {
+			if x == c {
+				return true
+			}
+		}
+		return false
+	}
+	for i, pt := range doc.Points {
+		if len(pt.Codes) != len(pt.Warnings) || len(pt.Codes) == 0 {
+			t.Errorf("point %d: %d codes for %d warnings", i, len(pt.Codes), len(pt.Warnings))
+		}
+	}
+	if p := doc.Points[0]; !has(p.Codes, "shake-vs-recoil") || !has(p.Codes, "comb-overlap") {
+		t.Errorf("800 Hz: codes %v", p.Codes)
+	}
+	code, out, errs = runFQ(t, "verify", "--plan", fqPlan, "--method", "delta", "--x", "shake=800 Hz:3 kHz:2")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if !strings.Contains(out, "! at 800.0 Hz: ħω is only") || !strings.Contains(out, "repeats every f_shake") {
+		t.Errorf("sweep table lacks the repeated warnings:\n%s", out)
+	}
+}

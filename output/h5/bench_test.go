@@ -14,8 +14,12 @@ func BenchmarkWritePoint(b *testing.B) {
 		b.Fatal(err)
 	}
 	const n = 100
-	e, _ := f.CreateDataset("/e", Float64, []int{n, n}, meta, nil)
-	d, _ := f.CreateDataset("/done", Int8, []int{n, n}, meta, nil)
+	if _, err := f.CreateDataset("/e", Float64, []int{n, n}, meta, nil); err != nil {
+		b.Fatal(err)
+	}
+	if _, err := f.CreateDataset("/done", Int8, []int{n, n}, meta, nil); err != nil {
+		b.Fatal(err)
+	}
 	if err := f.Close(); err != nil {
 		b.Fatal(err)
 	}
@@ -24,8 +28,14 @@ func BenchmarkWritePoint(b *testing.B) {
 		b.Fatal(err)
 	}
 	defer f.Close()
-	e, _ = f.OpenDataset("/e")
-	d, _ = f.OpenDataset("/done")
+	e, err := f.OpenDataset("/e")
+	if err != nil {
+		b.Fatal(err)
+	}
+	d, err := f.OpenDataset("/done")
+	if err != nil {
+		b.Fatal(err)
+	}
 	v, one := []float64{1}, []int8{1}
 	cnt := []int{1, 1}
 	b.ResetTimer()

@@ -1,4 +1,4 @@
-package floquet
+package gpe
 
 import (
 	"math"
@@ -18,7 +18,7 @@ import (
 // and a pulse is the rotation exp(−i a σ_x/2) of area a = ∫Ω dt. Nothing is
 // expanded in a, Δ or T.
 type DeltaSolver struct {
-	d  *Drive
+	d  *ShakeDrive
 	kt float64 // k_t(θ), 1/m
 	mu float64 // micromotion shift (⟨A↑²⟩−⟨A↓²⟩)/2mħ, rad/s
 }
@@ -26,14 +26,14 @@ type DeltaSolver struct {
 // NewDeltaSolver prepares the delta-pulse solution of d's setting (the
 // setting's pulse shape is ignored: pulses are taken as delta pulses of the
 // same area at the same phase).
-func NewDeltaSolver(d *Drive) *DeltaSolver {
+func NewDeltaSolver(d *ShakeDrive) *DeltaSolver {
 	return &DeltaSolver{d: d, kt: d.Result.KtDelta,
 		mu: 2 * math.Pi * (d.Result.MicroKinUpHz - d.Result.MicroKinDownHz)}
 }
 
 // Flip returns the population of ↓ after each of n pulses (trace, may be
 // nil; length ≥ n if not nil) for an atom starting in |↑, q⟩ at RF detuning
-// Δ (rad/s, see Drive.Detuning), and the final population.
+// Δ (rad/s, see ShakeDrive.Detuning), and the final population.
 func (s *DeltaSolver) Flip(q, delta float64, n int, trace []float64) float64 {
 	m, T := s.d.Mass, s.d.Period
 	hb := dispersion.Hbar

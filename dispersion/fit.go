@@ -1,11 +1,17 @@
-package floquet
+package dispersion
 
 import (
 	"errors"
+	"fmt"
 	"math"
 
 	"gonum.org/v1/gonum/mat"
 )
+
+// The fits of spin-flip spectroscopy: the line centre of a spectrum
+// (FitLine), the Doppler slope through the centres and the slope per pulse
+// phase of a calibration (FitLinear), and the effective Rabi frequency of the
+// flip dynamics (FitRabiTrace). gpe.Verify and Calibrate use them.
 
 // LineFit is the fit of the main lobe of one flip spectrum to a gaussian
 //
@@ -68,29 +74,65 @@ func FitLine(f, p []float64, c0, w0 float64) (LineFit, error) {
 	return lf, nil
 }
 
-// LinearFit is y = a + b x fitted by least squares with the standard errors
-// of a and b from the residual variance (n > 2) or, when weights are given,
-// from the data errors.
+// LinearFit is the straight line y = a + b x fitted by (weighted) least
+// squares, with the standard errors of a and b.
 type LinearFit struct {
 	Intercept, Slope       float64
 	InterceptErr, SlopeErr float64
+	Cov                    float64 // covariance of intercept and slope
+	// Weighted: the fit used the data errors (weights 1/σ²) and the
+	// parameter errors are those errors propagated; otherwise all points
+	// weigh alike and the errors come from the residual variance.
+	Weighted bool
+	// Chi2 is Σ((y − a − b x)/σ)² when weighted, the residual sum of squares
+	// otherwise; DoF = n − 2 its degrees of freedom.
+	Chi2 float64
+	DoF  int
 }
 
-// FitLinear fits y = a + b x; sy (may be nil) are standard errors of y
-// (weights 1/sy²). With sy given the parameter errors are the propagated
-// data errors; else they come from the residual variance.
+// FitLinear fits y = a + b x by least squares.
+//
+// With sy nil every point weighs alike and the errors come from the residual
+// variance s² = RSS/(n − 2): NaN for two points (an exact line has no
+// residual to estimate them from).
+//
+// With sy given (standard errors of y, each finite and > 0, else an error)
+// the fit is the standard weighted linear regression with weights
+// w = 1/σ²: with S = Σw, Sx = Σwx, Sy = Σwy, Sxx = Σwx², Sxy = Σwxy and
+// Δ = S·Sxx − Sx²,
+//
+//	b = (S·Sxy − Sx·Sy)/Δ,   a = (Sxx·Sy − Sx·Sxy)/Δ,
+//	σ_b² = S/Δ,   σ_a² = Sxx/Δ,   cov(a, b) = −Sx/Δ,
+//
+// the data errors propagated linearly (P. R. Bevington and D. K. Robinson,
+// Data Reduction and Error Analysis for the Physical Sciences, McGraw-Hill,
+// ch. 6; the same as numpy.polyfit(x, y, 1, w=1/σ, cov="unscaled"), checked
+// in testdata/ref_calibrate.py). These errors are finite for two points and
+// are not rescaled by the scatter of the points: Chi2/DoF says how well the
+// line and the errors agree.
 func FitLinear(x, y, sy []float64) (LinearFit, error) {
-	var r LinearFit
+	r := LinearFit{Weighted: sy != nil}
 	n := len(x)
+	if len(y) != n || (sy != nil && len(sy) != n) {
+		return r, errors.New("x, y and their errors differ in length")
+	}
 	if n < 2 {
 		return r, errors.New("fewer than 2 points")
 	}
+	for i := range sy {
+		if !(sy[i] > 0) || math.IsInf(sy[i], 0) {
+			return r, fmt.Errorf("point %d: standard error %g is not finite and positive", i+1, sy[i])
+		}
+	}
+	weight := func(i int) float64 {
+		if sy == nil {
+			return 1
+		}
+		return 1 / (sy[i] * sy[i])
+	}
 	var sw, sx, sy1, sxx, sxy float64
 	for i := range x {
-		w := 1.0
-		if sy != nil && sy[i] > 0 {
-			w = 1 / (sy[i] * sy[i])
-		}
+		w := weight(i)
 		sw += w
 		sx += w * x[i]
 		sy1 += w * y[i]
@@ -98,26 +140,27 @@ func FitLinear(x, y, sy []float64) (LinearFit, error) {
 		sxy += w * x[i] * y[i]
 	}
 	den := sw*sxx - sx*sx
-	if !(math.Abs(den) > 1e-300) {
+	if !(den > 1e-12*sw*sxx) {
 		return r, errors.New("all x values equal")
 	}
 	r.Slope = (sw*sxy - sx*sy1) / den
 	r.Intercept = (sxx*sy1 - sx*sxy) / den
-	varB, varA := sw/den, sxx/den
+	varB, varA, cov := sw/den, sxx/den, -sx/den
+	r.DoF = n - 2
+	for i := range x {
+		e := y[i] - r.Intercept - r.Slope*x[i]
+		r.Chi2 += weight(i) * e * e
+	}
 	if sy == nil {
-		rss := 0.0
-		for i := range x {
-			e := y[i] - r.Intercept - r.Slope*x[i]
-			rss += e * e
-		}
 		s2 := math.NaN()
 		if n > 2 {
-			s2 = rss / float64(n-2)
+			s2 = r.Chi2 / float64(n-2)
 		}
 		varB *= s2
 		varA *= s2
+		cov *= s2
 	}
-	r.SlopeErr, r.InterceptErr = math.Sqrt(varB), math.Sqrt(varA)
+	r.SlopeErr, r.InterceptErr, r.Cov = math.Sqrt(varB), math.Sqrt(varA), cov
 	return r, nil
 }
 

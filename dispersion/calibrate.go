@@ -1,4 +1,4 @@
-package floquet
+package dispersion
 
 import (
 	"encoding/csv"
@@ -8,8 +8,6 @@ import (
 	"math"
 	"strconv"
 	"strings"
-
-	"socmap/dispersion"
 )
 
 // Calibration is the fit of measured recoils to
@@ -28,6 +26,12 @@ import (
 // by eddy currents) gives exactly k_t = k_nom (b_eff/b′) cos(θ − θ_lag):
 // θ_lag > 0 means the gradient at the atoms lags the drive.
 type Calibration struct {
+	// The data fitted: pulse phases θ (rad) and recoils k_t (1/m); Slope
+	// holds the Doppler slopes (Hz per mm/s of the RF resonance against
+	// velocity) they came from when the fit started from slopes
+	// (CalibrateSlopes, CalibrateCSV), else nil.
+	Theta, Kt, Slope []float64
+
 	N                 int     // number of phases fitted
 	A, B              float64 // k_t = A cos θ + B sin θ, 1/m
 	CovAA, CovAB      float64 // covariance of (A, B), 1/m²
@@ -56,7 +60,7 @@ func badData(format string, a ...any) error {
 // frequency f_RF against velocity in Hz per mm/s, into k_t (1/m) for a
 // transition with sign sgnF0 = sgn(f0): k_t = 2π sgn(f0) × slope × 10³
 // (the resonance moves by k_t v/2π in sgn(f0)(f_RF − |f0|), see
-// Drive.ModelResonanceHz).
+// gpe.ShakeDrive.ModelResonanceHz).
 func SlopeToKt(slopeHzPerMmS, sgnF0 float64) float64 {
 	return 2 * math.Pi * sgnF0 * slopeHzPerMmS * 1e3
 }
@@ -64,7 +68,7 @@ func SlopeToKt(slopeHzPerMmS, sgnF0 float64) float64 {
 // Calibrate fits k_t(θ) to phases theta (rad) and recoils kt (1/m) and
 // compares with the nominal setting p (its Phase, Pulse and Rabi settings
 // are ignored; the waveform must be the sine).
-func Calibrate(p dispersion.Shake, theta, kt []float64) (Calibration, error) {
+func Calibrate(p Shake, theta, kt []float64) (Calibration, error) {
 	var c Calibration
 	if p.Waveform != nil && p.Waveform.Name() != "sine" {
 		return c, badData("the calibration law k_max cos(θ − θ_lag) holds for the sine waveform, not %s", p.Waveform.Name())
@@ -95,6 +99,7 @@ func Calibrate(p dispersion.Shake, theta, kt []float64) (Calibration, error) {
 		return c, badData("the phases do not determine the fit: they must take at least two values that are not equal or 180° apart")
 	}
 	c.N = n
+	c.Theta, c.Kt = append([]float64(nil), theta...), append([]float64(nil), kt...)
 	c.A = (sss*scy - scs*ssy) / det
 	c.B = (scc*ssy - scs*scy) / det
 	rss := 0.0
@@ -111,7 +116,7 @@ func Calibrate(p dispersion.Shake, theta, kt []float64) (Calibration, error) {
 		return c, err
 	}
 	omega := 2 * math.Pi * p.ShakeHz
-	c.KNominal = -r.DeltaForce / (dispersion.Hbar * omega)
+	c.KNominal = -r.DeltaForce / (Hbar * omega)
 	sg := 1.0
 	if c.KNominal < 0 {
 		sg = -1
@@ -127,7 +132,7 @@ func Calibrate(p dispersion.Shake, theta, kt []float64) (Calibration, error) {
 	}
 	dmu := math.Abs(r.MomentUp - r.MomentDown)
 	if dmu > 0 {
-		c.GradientEff = k * dispersion.Hbar * omega / dmu
+		c.GradientEff = k * Hbar * omega / dmu
 	}
 	if c.KNominal != 0 {
 		c.GradientRatio = c.KMax / c.KNominal
@@ -138,6 +143,32 @@ func Calibrate(p dispersion.Shake, theta, kt []float64) (Calibration, error) {
 	c.PhaseZero = math.Mod(c.Lag+math.Pi/2+2*math.Pi, math.Pi)
 	c.DopplerFromKtHzMM = 1e-3 / (2 * math.Pi)
 	return c, nil
+}
+
+// CalibrateSlopes converts measured Doppler slopes (Hz per mm/s of the RF
+// resonance frequency against velocity) into recoils with the sign sgn(f0)
+// of p's transition (SlopeToKt) and fits them (Calibrate).
+func CalibrateSlopes(p Shake, theta, slopes []float64) (Calibration, error) {
+	sgn := math.Copysign(1, p.Species.TransitionHz(p.Up, p.Down, p.Bias))
+	kt := make([]float64, len(slopes))
+	for i, s := range slopes {
+		kt[i] = SlopeToKt(s, sgn)
+	}
+	c, err := Calibrate(p, theta, kt)
+	if err == nil {
+		c.Slope = append([]float64(nil), slopes...)
+	}
+	return c, err
+}
+
+// CalibrateCSV reads measurements in the form of ReadCalibrationCSV and fits
+// them (CalibrateSlopes). Errors about the data match ErrBadData.
+func CalibrateCSV(p Shake, r io.Reader) (Calibration, error) {
+	theta, slopes, err := ReadCalibrationCSV(r)
+	if err != nil {
+		return Calibration{}, err
+	}
+	return CalibrateSlopes(p, theta, slopes)
 }
 
 // Curve returns the fitted k_t at phase θ (rad).

@@ -1,4 +1,4 @@
-package floquet
+package gpe
 
 import (
 	"testing"
@@ -8,12 +8,12 @@ import (
 // rectangular pulses) on the grid Verify chooses for it.
 func BenchmarkRunDemoWindow(b *testing.B) {
 	p := demoShake(b)
-	d, err := NewDrive(p)
+	d, err := NewShakeDrive(p)
 	if err != nil {
 		b.Fatal(err)
 	}
-	g := GridFor(d, []float64{-1.7e-3, 1.7e-3}, 0.05, 22.6e-6)
-	rt, err := NewRealTime(d, g)
+	g := LabGridFor(d, []float64{-1.7e-3, 1.7e-3}, 0.05, 22.6e-6)
+	rt, err := NewLabFrame(d, g)
 	if err != nil {
 		b.Fatal(err)
 	}
@@ -35,7 +35,7 @@ func BenchmarkVerifyDelta(b *testing.B) {
 	p := demoShake(b)
 	p.Pulse = 0
 	for i := 0; i < b.N; i++ {
-		if _, err := Verify(p, Settings{}); err != nil {
+		if _, err := Verify(p, VerifySettings{}); err != nil {
 			b.Fatal(err)
 		}
 	}

@@ -1,6 +1,7 @@
-package floquet
+package gpe
 
 import (
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -21,8 +22,8 @@ func demoShake(t testing.TB) dispersion.Shake {
 		PulseWidth: 30e-6, RabiHz: 20, DetuningHz: 145.4}
 }
 
-func newWorker(t *testing.T, d *Drive, g Grid) *Worker {
-	rt, err := NewRealTime(d, g)
+func newWorker(t *testing.T, d *ShakeDrive, g LabGrid) *LabWorker {
+	rt, err := NewLabFrame(d, g)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -40,14 +41,14 @@ func newWorker(t *testing.T, d *Drive, g Grid) *Worker {
 func TestFreeGaussianSpreading(t *testing.T) {
 	p := demoShake(t)
 	p.Gradient, p.RabiHz = 0, 0
-	d, err := NewDrive(p)
+	d, err := NewShakeDrive(p)
 	if err != nil {
 		t.Fatal(err)
 	}
 	m, hb := d.Mass, dispersion.Hbar
 	s0 := 2e-6
 	q0 := 1e6
-	g := Grid{N: 2048, L: 800e-6, SigmaX: s0}
+	g := LabGrid{N: 2048, L: 800e-6, SigmaX: s0}
 	g.Dx = g.L / float64(g.N)
 	g.X0 = -g.L / 4
 	w := newWorker(t, d, g)
@@ -73,13 +74,13 @@ func TestFreeGaussianSpreading(t *testing.T) {
 func TestMicromotionEhrenfest(t *testing.T) {
 	p := demoShake(t)
 	p.RabiHz = 0
-	d, err := NewDrive(p)
+	d, err := NewShakeDrive(p)
 	if err != nil {
 		t.Fatal(err)
 	}
 	m, hb := d.Mass, dispersion.Hbar
 	q0 := -5e5
-	g := Grid{N: 1024, L: 200e-6, SigmaX: 5e-6}
+	g := LabGrid{N: 1024, L: 200e-6, SigmaX: 5e-6}
 	g.Dx = g.L / float64(g.N)
 	g.X0 = -g.L / 2
 	w := newWorker(t, d, g)
@@ -90,7 +91,7 @@ func TestMicromotionEhrenfest(t *testing.T) {
 		w.Init(q0)
 		w.FreeRun(tt)
 		x, _ := w.Moments(0)
-		want := hb*q0*tt/m - f/(m*d.Omega*d.Omega)*(math.Sin(d.Omega*(t0+tt))-math.Sin(d.Omega*t0))
+		want := hb*q0*tt/m - f/(m*d.AngularFreq*d.AngularFreq)*(math.Sin(d.AngularFreq*(t0+tt))-math.Sin(d.AngularFreq*t0))
 		if math.Abs(x-want) > 1e-6*math.Abs(want)+1e-13 {
 			t.Errorf("t = %.2f T: ⟨x⟩ = %.9g m, Newton %.9g m", frac, x, want)
 		}
@@ -107,11 +108,11 @@ func TestNormConservation(t *testing.T) {
 	}{{dispersion.PulseRect, 30e-6}, {dispersion.PulseGauss, 20e-6}, {dispersion.PulseContinuous, 0}, {dispersion.PulseDelta, 0}} {
 		p := demoShake(t)
 		p.Pulse, p.PulseWidth, p.RabiHz = c.pulse, c.width, 200
-		d, err := NewDrive(p)
+		d, err := NewShakeDrive(p)
 		if err != nil {
 			t.Fatal(err)
 		}
-		g := GridFor(d, []float64{-1e-3, 1e-3}, 30*d.Period, 10e-6)
+		g := LabGridFor(d, []float64{-1e-3, 1e-3}, 30*d.Period, 10e-6)
 		w := newWorker(t, d, g)
 		w.Init(d.Mass * 1e-3 / dispersion.Hbar)
 		trace := make([]float64, 30)
@@ -135,7 +136,7 @@ func TestNormConservation(t *testing.T) {
 func TestDeltaSolverMatchesRealTime(t *testing.T) {
 	p := demoShake(t)
 	p.Pulse, p.RabiHz = dispersion.PulseDelta, 40
-	d, err := NewDrive(p)
+	d, err := NewShakeDrive(p)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -144,16 +145,16 @@ func TestDeltaSolverMatchesRealTime(t *testing.T) {
 	sig := 15e-6
 	sigK := 1 / (2 * sig)
 	q0 := d.Mass * v / dispersion.Hbar
-	g := GridFor(d, []float64{v}, float64(n)*d.Period, sig)
+	g := LabGridFor(d, []float64{v}, float64(n)*d.Period, sig)
 	w := newWorker(t, d, g)
 	ds := NewDeltaSolver(d)
 	pr := p
 	pr.Pulse, pr.PulseWidth = dispersion.PulseRect, 2e-6
-	dr, err := NewDrive(pr)
+	dr, err := NewShakeDrive(pr)
 	if err != nil {
 		t.Fatal(err)
 	}
-	wr := newWorker(t, dr, GridFor(dr, []float64{v}, float64(n)*d.Period, sig))
+	wr := newWorker(t, dr, LabGridFor(dr, []float64{v}, float64(n)*d.Period, sig))
 	c := d.ModelResonanceHz(v)
 	for _, off := range []float64{-20, -7, 0, 5, 13} {
 		det := d.Detuning(c + off)
@@ -179,7 +180,7 @@ func TestDeltaSolverRabiAndComb(t *testing.T) {
 	p := demoShake(t)
 	p.Pulse = dispersion.PulseDelta
 	p.RabiHz = 3000.0 / 100 // area 2π/100 per pulse: π after 50 pulses
-	d, err := NewDrive(p)
+	d, err := NewShakeDrive(p)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -203,11 +204,11 @@ func TestDeltaSolverRabiAndComb(t *testing.T) {
 func TestVerifyDeltaExact(t *testing.T) {
 	p := demoShake(t)
 	p.Pulse = dispersion.PulseDelta
-	r, err := Verify(p, Settings{})
+	r, err := Verify(p, VerifySettings{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if r.Status != OK || math.Abs(Deviation(r.KtMeasured, r.KtModel)) > 1e-9 || math.Abs(r.InterceptMeasuredHz-r.InterceptModelHz) > 1e-6 {
+	if r.Status != VerifyOK || math.Abs(Deviation(r.KtMeasured, r.KtModel)) > 1e-9 || math.Abs(r.InterceptMeasuredHz-r.InterceptModelHz) > 1e-6 {
 		t.Errorf("delta pulses: k_t %g vs model %g, resonance at v=0 %g vs %g Hz (status %v)", r.KtMeasured, r.KtModel, r.InterceptMeasuredHz, r.InterceptModelHz, r.Status)
 	}
 	// On resonance the stroboscopic map rotates by the pulse area per
@@ -225,15 +226,15 @@ func TestVerifyDeltaExact(t *testing.T) {
 func TestVerifyShortWeakPulses(t *testing.T) {
 	p := demoShake(t)
 	p.PulseWidth = 10e-6
-	d, _ := NewDrive(p)
+	d, _ := NewShakeDrive(p)
 	vr := dispersion.Hbar * math.Abs(d.Result.KtMean) / d.Mass
-	r, err := Verify(p, Settings{Velocities: []float64{-vr, 0, vr}})
+	r, err := Verify(p, VerifySettings{Velocities: []float64{-vr, 0, vr}})
 	if err != nil {
 		t.Fatal(err)
 	}
 	t.Logf("k_t model %.6g measured %.6g (%.3f%%), slope %.5g vs %.5g Hz per mm/s, Rabi %.4g vs %.4g Hz, norm dev %.2g",
 		r.KtModel, r.KtMeasured, 100*Deviation(r.KtMeasured, r.KtModel), r.SlopeModel, r.SlopeMeasured, r.RabiModelHz, r.RabiMeasuredHz, r.NormDev)
-	if r.Status != OK {
+	if r.Status != VerifyOK {
 		t.Fatalf("status %v: %v", r.Status, r.Warnings)
 	}
 	if e := Deviation(r.KtMeasured, r.KtModel); math.Abs(e) > 0.01 {
@@ -265,13 +266,13 @@ func TestDeviationGrowsWithPulseWidth(t *testing.T) {
 		t.Skip("long")
 	}
 	p := demoShake(t)
-	d, _ := NewDrive(p)
+	d, _ := NewShakeDrive(p)
 	vr := dispersion.Hbar * math.Abs(d.Result.KtMean) / d.Mass
 	var prev float64
 	for i, w := range []float64{10e-6, 50e-6, 100e-6} {
 		q := p
 		q.PulseWidth = w
-		r, err := Verify(q, Settings{Velocities: []float64{-vr, vr}})
+		r, err := Verify(q, VerifySettings{Velocities: []float64{-vr, vr}})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -290,11 +291,11 @@ func TestDeviationGrowsWithPulseWidth(t *testing.T) {
 // The propagation loop allocates nothing (style rule of the project).
 func TestRunAllocatesNothing(t *testing.T) {
 	p := demoShake(t)
-	d, err := NewDrive(p)
+	d, err := NewShakeDrive(p)
 	if err != nil {
 		t.Fatal(err)
 	}
-	w := newWorker(t, d, GridFor(d, []float64{0}, 0.01, 10e-6))
+	w := newWorker(t, d, LabGridFor(d, []float64{0}, 0.01, 10e-6))
 	w.Init(0)
 	trace := make([]float64, 3)
 	if n := testing.AllocsPerRun(3, func() { w.Run(500, 3, trace) }); n != 0 {
@@ -311,7 +312,7 @@ func TestPulseAreaPerWindow(t *testing.T) {
 	}{{dispersion.PulseRect, 30e-6}, {dispersion.PulseGauss, 40e-6}, {dispersion.PulseGauss, 200e-6}, {dispersion.PulseContinuous, 0}} {
 		p := demoShake(t)
 		p.Pulse, p.PulseWidth = c.pulse, c.width
-		d, err := NewDrive(p)
+		d, err := NewShakeDrive(p)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -331,20 +332,95 @@ func TestLowShakeFrequencyWarnings(t *testing.T) {
 	for _, f := range []float64{3000, 800} {
 		p := demoShake(t)
 		p.Pulse, p.ShakeHz = dispersion.PulseDelta, f
-		r, err := Verify(p, Settings{})
+		r, err := Verify(p, VerifySettings{})
 		if err != nil {
 			t.Fatal(err)
 		}
 		comb, hw := false, false
 		for _, w := range r.Warnings {
-			comb = comb || strings.Contains(w, "repeats every f_shake")
-			hw = hw || strings.Contains(w, "ħω is only")
+			comb = comb || strings.Contains(w.Text, "repeats every f_shake")
+			hw = hw || strings.Contains(w.Text, "ħω is only")
 		}
 		if low := f < 1000; comb != low || hw != low {
 			t.Errorf("f_shake %g Hz: comb warning %v, ħω warning %v (want %v): %v", f, comb, hw, low, r.Warnings)
 		}
+		// The codes say the same as the texts.
+		combC, hwC := dispersion.HasWarning(r.Warnings, WarnCombOverlap), dispersion.HasWarning(r.Warnings, dispersion.WarnShakeVsRecoil)
+		if combC != comb || hwC != hw {
+			t.Errorf("f_shake %g Hz: codes comb %v ħω %v disagree with the texts (%v, %v)", f, combC, hwC, comb, hw)
+		}
 		if math.Abs(Deviation(r.KtMeasured, r.KtModel)) > 1e-6 {
 			t.Errorf("f_shake %g Hz: delta-pulse k_t deviates by %g", f, Deviation(r.KtMeasured, r.KtModel))
+		}
+	}
+}
+
+// The Doppler slope is the weighted line through the fitted centres with
+// their standard errors: for two velocities its error is the propagated
+// closed form √(σ1² + σ2²)/|v2 − v1| (finite, where an unweighted fit of two
+// points has no residual to give one), and for three velocities slope and
+// error are those of dispersion.FitLinear on the centres (whose weighted
+// regression is checked against numpy.polyfit).
+func TestVerifyDopplerFitWeighted(t *testing.T) {
+	p := demoShake(t)
+	p.Pulse = dispersion.PulseDelta
+	r, err := Verify(p, VerifySettings{Velocities: []float64{-1e-3, 1.5e-3}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	s0, s1 := r.Spectra[0], r.Spectra[1]
+	want := math.Hypot(s0.Fit.CentreErrHz, s1.Fit.CentreErrHz) / math.Abs((s1.Velocity-s0.Velocity)*1e3)
+	if !(r.SlopeErr > 0) || math.Abs(r.SlopeErr/want-1) > 1e-9 || math.Abs(r.KtErr/(2*math.Pi*1e3*want)-1) > 1e-9 {
+		t.Errorf("two velocities: slope error %g (k_t error %g), propagated centre errors %g Hz per mm/s", r.SlopeErr, r.KtErr, want)
+	}
+	if !math.IsNaN(r.SlopeChi2) || dispersion.HasWarning(r.Warnings, WarnDopplerUnweighted) {
+		t.Errorf("two velocities: χ²/dof %g (want NaN), warnings %v", r.SlopeChi2, r.Warnings)
+	}
+	vs := []float64{-2e-3, 0.5e-3, 1e-3}
+	r, err = Verify(p, VerifySettings{Velocities: vs})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var x, y, sy []float64
+	for _, sp := range r.Spectra {
+		x, y, sy = append(x, sp.Velocity*1e3), append(y, r.SignF0*sp.Fit.CentreHz), append(sy, sp.Fit.CentreErrHz)
+	}
+	lf, err := dispersion.FitLinear(x, y, sy)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.SlopeMeasured != lf.Slope || r.SlopeErr != lf.SlopeErr || math.Abs(r.SlopeChi2-lf.Chi2) > 1e-12*lf.Chi2+1e-300 {
+		t.Errorf("three velocities: slope %g ± %g (χ²/dof %g), weighted fit of the centres %g ± %g (χ² %g)", r.SlopeMeasured, r.SlopeErr, r.SlopeChi2, lf.Slope, lf.SlopeErr, lf.Chi2)
+	}
+}
+
+// The demo setting (30 µs pulses, real time): the five centres are not on a
+// straight line within their errors (χ²/dof ≈ 60), and Verify says so with
+// the error scaled by √(χ²/dof) beside the propagated one; delta pulses
+// (centres on a line) do not trip the warning.
+func TestVerifyDopplerScatterWarning(t *testing.T) {
+	if testing.Short() {
+		t.Skip("long")
+	}
+	for _, c := range []struct {
+		pulse dispersion.PulseShape
+		want  bool
+	}{{dispersion.PulseDelta, false}, {dispersion.PulseRect, true}} {
+		p := demoShake(t)
+		p.Pulse = c.pulse
+		r, err := Verify(p, VerifySettings{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		got := dispersion.HasWarning(r.Warnings, WarnDopplerScatter)
+		if got != c.want || got != (r.SlopeChi2 > DopplerChi2Limit) {
+			t.Errorf("%v: χ²/dof %.3g, scatter warning %v (want %v)", c.pulse, r.SlopeChi2, got, c.want)
+		}
+		if got {
+			scaled := fmt.Sprintf("±%.2g Hz per mm/s", math.Sqrt(r.SlopeChi2)*r.SlopeErr)
+			if txt := strings.Join(dispersion.WarningTexts(r.Warnings), "\n"); !strings.Contains(txt, scaled) {
+				t.Errorf("%v: warning lacks the scaled error %s: %s", c.pulse, scaled, txt)
+			}
 		}
 	}
 }

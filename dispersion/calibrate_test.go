@@ -1,4 +1,4 @@
-package floquet
+package dispersion
 
 import (
 	"encoding/json"
@@ -9,6 +9,19 @@ import (
 	"strings"
 	"testing"
 )
+
+// demoShake is the built-in example plan (cmd/socmap/plans/demo.toml):
+// 87Rb |1,0>↔|1,-1>, 60 G, 100 G/cm at 3 kHz, 30 µs rectangular pulses at
+// θ = 0, Ω/2π = 20 Hz.
+func demoShake(t testing.TB) Shake {
+	sp, err := LookupSpecies("Rb87")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return Shake{Species: sp, Up: Sublevel{F: 1, M: 0}, Down: Sublevel{F: 1, M: -1},
+		Bias: 60e-4, Gradient: 1, ShakeHz: 3000, Waveform: Sine{}, Pulse: PulseRect,
+		PulseWidth: 30e-6, RabiHz: 20, DetuningHz: 145.4}
+}
 
 // The fit of the synthetic example agrees with numpy.linalg.lstsq and
 // scipy.optimize.curve_fit (testdata/ref_calibrate.py → ref_calibrate.json),
@@ -142,5 +155,44 @@ func TestCalibratePointsForm(t *testing.T) {
 	}
 	if len(th) != 2 || math.Abs(sl[0]+376) > 1e-9 || math.Abs(sl[1]-10) > 1e-9 || math.Abs(th[1]-math.Pi/2) > 1e-15 {
 		t.Errorf("phases %v slopes %v", th, sl)
+	}
+}
+
+// CalibrateCSV is ReadCalibrationCSV + SlopeToKt with sgn(f0) + Calibrate in
+// one call: the same fit, and it keeps the data.
+func TestCalibrateCSVOneCall(t *testing.T) {
+	p := demoShake(t)
+	f, err := os.Open("../testdata/calibrate_example.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	c, err := CalibrateCSV(p, f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := f.Seek(0, 0); err != nil {
+		t.Fatal(err)
+	}
+	th, sl, err := ReadCalibrationCSV(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if p.Species.TransitionHz(p.Up, p.Down, p.Bias) <= 0 {
+		t.Fatal("the demo transition has f0 > 0")
+	}
+	kt := make([]float64, len(sl))
+	for i, s := range sl {
+		kt[i] = SlopeToKt(s, 1)
+	}
+	want, err := Calibrate(p, th, kt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if c.KMax != want.KMax || c.Lag != want.Lag || c.KMaxErr != want.KMaxErr || len(c.Slope) != len(sl) || len(c.Theta) != len(th) || c.Kt[3] != kt[3] {
+		t.Errorf("one call: k_max %g lag %g (%d slopes), separate calls %g %g", c.KMax, c.Lag, len(c.Slope), want.KMax, want.Lag)
+	}
+	if _, err := CalibrateCSV(p, strings.NewReader("phase_deg,slope_hz_per_mm_s\n0,1\n")); !errors.Is(err, ErrBadData) {
+		t.Errorf("one row: err = %v, want ErrBadData", err)
 	}
 }

@@ -1,12 +1,21 @@
-// Package floquet solves the shaken two-level dynamics of the gradient-shaking
-// + RF-pulse scheme without the cycle average, and turns it into the
-// measurements an experiment makes: spin-flip spectra against RF detuning for
-// several mean velocities, the resonance centres, the Doppler slope and hence
-// the measured recoil k_t, the mean momentum transfer per flip and the
-// effective Rabi frequency. It also fits a recoil calibration k_t(θ) =
-// k_max cos(θ − θ_lag) to measured Doppler slopes (Calibrate).
+package gpe
+
+import (
+	"fmt"
+	"math"
+
+	"socmap/dispersion"
+)
+
+// ShakeDrive is the time dependence of one setting of the gradient-shaking +
+// RF-pulse scheme, for solving its dynamics without the cycle average (the
+// lab-frame solvers DeltaSolver and LabFrame, the measurements of Verify):
+// impulses, the RF envelope and the detuning convention. It is read-only
+// after NewShakeDrive and may be shared between goroutines. Unlike the
+// ground-state solvers of this package it works in SI units (m, s, 1/m,
+// rad/s; frequencies named …Hz are ordinary frequencies), for one atom.
 //
-// # Physics (DESIGN.md §1)
+// # Physics (DESIGN.md, "Magnetic-gradient shaking + RF pulses")
 //
 // One atom moves along the gradient axis x in the lab frame. Its two
 // pseudo-spin states feel the spin-dependent uniform force F_σ s(ωt) = μ_σ b′
@@ -33,43 +42,30 @@
 // at ħk_t/m relative to the unflipped one, so over an interrogation of length
 // t it samples |x| ~ ħk_t t/m; when the spread of κ over a pulse times that
 // distance is not small, the pulses' couplings no longer add up coherently
-// and the effective Rabi frequency falls below the cycle average. verify
+// and the effective Rabi frequency falls below the cycle average. Verify
 // shows this; the cycle average does not.
 //
-// Two solvers:
+// Two solvers of these equations:
 //
 //   - DeltaSolver: infinitely short pulses. A velocity class q couples only to
 //     |↓, q + k_t(θ)⟩; over one period each state gains the exact phase
 //     ∫(ħq_σ + A_σ)²/2mħ dt = [ħq_σ²/2m + ⟨A_σ²⟩/2mħ] T (the cross term
 //     vanishes because ⟨A_σ⟩ = 0), and a pulse is the exact SU(2) rotation
 //     exp(−i a σ_x/2) of area a. Iterated pulse by pulse: all orders in a.
-//   - RealTime: finite pulses (rectangular, gaussian) and the continuous drive,
-//     a split-step Fourier integration of φ on a periodic 1-D grid (Strang
-//     splitting of the RF coupling, local in x, and the kinetic part, exact in
-//     q including ∫A_σ and ∫A_σ² over each step). Every step is unitary.
-//
-// Units: SI throughout (m, s, 1/m, rad/s); frequencies named …Hz are
-// ordinary frequencies.
-package floquet
-
-import (
-	"fmt"
-	"math"
-
-	"socmap/dispersion"
-)
-
-// Drive holds the time dependence of one shaking setting: impulses, the RF
-// envelope and the detuning convention. It is read-only after NewDrive and
-// may be shared between goroutines.
-type Drive struct {
+//   - LabFrame (with LabWorker): finite pulses (rectangular, gaussian) and
+//     the continuous drive, a split-step Fourier integration of φ on a
+//     periodic 1-D grid (Strang splitting of the RF coupling, local in x,
+//     and the kinetic part, exact in q including ∫A_σ and ∫A_σ² over each
+//     step). Every step is unitary. It runs on the real-time machinery of
+//     this package (Stepper).
+type ShakeDrive struct {
 	Shake  dispersion.Shake
 	Result dispersion.ShakeResult // the effective (cycle-averaged) model of Shake
 
-	Mass   float64 // kg
-	Omega  float64 // ω = 2π f_shake, rad/s
-	Period float64 // T = 1/f_shake, s
-	SignF0 float64 // sgn(f0), f0 = (E↓ − E↑)/h
+	Mass        float64 // kg
+	AngularFreq float64 // shaking angular frequency ω = 2π f_shake, rad/s (not the Rabi coupling Ω)
+	Period      float64 // T = 1/f_shake, s
+	SignF0      float64 // sgn(f0), f0 = (E↓ − E↑)/h
 
 	// A_σ(t) = AmpUp/AmpDown × S(ωt) (N s), S the zero-mean cycle integral
 	// of the waveform (dispersion.Cycle): AmpUp = μ↑ b′/ω.
@@ -77,13 +73,13 @@ type Drive struct {
 
 	RabiPeak float64 // peak Rabi frequency of a pulse, rad/s (continuous: 2πΩ/2π)
 	Area     float64 // pulse area per cycle ∫Ω dt, rad
-	Tc       float64 // time of the first pulse centre, θ/ω, s
+	Tc       float64 // time of the first pulse centre, θ/ω (θ = Shake.PulsePhase), s
 
 	cyc *dispersion.Cycle
 }
 
-// NewDrive evaluates the effective model of p and prepares its drive.
-func NewDrive(p dispersion.Shake) (*Drive, error) {
+// NewShakeDrive evaluates the effective model of p and prepares its drive.
+func NewShakeDrive(p dispersion.Shake) (*ShakeDrive, error) {
 	if p.Waveform == nil {
 		p.Waveform = dispersion.Sine{}
 	}
@@ -95,23 +91,23 @@ func NewDrive(p dispersion.Shake) (*Drive, error) {
 	if err != nil {
 		return nil, err
 	}
-	d := &Drive{Shake: p, Result: r, Mass: p.Species.Mass, Omega: 2 * math.Pi * p.ShakeHz,
+	d := &ShakeDrive{Shake: p, Result: r, Mass: p.Species.Mass, AngularFreq: 2 * math.Pi * p.ShakeHz,
 		Period: 1 / p.ShakeHz, cyc: cyc}
 	d.SignF0 = math.Copysign(1, p.Species.TransitionHz(p.Up, p.Down, p.Bias))
-	d.AmpUp = r.MomentUp * p.Gradient / d.Omega
-	d.AmpDown = r.MomentDown * p.Gradient / d.Omega
+	d.AmpUp = r.MomentUp * p.Gradient / d.AngularFreq
+	d.AmpDown = r.MomentDown * p.Gradient / d.AngularFreq
 	d.Area = r.PulseArea
 	d.RabiPeak = 2 * math.Pi * r.PeakRabiHz
 	if p.Pulse == dispersion.PulseContinuous {
 		d.RabiPeak = 2 * math.Pi * p.RabiHz
 	}
-	d.Tc = p.Phase / d.Omega
+	d.Tc = p.PulsePhase / d.AngularFreq
 	return d, nil
 }
 
 // A returns the impulse A_σ(t) (N s) of state σ (0 = ↑, 1 = ↓).
-func (d *Drive) A(sigma int, t float64) float64 {
-	s := d.cyc.Impulse(d.Omega * t)
+func (d *ShakeDrive) A(sigma int, t float64) float64 {
+	s := d.cyc.Impulse(d.AngularFreq * t)
 	if sigma == 0 {
 		return d.AmpUp * s
 	}
@@ -120,13 +116,13 @@ func (d *Drive) A(sigma int, t float64) float64 {
 
 // Kappa returns κ(t) = (A↑(t) − A↓(t))/ħ (1/m): the canonical momentum
 // transfer of a flip ↑→↓ at time t; κ(θ/ω) = k_t of a delta pulse.
-func (d *Drive) Kappa(t float64) float64 {
-	return (d.AmpUp - d.AmpDown) * d.cyc.Impulse(d.Omega*t) / dispersion.Hbar
+func (d *ShakeDrive) Kappa(t float64) float64 {
+	return (d.AmpUp - d.AmpDown) * d.cyc.Impulse(d.AngularFreq*t) / dispersion.Hbar
 }
 
 // Detuning returns Δ = 2π sgn(f0)(f_RF − |f0|) in rad/s for an RF detuning
 // f_RF − |f0| given in Hz.
-func (d *Drive) Detuning(rfDetuningHz float64) float64 {
+func (d *ShakeDrive) Detuning(rfDetuningHz float64) float64 {
 	return 2 * math.Pi * d.SignF0 * rfDetuningHz
 }
 
@@ -137,7 +133,7 @@ func (d *Drive) Detuning(rfDetuningHz float64) float64 {
 //
 // from equating the model energies of |↑, k⟩ and |↓, k⟩ (ħ(k ∓ k_R) = p),
 // i.e. Doppler shift + 4E_R/h − micromotion shift.
-func (d *Drive) ModelResonanceHz(v float64) float64 {
+func (d *ShakeDrive) ModelResonanceHz(v float64) float64 {
 	kt := d.Result.KtMean
 	return d.SignF0 * (kt*v/(2*math.Pi) + dispersion.Hbar*kt*kt/(4*math.Pi*d.Mass) - d.Result.MicroShiftHz)
 }
@@ -145,7 +141,7 @@ func (d *Drive) ModelResonanceHz(v float64) float64 {
 // pulseHalf returns the half-length (s) of the part of a window, centred on
 // the pulse, where the RF is on: rect τ/2, gauss 3·FWHM, continuous and
 // pulses longer than a period T/2, delta 0.
-func (d *Drive) pulseHalf() float64 {
+func (d *ShakeDrive) pulseHalf() float64 {
 	p := d.Shake
 	switch p.Pulse {
 	case dispersion.PulseRect:
@@ -162,7 +158,7 @@ func (d *Drive) pulseHalf() float64 {
 // centre (|u| ≤ T/2). Gaussian pulses sum the neighbouring pulses of the
 // train (Ω(u) = Ω_p exp(−4 ln2 u²/τ²), area Ω_p τ √(π/4ln2)); a rectangular
 // pulse is Ω_p on |u| ≤ τ/2.
-func (d *Drive) RabiArea(u1, u2 float64) float64 {
+func (d *ShakeDrive) RabiArea(u1, u2 float64) float64 {
 	p := d.Shake
 	switch p.Pulse {
 	case dispersion.PulseRect:
@@ -186,7 +182,7 @@ func (d *Drive) RabiArea(u1, u2 float64) float64 {
 }
 
 // rabiAt returns Ω(u) (rad/s) at time u from a pulse centre.
-func (d *Drive) rabiAt(u float64) float64 {
+func (d *ShakeDrive) rabiAt(u float64) float64 {
 	p := d.Shake
 	switch p.Pulse {
 	case dispersion.PulseRect:
@@ -209,7 +205,7 @@ func (d *Drive) rabiAt(u float64) float64 {
 
 // impulseIntegrals returns ∫A_σ dt and ∫A_σ² dt (σ = ↑, ↓) over [t1, t2]
 // by composite Simpson with n (even) intervals.
-func (d *Drive) impulseIntegrals(t1, t2 float64, n int) (iu, id, iu2, id2 float64) {
+func (d *ShakeDrive) impulseIntegrals(t1, t2 float64, n int) (iu, id, iu2, id2 float64) {
 	if n%2 == 1 {
 		n++
 	}
@@ -222,7 +218,7 @@ func (d *Drive) impulseIntegrals(t1, t2 float64, n int) (iu, id, iu2, id2 float6
 		} else if i%2 == 1 {
 			w = 4
 		}
-		v := d.cyc.Impulse(d.Omega * (t1 + float64(i)*h))
+		v := d.cyc.Impulse(d.AngularFreq * (t1 + float64(i)*h))
 		s1 += w * v
 		s2 += w * v * v
 	}
@@ -231,7 +227,7 @@ func (d *Drive) impulseIntegrals(t1, t2 float64, n int) (iu, id, iu2, id2 float6
 	return d.AmpUp * s1, d.AmpDown * s1, d.AmpUp * d.AmpUp * s2, d.AmpDown * d.AmpDown * s2
 }
 
-func (d *Drive) String() string {
+func (d *ShakeDrive) String() string {
 	return fmt.Sprintf("%s %v↔%v, %g Hz %s, %s", d.Shake.Species.Name, d.Shake.Up, d.Shake.Down,
 		d.Shake.ShakeHz, d.Shake.Waveform.Name(), d.Shake.Pulse)
 }

@@ -1,4 +1,4 @@
-package floquet
+package gpe
 
 import (
 	"fmt"
@@ -9,8 +9,9 @@ import (
 	"socmap/gpe/fft"
 )
 
-// Grid is the periodic 1-D grid of the real-time simulation.
-type Grid struct {
+// LabGrid is the periodic 1-D grid of the lab-frame shaking simulation
+// (LabFrame), in SI units. Unlike Grid its box need not be centred on 0.
+type LabGrid struct {
 	N      int     // points (a power of 2)
 	L      float64 // box length, m
 	Dx     float64 // spacing L/N, m
@@ -20,7 +21,7 @@ type Grid struct {
 }
 
 // Q returns the canonical wavenumber of FFT index j.
-func (g Grid) Q(j int) float64 {
+func (g LabGrid) Q(j int) float64 {
 	if j >= g.N/2 {
 		j -= g.N
 	}
@@ -28,16 +29,16 @@ func (g Grid) Q(j int) float64 {
 }
 
 // X returns the position of point j.
-func (g Grid) X(j int) float64 { return g.X0 + float64(j)*g.Dx }
+func (g LabGrid) X(j int) float64 { return g.X0 + float64(j)*g.Dx }
 
-// GridFor chooses the grid from the physics: the packet (rms density width
+// LabGridFor chooses the grid from the physics: the packet (rms density width
 // sigmaX, momentum rms 1/(2 sigmaX)) must stay inside the box for the whole
 // run, for every mean velocity in vs and for the ↓ part moving at v + ħκ/m
 // for every κ the RF-on part of the cycle can transfer (8 rms widths of the
 // spread packet plus twice the position micromotion as margin on each side);
 // and the canonical wavenumber grid ±π/dx must hold every q0, q0 + κ plus 8
 // momentum widths. N is the next power of two (≥ 64).
-func GridFor(d *Drive, vs []float64, duration, sigmaX float64) Grid {
+func LabGridFor(d *ShakeDrive, vs []float64, duration, sigmaX float64) LabGrid {
 	m, hb := d.Mass, dispersion.Hbar
 	kmin, kmax := d.kappaRange()
 	sigK := 1 / (2 * sigmaX)
@@ -65,11 +66,11 @@ func GridFor(d *Drive, vs []float64, duration, sigmaX float64) Grid {
 	for float64(n)*dx < L {
 		n *= 2
 	}
-	return Grid{N: n, L: L, Dx: L / float64(n), X0: lo - margin, SigmaX: sigmaX, QMax: qneed}
+	return LabGrid{N: n, L: L, Dx: L / float64(n), X0: lo - margin, SigmaX: sigmaX, QMax: qneed}
 }
 
 // kappaRange returns the smallest and largest κ(t) while the RF is on.
-func (d *Drive) kappaRange() (lo, hi float64) {
+func (d *ShakeDrive) kappaRange() (lo, hi float64) {
 	h := d.pulseHalf()
 	lo, hi = math.Inf(1), math.Inf(-1)
 	const n = 256
@@ -81,7 +82,7 @@ func (d *Drive) kappaRange() (lo, hi float64) {
 	return lo, hi
 }
 
-// rtStep is one step of a shaking window: coupling half-rotation (if
+// labStep is one step of a shaking window: coupling half-rotation (if
 // coupled), kinetic propagation over dt (if dt > 0), coupling half-rotation.
 // A delta kick is a step with dt = 0 and the full rotation in one go.
 //
@@ -91,46 +92,46 @@ func (d *Drive) kappaRange() (lo, hi float64) {
 // (composite Simpson, sub-steps fine enough that κ changes by < 0.5/L per
 // sub-step), i.e. a rotation by |c(x)| about an axis at angle arg c(x).
 // Neglected: the second Magnus term, O((Ω dt)²) relative.
-type rtStep struct {
+type labStep struct {
 	dt      float64
-	kin     [2][]complex128 // exp(−i[ħq²dt/2m + q∫A_σ/m + ∫A_σ²/2mħ]) / N (FFT normalisation folded in)
+	kin     KineticFactors // exp(−i[ħq²dt/2m + q∫A_σ/m + ∫A_σ²/2mħ]) / N (FFT normalisation folded in)
 	coupled bool
-	kick    bool         // single full rotation (delta pulse)
-	c       []float64    // cos of the rotation half-angle per application, per x
-	a, b    []complex128 // −i sin(…) e^{−iφ(x)} and −i sin(…) e^{iφ(x)}, φ = arg c(x)
+	kick    bool          // single full rotation (delta pulse)
+	rot     LocalRotation // rotation by |c(x)|/2 (half of the step) about the axis at arg c(x)
 }
 
-// RealTime is the split-step integrator of one shaking setting on one grid:
-// the per-window step tables are computed once and shared (read-only) by its
-// Workers.
-type RealTime struct {
-	Drive      *Drive
-	Grid       Grid
+// LabFrame is the split-step integrator of one shaking setting on one grid:
+// the per-window step tables (KineticFactors, LocalRotation) are computed
+// once and shared (read-only) by its LabWorkers, which replay them on their
+// own Stepper.
+type LabFrame struct {
+	Drive      *ShakeDrive
+	Grid       LabGrid
 	PulseSteps int     // steps while the RF is on, per window
 	Dt         float64 // their length, s (0 for delta pulses)
-	steps      []rtStep
+	steps      []labStep
 }
 
-// NewRealTime builds the step tables. Window: one shaking period centred on
+// NewLabFrame builds the step tables. Window: one shaking period centred on
 // a pulse, [t_c − T/2, t_c + T/2]. While the RF is on the step is
 //
 //	dt ≤ min(T/128, τ/16, 0.05/Ω_peak)
 //
 // (resolve the impulse, the pulse envelope and the Rabi rotation; τ the pulse
 // width); the RF-off rest of the window is one exact kinetic step.
-func NewRealTime(d *Drive, g Grid) (*RealTime, error) { return newRealTime(d, g, 1) }
+func NewLabFrame(d *ShakeDrive, g LabGrid) (*LabFrame, error) { return newLabFrame(d, g, 1) }
 
-// newRealTime divides the RF-on steps by refine (≥ 1) more, for convergence tests.
-func newRealTime(d *Drive, g Grid, refine int) (*RealTime, error) {
+// newLabFrame divides the RF-on steps by refine (≥ 1) more, for convergence tests.
+func newLabFrame(d *ShakeDrive, g LabGrid, refine int) (*LabFrame, error) {
 	if g.N < 2 || g.N&(g.N-1) != 0 {
 		return nil, fmt.Errorf("grid size %d is not a power of two", g.N)
 	}
-	rt := &RealTime{Drive: d, Grid: g}
+	rt := &LabFrame{Drive: d, Grid: g}
 	T := d.Period
 	h := d.pulseHalf()
 	start := d.Tc - T/2
 	add := func(t1, t2 float64, coupled bool, nsimp int) {
-		st := rtStep{dt: t2 - t1, coupled: coupled}
+		st := labStep{dt: t2 - t1, coupled: coupled}
 		rt.fillKinetic(&st, t1, t2, nsimp)
 		if coupled {
 			rt.fillCoupling(&st, t1, t2)
@@ -140,7 +141,7 @@ func newRealTime(d *Drive, g Grid, refine int) (*RealTime, error) {
 	switch {
 	case d.Shake.Pulse == dispersion.PulseDelta:
 		add(start, d.Tc, false, 1024)
-		kick := rtStep{coupled: true, kick: true}
+		kick := labStep{coupled: true, kick: true}
 		rt.fillKick(&kick, d.Area, d.Kappa(d.Tc))
 		rt.steps = append(rt.steps, kick)
 		add(d.Tc, start+T, false, 1024)
@@ -170,7 +171,7 @@ func newRealTime(d *Drive, g Grid, refine int) (*RealTime, error) {
 	return rt, nil
 }
 
-func (rt *RealTime) fillKinetic(st *rtStep, t1, t2 float64, nsimp int) {
+func (rt *LabFrame) fillKinetic(st *labStep, t1, t2 float64, nsimp int) {
 	g, d := rt.Grid, rt.Drive
 	m, hb := d.Mass, dispersion.Hbar
 	iu, id, iu2, id2 := d.impulseIntegrals(t1, t2, nsimp)
@@ -189,7 +190,7 @@ func (rt *RealTime) fillKinetic(st *rtStep, t1, t2 float64, nsimp int) {
 
 // fillCoupling computes c(x) = ∫Ω(t) exp(iκ(t)x) dt over [t1, t2] (times
 // in the first window) and the half-step rotation of the Strang splitting.
-func (rt *RealTime) fillCoupling(st *rtStep, t1, t2 float64) {
+func (rt *LabFrame) fillCoupling(st *labStep, t1, t2 float64) {
 	g, d := rt.Grid, rt.Drive
 	// Sub-steps: κ may change by at most 0.5/L per sub-step.
 	k1, k2 := d.Kappa(t1), d.Kappa(t2)
@@ -226,7 +227,7 @@ func (rt *RealTime) fillCoupling(st *rtStep, t1, t2 float64) {
 			w[i] *= area / sw
 		}
 	}
-	st.alloc(g.N)
+	st.rot = NewLocalRotation(g.N)
 	for j := 0; j < g.N; j++ {
 		x := g.X(j)
 		var cr, ci float64
@@ -240,61 +241,51 @@ func (rt *RealTime) fillCoupling(st *rtStep, t1, t2 float64) {
 		if a > 0 {
 			e = complex(cr/a, ci/a)
 		}
-		st.set(j, a/4, e)
+		sn, cs := math.Sincos(a / 4)
+		st.rot.SetXY(j, cs, sn, e)
 	}
 }
 
-func (st *rtStep) alloc(n int) {
-	st.c, st.a, st.b = make([]float64, n), make([]complex128, n), make([]complex128, n)
-}
-
-// set stores the rotation exp(−i half (cos φ σx + sin φ σy)) at point j, e = e^{iφ}.
-func (st *rtStep) set(j int, half float64, e complex128) {
-	sn, cs := math.Sincos(half)
-	st.c[j] = cs
-	st.a[j] = complex(0, -sn) * cmplx.Conj(e)
-	st.b[j] = complex(0, -sn) * e
-}
-
 // fillKick is the delta pulse: rotation by the full area at κ.
-func (rt *RealTime) fillKick(st *rtStep, area, kappa float64) {
+func (rt *LabFrame) fillKick(st *labStep, area, kappa float64) {
 	g := rt.Grid
-	st.alloc(g.N)
-	for j := range st.c {
-		st.set(j, area/2, cmplx.Rect(1, kappa*g.X(j)))
+	st.rot = NewLocalRotation(g.N)
+	sn, cs := math.Sincos(area / 2)
+	for j := range st.rot.Alpha {
+		st.rot.SetXY(j, cs, sn, cmplx.Rect(1, kappa*g.X(j)))
 	}
 }
 
 // StepsPerWindow is the number of split steps in one shaking period.
-func (rt *RealTime) StepsPerWindow() int { return len(rt.steps) }
+func (rt *LabFrame) StepsPerWindow() int { return len(rt.steps) }
 
-// Worker holds the state and FFT plan of one simulation; one goroutine at a time.
-type Worker struct {
-	rt     *RealTime
-	tr     fft.Transform
-	Up, Dn []complex128 // φ↑, φ↓ on the grid (position space between calls)
+// LabWorker holds the state and the Stepper (with its own FFT plan) of one
+// lab-frame simulation; one goroutine at a time.
+type LabWorker struct {
+	rt *LabFrame
+	st *Stepper
+	// Up, Dn are φ↑, φ↓ on the grid (position space between calls): the
+	// Stepper's buffers.
+	Up, Dn []complex128
 	z      [][2]complex128
-	tmp    []complex128
 }
 
-// NewWorker makes a worker with its own FFT plan (gpe/fft, default backend).
-func (rt *RealTime) NewWorker() (*Worker, error) {
-	tr, err := fft.New([]int{rt.Grid.N}, fft.Default, fft.Options{})
+// NewWorker makes a worker with its own Stepper (gpe/fft, default backend).
+func (rt *LabFrame) NewWorker() (*LabWorker, error) {
+	st, err := NewStepper([]int{rt.Grid.N}, fft.Default, fft.Options{})
 	if err != nil {
 		return nil, err
 	}
-	n := rt.Grid.N
-	return &Worker{rt: rt, tr: tr, Up: fft.Aligned(n), Dn: fft.Aligned(n), tmp: fft.Aligned(n),
-		z: make([][2]complex128, len(rt.steps))}, nil
+	return &LabWorker{rt: rt, st: st, Up: st.Psi[0], Dn: st.Psi[1], z: make([][2]complex128, len(rt.steps))}, nil
 }
 
 // Close releases the FFT plan.
-func (w *Worker) Close() { w.tr.Close() }
+func (w *LabWorker) Close() { w.st.Close() }
 
 // Init sets a Gaussian packet in ↑ centred at x = 0 with rms density width
 // Grid.SigmaX and canonical wavenumber q0 (mean velocity ħq0/m), normalised
 // on the grid: φ↑ = (2πσ²)^(−1/4) exp(−x²/4σ² + iq0x); φ↓ = 0.
-func (w *Worker) Init(q0 float64) {
+func (w *LabWorker) Init(q0 float64) {
 	g := w.rt.Grid
 	s := g.SigmaX
 	norm := 0.0
@@ -311,9 +302,9 @@ func (w *Worker) Init(q0 float64) {
 }
 
 // Run propagates the state over n shaking windows at RF detuning Δ (rad/s,
-// see Drive.Detuning); trace (may be nil, else length ≥ n) receives the ↓
+// see ShakeDrive.Detuning); trace (may be nil, else length ≥ n) receives the ↓
 // population after each window. It allocates nothing.
-func (w *Worker) Run(delta float64, n int, trace []float64) {
+func (w *LabWorker) Run(delta float64, n int, trace []float64) {
 	for i, st := range w.rt.steps {
 		w.z[i][0] = cmplx.Rect(1, -delta*st.dt/2)
 		w.z[i][1] = cmplx.Rect(1, delta*st.dt/2)
@@ -322,15 +313,15 @@ func (w *Worker) Run(delta float64, n int, trace []float64) {
 		for i := range w.rt.steps {
 			st := &w.rt.steps[i]
 			if st.kick {
-				w.couple(st)
+				w.st.Rotate(&st.rot)
 				continue
 			}
 			if st.coupled {
-				w.couple(st)
+				w.st.Rotate(&st.rot)
 			}
-			w.kinetic(st, w.z[i])
+			w.st.Kinetic(&st.kin, w.z[i])
 			if st.coupled {
-				w.couple(st)
+				w.st.Rotate(&st.rot)
 			}
 		}
 		if trace != nil {
@@ -342,65 +333,27 @@ func (w *Worker) Run(delta float64, n int, trace []float64) {
 // FreeRun propagates without RF for a time t (s) as one exact kinetic step
 // with the impulses of the drive from the start of a window; used to test
 // free spreading and the micromotion. It allocates its step table.
-func (w *Worker) FreeRun(t float64) {
-	st := rtStep{dt: t}
+func (w *LabWorker) FreeRun(t float64) {
+	st := labStep{dt: t}
 	d := w.rt.Drive
 	t0 := d.Tc - d.Period/2
 	n := int(math.Max(64, math.Ceil(t/d.Period*256)))
 	w.rt.fillKinetic(&st, t0, t0+t, n)
-	w.kinetic(&st, [2]complex128{1, 1})
-}
-
-func (w *Worker) couple(st *rtStep) {
-	up, dn := w.Up, w.Dn
-	cs, a, b := st.c[:len(up)], st.a[:len(up)], st.b[:len(up)]
-	dn = dn[:len(up)]
-	for j := range up {
-		u, d := up[j], dn[j]
-		c := complex(cs[j], 0)
-		up[j] = c*u + a[j]*d
-		dn[j] = c*d + b[j]*u
-	}
-}
-
-func (w *Worker) kinetic(st *rtStep, z [2]complex128) {
-	for s, buf := range [2][]complex128{w.Up, w.Dn} {
-		w.tr.Forward(buf)
-		k := st.kin[s]
-		zs := z[s]
-		for j := range buf {
-			buf[j] *= k[j] * zs
-		}
-		w.tr.Backward(buf)
-	}
+	w.st.Kinetic(&st.kin, [2]complex128{1, 1})
 }
 
 // Population returns ∫|φ_σ|² dx (σ = 0 ↑, 1 ↓).
-func (w *Worker) Population(sigma int) float64 {
-	b := w.Up
-	if sigma == 1 {
-		b = w.Dn
-	}
-	s := 0.0
-	for _, v := range b {
-		s += real(v)*real(v) + imag(v)*imag(v)
-	}
-	return s * w.rt.Grid.Dx
+func (w *LabWorker) Population(sigma int) float64 {
+	return w.st.SumSquares(sigma) * w.rt.Grid.Dx
 }
 
 // Norm is the total population ∫(|φ↑|² + |φ↓|²) dx (1 at the start).
-func (w *Worker) Norm() float64 { return w.Population(0) + w.Population(1) }
+func (w *LabWorker) Norm() float64 { return w.Population(0) + w.Population(1) }
 
 // MeanQ returns the mean canonical wavenumber ⟨q⟩ of component σ, 1/m.
-func (w *Worker) MeanQ(sigma int) float64 {
-	b := w.Up
-	if sigma == 1 {
-		b = w.Dn
-	}
-	copy(w.tmp, b)
-	w.tr.Forward(w.tmp)
+func (w *LabWorker) MeanQ(sigma int) float64 {
 	var s0, s1 float64
-	for j, v := range w.tmp {
+	for j, v := range w.st.Spectrum(sigma) {
 		p := real(v)*real(v) + imag(v)*imag(v)
 		s0 += p
 		s1 += p * w.rt.Grid.Q(j)
@@ -409,7 +362,7 @@ func (w *Worker) MeanQ(sigma int) float64 {
 }
 
 // Moments returns ⟨x⟩ and the rms width of |φ_σ|², m.
-func (w *Worker) Moments(sigma int) (mean, rms float64) {
+func (w *LabWorker) Moments(sigma int) (mean, rms float64) {
 	b := w.Up
 	if sigma == 1 {
 		b = w.Dn
