@@ -2,13 +2,16 @@ package main
 
 import (
 	"errors"
+	"io"
 	"math"
+	"path/filepath"
 	"strconv"
 	"strings"
 
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
+	"socmap/dispersion"
 	"socmap/output"
 	"socmap/phases"
 )
@@ -51,6 +54,7 @@ func newCompareCmd() *cobra.Command {
 	var rf ramanFlags
 	var inf interFlags
 	var tf trapFlags
+	var outs []string
 	c := &cobra.Command{
 		Use:   "compare",
 		Short: "shaking scheme vs Raman scheme side by side for one atom and density",
@@ -64,6 +68,9 @@ planned couplings give a stripe.`,
 		Example: `  socmap compare --plan socmap-demo/plan.toml --density "1e14 cm^-3"`,
 		Args:    cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := checkOuts(outs, ".json", ".txt"); err != nil {
+				return err
+			}
 			p, err := comparison(&sf, &rf, &inf, &tf)
 			if err != nil {
 				return err
@@ -76,6 +83,18 @@ planned couplings give a stripe.`,
 				return err
 			}
 			rep := &output.CompareReport{Problem: p, CompareResult: res, Cautions: []string{output.CautionCoils, output.CautionLasers}}
+			for _, o := range outs {
+				var err error
+				switch strings.ToLower(filepath.Ext(o)) {
+				case ".json":
+					err = output.WriteFileAtomic(o, g.force, func(w io.Writer) error { return writeJSON(w, rep.JSON()) })
+				case ".txt":
+					err = output.WriteFileAtomic(o, g.force, rep.Table().Write)
+				}
+				if err != nil {
+					return err
+				}
+			}
 			if g.json {
 				return writeJSON(cmd.OutOrStdout(), rep.JSON())
 			}
@@ -83,6 +102,7 @@ planned couplings give a stripe.`,
 		},
 	}
 	fs := c.Flags()
+	fs.StringSliceVar(&outs, "out", nil, "write the comparison to FILE.json (SI values, unit in the key) or FILE.txt (the table, with the cautions) (repeatable)")
 	sf.add(fs)
 	rf.add(fs, false, "raman-")
 	inf.add(fs)
@@ -102,6 +122,9 @@ func comparison(sf *shakeFlags, rf *ramanFlags, inf *interFlags, tf *trapFlags) 
 		return p, err
 	}
 	if p.Couplings, err = inf.couplings(&sf.atomFlags); err != nil {
+		return p, err
+	}
+	if err := repulsive(p.Couplings); err != nil {
 		return p, err
 	}
 	if inf.density.text != "" && tf.atoms.text != "" {
@@ -132,4 +155,16 @@ func comparison(sf *shakeFlags, rf *ramanFlags, inf *interFlags, tf *trapFlags) 
 		return p, usagef("give --density, or --atoms and --trap")
 	}
 	return p, nil
+}
+
+// repulsive refuses an attractive gas, as map does (phases.Lab.Resolve):
+// g↑↑, g↓↓ > 0 and g↑↑ + g↓↓ + 2g↑↓ > 0 (G1 > 0); an attractive gas
+// collapses (common practice, no source). phases.Compare does not check
+// it (yet), so the command does.
+func repulsive(c dispersion.Couplings) error {
+	if c.Guu > 0 && c.Gdd > 0 && c.Guu+c.Gdd+2*c.Gud > 0 {
+		return nil
+	}
+	a0 := dispersion.BohrRadius
+	return usagef("--a-uu %.4g, --a-dd %.4g, --a-ud %.4g a₀: the gas must be repulsive (a↑↑, a↓↓ > 0 and a↑↑ + a↓↓ + 2a↑↓ > 0); an attractive gas collapses", c.Auu/a0, c.Add/a0, c.Aud/a0)
 }

@@ -72,7 +72,19 @@ func main() { os.Exit(run(os.Args[1:], os.Stdout, os.Stderr)) }
 // run executes one command line and returns the exit status: 0 on success,
 // 2 for bad input (one line on stderr naming the flag, the value and what is
 // allowed), 1 for any other failure.
-func run(args []string, stdout, stderr io.Writer) int {
+func run(args []string, stdout, stderr io.Writer) (code int) {
+	// A panic of the command's goroutine (a bug) is reported as one line
+	// instead of the runtime's stack dump; SOCMAP_TRACEBACK=1 keeps the
+	// dump for debugging. (The runtime's fatal errors, such as running out
+	// of memory, cannot be caught: the up-front estimates refuse such runs.)
+	if os.Getenv("SOCMAP_TRACEBACK") == "" {
+		defer func() {
+			if r := recover(); r != nil {
+				fmt.Fprintf(stderr, "socmap: internal error: %v (a bug in socmap: please report it with the command line; SOCMAP_TRACEBACK=1 shows where it happened)\n", strings.ReplaceAll(fmt.Sprint(r), "\n", " "))
+				code = 1
+			}
+		}()
+	}
 	g = globals{}
 	root := newRoot()
 	root.SetArgs(args)

@@ -35,7 +35,12 @@ holds are an error (exit 2) listing how many and the first one; with
 --out also takes FILE.png (phase diagram) and FILE.json; --png FILE is the
 same as --out FILE.png.`,
 		Example: `  socmap merge --out map.h5 --png map.png map.shard-*-of-4.h5`,
-		Args:    cobra.MinimumNArgs(1),
+		Args: func(cmd *cobra.Command, args []string) error {
+			if len(args) == 0 {
+				return usagef("merge: no input files: give the map files to merge, e.g. socmap merge --out map.h5 map.shard-*-of-4.h5")
+			}
+			return nil
+		},
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if png != "" {
 				outs = append(outs, png)

@@ -12,6 +12,9 @@ import (
 	"testing"
 	"time"
 
+	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
+
 	"socmap/output"
 )
 
@@ -202,4 +205,109 @@ func TestEmptyOutRefused(t *testing.T) {
 		code, _, stderr := runArgs(t, append(args, "--out", "")...)
 		oneLine(t, args[0]+` --out ""`, code, stderr, `--out ""`, dir)
 	}
+}
+
+// demoPlanFile writes the built-in demo plan (a shake scheme) into dir.
+func demoPlanFile(t *testing.T, dir string) string {
+	t.Helper()
+	p := filepath.Join(dir, "plan.toml")
+	if err := os.WriteFile(p, []byte(demoPlan), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+// TestCLIItems: the command-line fixes of the usability pass, each with
+// its one-line refusal or its accepted form.
+func TestCLIItems(t *testing.T) {
+	dir := t.TempDir()
+	plan := demoPlanFile(t, dir)
+	empty := t.TempDir() // refusals must leave nothing here
+
+	// merge without inputs: exit 2, one line.
+	code, _, stderr := runM(t, "merge", "--out", filepath.Join(empty, "m.h5"))
+	oneLine(t, "merge without inputs", code, stderr, "no input files", empty)
+
+	// compare refuses an attractive gas like map does, and writes --out.
+	cmp := []string{"compare", "--plan", plan, "--density", "1e14 cm^-3"}
+	code, _, stderr = runArgs(t, append(cmp, "--a-uu", "-70", "--a-dd", "100", "--a-ud", "100", "--out", filepath.Join(empty, "c.json"))...)
+	oneLine(t, "compare --a-uu -70", code, stderr, "must be repulsive", empty)
+	code, _, stderr = runArgs(t, append(cmp, "--out", filepath.Join(empty, "c.csv"))...)
+	oneLine(t, "compare --out c.csv", code, stderr, "--out", empty)
+	js, txt := filepath.Join(dir, "c.json"), filepath.Join(dir, "c.txt")
+	if code, _, stderr = runArgs(t, append(cmp, "--out", js, "--out", txt)...); code != 0 {
+		t.Fatalf("compare --out: exit %d %s", code, stderr)
+	}
+	for _, f := range []struct{ path, want string }{{js, `"cautions"`}, {txt, "Shaking scheme vs Raman scheme"}} {
+		if b, err := os.ReadFile(f.path); err != nil || !strings.Contains(string(b), f.want) {
+			t.Errorf("%s: %v, want %q in it", f.path, err, f.want)
+		}
+	}
+
+	// The tool's own ket notation is accepted for --up/--down.
+	ket := []string{"scheme", "shake", "--atom", "Na23", "--up", "|1,0>", "--down", "|1,+1>", "--bias", "11.4 G", "--gradient", "100 G/cm", "--shake", "5 kHz", "--json"}
+	if code, out, stderr := runArgs(t, ket...); code != 0 || !strings.Contains(out, `"up": "|1,0\u003e"`) {
+		t.Errorf("--up \"|1,0>\": exit %d %s %.200s", code, stderr, out)
+	}
+
+	// bands with a shake plan and --omega-er: the header says where Ω is from.
+	code, out, stderr := runArgs(t, "bands", "--plan", plan, "--omega-er", "1")
+	if code != 0 || strings.Contains(out, "  from the shake scheme") || !strings.Contains(out, "given by --omega-er") {
+		t.Errorf("bands --omega-er over a shake plan: exit %d %s\n%s", code, stderr, out)
+	}
+	if code, out, _ := runArgs(t, "bands", "--plan", plan); code != 0 || !strings.Contains(out, "from the shake scheme") {
+		t.Errorf("bands from the plan alone:\n%s", out)
+	}
+
+	// An omega axis implies the direct model; a delta axis asks for Ω.
+	if code, out, stderr := runArgs(t, "map", "--x", "omega=0:4:81", "--G1", "1", "--G2", "0.1", "--quiet"); code != 0 || !strings.Contains(out, "direct model") {
+		t.Errorf("map over omega without --scheme: exit %d %s %.200s", code, stderr, out)
+	}
+	code, _, stderr = runArgs(t, "map", "--x", "delta=0:4:81", "--G1", "1", "--G2", "0.1", "--out", filepath.Join(empty, "d.h5"))
+	oneLine(t, "map over delta without Ω", code, stderr, "--omega-er is required", empty)
+
+	// verify's sweep: a unit-less LO borrows HI's unit, as in map.
+	sw, err := parseSweep("shake=0.5:4 kHz:5")
+	if err != nil || len(sw.vals) != 5 || sw.vals[0] != 500 || sw.vals[4] != 4000 {
+		t.Errorf("verify --x shake=0.5:4 kHz:5: %v %v", sw, err)
+	}
+	if _, err := parseSweep("shake=0.5 kHz:4:5"); err == nil || !strings.Contains(err.Error(), "HI") {
+		t.Errorf("a HI without unit: %v", err)
+	}
+
+	// calibrate: a CSV with a byte-order mark is read, an extra column refused.
+	good := "\uFEFFphase_deg,slope_hz_per_mm_s\n0,-313.6\n45,-310.7\n90,-66.1\n135,215.2\n180,313.3\n"
+	bom := filepath.Join(dir, "bom.csv")
+	extra := filepath.Join(dir, "extra.csv")
+	os.WriteFile(bom, []byte(good), 0o644)
+	os.WriteFile(extra, []byte("phase_deg,slope_hz_per_mm_s,note\n0,-313.6,a\n90,-66.1,b\n180,313.3,c\n"), 0o644)
+	if code, _, stderr := runArgs(t, "calibrate", "--plan", plan, "--data", bom); code != 0 {
+		t.Errorf("calibrate with a BOM: exit %d %s", code, stderr)
+	}
+	code, _, stderr = runArgs(t, "calibrate", "--plan", plan, "--data", extra, "--out", filepath.Join(empty, "c.json"))
+	oneLine(t, "calibrate with an extra column", code, stderr, "extra", empty)
+}
+
+// TestHelpExamplesNoSourcePaths: no help text points into the source tree
+// (a user has the binary, not the repository).
+func TestHelpExamplesNoSourcePaths(t *testing.T) {
+	var walk func(c *cobra.Command)
+	walk = func(c *cobra.Command) {
+		for _, text := range []string{c.Example, c.Long, c.Short} {
+			for _, bad := range []string{"cmd/socmap", "testdata/", "plans/demo.toml"} {
+				if strings.Contains(text, bad) {
+					t.Errorf("%s: help mentions %q", c.CommandPath(), bad)
+				}
+			}
+		}
+		c.Flags().VisitAll(func(f *pflag.Flag) {
+			if strings.Contains(f.Usage, "cmd/socmap") || strings.Contains(f.Usage, "testdata/") {
+				t.Errorf("%s --%s: usage mentions a source path", c.CommandPath(), f.Name)
+			}
+		})
+		for _, s := range c.Commands() {
+			walk(s)
+		}
+	}
+	walk(newRoot())
 }

@@ -40,8 +40,8 @@ several mean velocities, their centres, the Doppler slope and hence k_t, the
 momentum transfer per flip and the effective Rabi frequency. Each is printed
 beside the effective model's value with the relative deviation.
 --x pulse-width=LO:HI:N or --x shake=LO:HI:N sweeps the deviation.`,
-		Example: `  socmap verify --plan cmd/socmap/plans/demo.toml
-  socmap verify --plan cmd/socmap/plans/demo.toml --x "pulse-width=10us:150us:5" --out sweep.png`,
+		Example: `  socmap verify --plan socmap-demo/plan.toml
+  socmap verify --plan socmap-demo/plan.toml --x "pulse-width=10us:150us:5" --out sweep.png`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error { return runVerify(cmd, &f) },
 	}
@@ -76,14 +76,11 @@ func parseSweep(s string) (*sweepSpec, error) {
 	if axis == gpe.VerifyShakeFreq {
 		kind = KindFrequency
 	}
-	lo, err1 := parseQuantity(parts[0], kind)
-	hi, err2 := parseQuantity(parts[1], kind)
+	lo, hi, err1 := dispersion.ParseBounds(parts[0], parts[1], kind) // LO may borrow HI's unit, as in map
 	n, err3 := strconv.Atoi(strings.TrimSpace(parts[2]))
 	switch {
 	case err1 != nil:
-		return nil, usagef("--x %q: LO %q: %v", s, parts[0], err1)
-	case err2 != nil:
-		return nil, usagef("--x %q: HI %q: %v", s, parts[1], err2)
+		return nil, usagef("--x %q: %v", s, err1)
 	case err3 != nil || n < 2 || n > 200:
 		return nil, usagef("--x %q: N %q must be an integer from 2 to 200", s, parts[2])
 	case !(lo > 0) || !(hi > lo):
