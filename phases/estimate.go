@@ -33,13 +33,15 @@ type Estimate struct {
 }
 
 // Calibrated costs (DEVELOPERS.md, "Up-front estimates", lists them with
-// the measurements). Times were measured on the shared 2-core development
-// machine under a load of about 4 to 8 from other jobs, so they are on the
-// slow side of a quiet machine.
+// the measurements). They are CPU times per worker, measured on the 2-core
+// development machine (user time, so that the load of other jobs on it,
+// 4 to 11 during the measurements, does not count); a loaded machine takes
+// longer in wall time.
 const (
 	// CostBaseMemory: resident memory of the process before any work
-	// (runtime, FFTW, libhdf5, the plot fonts), bytes. Measured 28 MB for a
-	// 1D ground state of 1024 points (/usr/bin/time -f %M).
+	// (runtime, FFTW, libhdf5, the plot fonts), bytes, with a margin.
+	// Measured 28–33 MB for a 1D ground state of 1024 points and a 64-point
+	// GPE map (/usr/bin/time -f %M).
 	CostBaseMemory = 48e6
 	// CostMapPointMemory: bytes per map point held in memory besides the
 	// observables (the pending index, 8 B; phase and done mask, 2 B); each
@@ -55,20 +57,21 @@ const (
 	// CostMapFileOverhead: HDF5 metadata, axes aside, of a map file, bytes.
 	CostMapFileOverhead = 256 << 10
 	// CostVariationalPoint: one variational map point on one worker.
-	// BenchmarkVariationalMap100x100: 0.86 s for 10⁴ points on 2 workers
-	// (172 µs per point and worker) under load; BenchmarkVariational: 16 µs
-	// for an easy point. Taken in between.
-	CostVariationalPoint = 60 * time.Microsecond
+	// Measured: a 150 × 150 map took 0.27 s of user time (12 µs per point);
+	// BenchmarkVariational 16 µs for one point. With a margin.
+	CostVariationalPoint = 20 * time.Microsecond
 	// CostGPEPoint256: one 1D GPE map point (about three starts) on a
 	// 256-point grid on one worker; it scales with the grid points.
-	// BenchmarkGPEMap: 169 points/s on one worker (5.9 ms per point).
-	CostGPEPoint256 = 6 * time.Millisecond
-	// CostGroundPointStart: wall time of one start of a ground-state solve
-	// per grid point (split steps then the finisher, ≈ 150 finisher
-	// iterations' worth). Measured: 2D 512² with 5 starts 26.8 s, 256² 8.2 s
-	// (20–25 µs per point and start); BenchmarkFinisherIteration 256×256:
+	// Measured: a 64-point map on one worker, 0.30 s of user time (4.7 ms
+	// per point with the start-up); BenchmarkGPEMap 5.9 ms per point of
+	// wall time under load.
+	CostGPEPoint256 = 4 * time.Millisecond
+	// CostGroundPointStart: CPU time of one start of a ground-state solve
+	// per grid point (split steps then the finisher, ≈ 100 finisher
+	// iterations' worth). Measured: 2D 256² with 5 starts, 2.93 s of user
+	// time (9 µs per point and start); BenchmarkFinisherIteration 256×256:
 	// 140 ns per point and iteration.
-	CostGroundPointStart = 20 * time.Microsecond
+	CostGroundPointStart = 10 * time.Microsecond
 	// CostGroundPointOverhead: the start-independent part of a ground
 	// state (set-up, observables, plotting), per grid point.
 	CostGroundPointOverhead = 2 * time.Microsecond

@@ -2,6 +2,7 @@ package main
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"path/filepath"
 	"strconv"
@@ -96,7 +97,17 @@ reduced 1D/2D couplings for tight transverse confinement).`,
 			if err := checkEstimate(cmd, su.Estimate(set), h5Out(outs)); err != nil {
 				return err
 			}
+			n := su.Starts(set)
+			bar := output.NewProgress(cmd.ErrOrStderr(), "ground", n, g.quiet, &output.ProgressOptions{Unit: "starts"})
+			if bar != nil {
+				set.Solver.Progress = func(pr gpe.Progress) {
+					bar.Set(pr.Start)
+					bar.Detail(solveStage(pr, n))
+				}
+			}
 			pr, err := su.Solve(set)
+			bar.Set(n)
+			bar.Finish()
 			if errors.Is(err, phases.ErrInput) {
 				return usagef("%v", err)
 			}
@@ -232,4 +243,14 @@ func errOr(err error, s string) string {
 		return err.Error()
 	}
 	return s
+}
+
+// solveStage describes a running solve for the progress display: "start
+// 2/5: split step 140 (Δτ 0.005), residual 3.1e-04" or "start 2/5:
+// finisher iteration 40, residual 2.0e-07".
+func solveStage(pr gpe.Progress, starts int) string {
+	if pr.Stage == "split" {
+		return fmt.Sprintf("start %d/%d: split step %d (Δτ %.3g), residual %.1e", pr.Start+1, starts, pr.Step, pr.Dtau, pr.Residual)
+	}
+	return fmt.Sprintf("start %d/%d: finisher iteration %d, residual %.1e", pr.Start+1, starts, pr.Step, pr.Residual)
 }

@@ -5,7 +5,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"math"
 	"os"
 	"os/signal"
 	"path/filepath"
@@ -274,17 +273,30 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 	if _, err := os.Stat(output.PartialName(h5out)); h5out != "" && err == nil && !g.force {
 		diskOut = ""
 	}
-	if err := checkEstimate(cmd, p.Estimate(rs), diskOut); err != nil {
+	est := p.Estimate(rs)
+	if err := checkEstimate(cmd, est, diskOut); err != nil {
 		return err
 	}
-	rs.Progress = progressBar(cmd, "map")
+	bar := output.NewProgress(cmd.ErrOrStderr(), "map", int(est.Points), g.quiet, &output.ProgressOptions{Unit: "points"})
+	defer bar.Finish()
+	started := false
+	rs.Progress = func(done, total int, _ time.Duration) {
+		if !started { // the first call counts the points resumed
+			started = true
+			bar.Start(done)
+			return
+		}
+		bar.Set(done)
+	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
 
 	r := &output.MapResult{Problem: p}
 	if h5out == "" {
 		r.Data = output.NewMapData(spec)
-		if r.Run, err = p.Run(ctx, r.Data, rs); err != nil {
+		r.Run, err = p.Run(ctx, r.Data, rs)
+		bar.Finish()
+		if err != nil {
 			if r.Run.Status == phases.RunCanceled {
 				return fmt.Errorf("map interrupted after %d of %d points (nothing written: use --out FILE.h5 to make a map resumable)", r.Run.Computed, r.Run.Total)
 			}
@@ -299,6 +311,7 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 			return err
 		}
 		r.Run, err = p.Run(ctx, sink, rs)
+		bar.Finish()
 		stop()
 		if err != nil {
 			cerr := sink.Close()
@@ -440,29 +453,4 @@ func checkOutTypes(outs []string, exts ...string) error {
 		}
 	}
 	return nil
-}
-
-// progressBar returns a progress callback that draws on stderr when it is a
-// terminal and --quiet is not set.
-func progressBar(cmd *cobra.Command, what string) func(done, total int, elapsed time.Duration) {
-	if g.quiet {
-		return nil
-	}
-	st, err := os.Stderr.Stat()
-	if err != nil || st.Mode()&os.ModeCharDevice == 0 {
-		return nil
-	}
-	last := time.Time{}
-	return func(done, total int, elapsed time.Duration) {
-		if time.Since(last) < 200*time.Millisecond && done < total {
-			return
-		}
-		last = time.Now()
-		rate := float64(done) / math.Max(elapsed.Seconds(), 1e-9)
-		left := time.Duration(float64(total-done) / math.Max(rate, 1e-9) * 1e9).Round(time.Second)
-		fmt.Fprintf(os.Stderr, "\r%s: %d/%d points, %.0f/s, %s left   ", what, done, total, rate, left)
-		if done == total {
-			fmt.Fprintln(os.Stderr)
-		}
-	}
 }

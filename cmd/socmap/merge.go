@@ -68,7 +68,9 @@ same as --out FILE.png.`,
 					return usagef("--out %q: is also an input", h5out)
 				}
 			}
-			res, err := output.MergeMaps(args)
+			bar := output.NewProgress(cmd.ErrOrStderr(), "merge", len(args), g.quiet, &output.ProgressOptions{Unit: "files read"})
+			res, err := output.MergeMapsProgress(args, func(done, total int) { bar.Set(done) })
+			bar.Finish()
 			if errors.Is(err, output.ErrMapInput) {
 				return usagef("%v", err)
 			}

@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -144,22 +143,25 @@ func runVerify(cmd *cobra.Command, f *verifyFlags) error {
 			return usagef("--x %q: a pulse-width sweep needs --pulse rect or gauss", f.x)
 		}
 	}
-	progress := !g.quiet && isTerminal(os.Stderr)
 	if sw == nil {
-		if progress {
-			fmt.Fprintln(os.Stderr, "verify: simulating flip spectra …")
-		}
+		bar := output.NewProgress(cmd.ErrOrStderr(), "verify", 0, g.quiet, &output.ProgressOptions{Unit: "simulations"})
+		s.Progress = verifyProgress(bar, nil)
 		r, err := gpe.Verify(p, s)
+		bar.Finish()
 		if err != nil {
 			return verifyErr(err)
 		}
 		return emitRendered(cmd, f.outs, "verify", &output.VerifyResult{Shake: p, Verify: r})
 	}
+	bar := output.NewProgress(cmd.ErrOrStderr(), "verify sweep", len(sw.vals), g.quiet, &output.ProgressOptions{Unit: sw.axis.Name() + " points"})
+	defer bar.Finish()
+	point := 0
 	var report func(i, n int)
-	if progress {
-		report = func(i, n int) {
-			fmt.Fprintf(os.Stderr, "verify: sweep %s point %d of %d …\n", sw.axis.Name(), i+1, n)
-		}
+	if bar != nil {
+		report = func(i, n int) { point = i; bar.Set(i) }
+		s.Progress = verifyProgress(bar, func(done, total int) string {
+			return fmt.Sprintf("point %d: simulation %d/%d", point+1, done, total)
+		})
 	}
 	pts, err := gpe.VerifySweep(p, s, sw.axis, sw.vals, report)
 	if err != nil {
@@ -168,16 +170,27 @@ func runVerify(cmd *cobra.Command, f *verifyFlags) error {
 	return emitRendered(cmd, f.outs, "verify", &output.VerifySweepResult{Shake: p, Axis: sw.axis, Points: pts})
 }
 
+// verifyProgress feeds gpe's per-simulation progress to bar: as its count
+// (detail nil), or as a detail line of a sweep's point.
+func verifyProgress(bar *output.Progress, detail func(done, total int) string) func(done, total int) {
+	if bar == nil {
+		return nil
+	}
+	return func(done, total int) {
+		if detail != nil {
+			bar.Detail(detail(done, total))
+			return
+		}
+		bar.SetTotal(total)
+		bar.Set(done)
+	}
+}
+
 func verifyErr(err error) error {
 	if err == nil {
 		return nil
 	}
 	return usagef("%v", err)
-}
-
-func isTerminal(f *os.File) bool {
-	st, err := f.Stat()
-	return err == nil && st.Mode()&os.ModeCharDevice != 0
 }
 
 // rendered is a result type of package output with its four renderings.
