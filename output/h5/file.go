@@ -123,6 +123,9 @@ func open(name string, rw bool) (*File, error) {
 		return nil, fail(fmt.Errorf("%w: is a directory", ErrFormat))
 	}
 
+	if err := checkGlobalHeaps(name); err != nil {
+		return nil, fail(err)
+	}
 	lock()
 	defer unlock()
 	cs := cstr(name)

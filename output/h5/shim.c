@@ -87,10 +87,25 @@ static hid_t get_fapl(void) {
 	return fapl;
 }
 
+// cfapl is the file-access property list of new files: fapl's settings
+// and the 1.8 file format (superblock version 2, version-2 object headers,
+// new-style groups), whose metadata carry checksums that libhdf5 verifies
+// on every read, so that a damaged file gives an error instead of garbage
+// that the library may crash on (found by FuzzDamagedMapFile). The 1.10
+// format (superblock version 3) is not used: its consistency flags make a
+// file whose writer was killed unreadable without h5clear, and map files
+// must survive that.
+static hid_t cfapl = -1;
+
 hid_t sm_fcreate(const char *name) {
-	hid_t p = get_fapl();
-	if (p < 0) return -1;
-	return H5Fcreate(name, H5F_ACC_TRUNC, H5P_DEFAULT, p);
+	if (cfapl < 0) {
+		hid_t p = H5Pcreate(H5P_FILE_ACCESS);
+		if (p < 0) return -1;
+		if (H5Pset_fclose_degree(p, H5F_CLOSE_STRONG) < 0 ||
+		    H5Pset_libver_bounds(p, H5F_LIBVER_V18, H5F_LIBVER_V18) < 0) { H5Pclose(p); return -1; }
+		cfapl = p;
+	}
+	return H5Fcreate(name, H5F_ACC_TRUNC, H5P_DEFAULT, cfapl);
 }
 
 hid_t sm_fopen(const char *name, int rw) {
