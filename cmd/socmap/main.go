@@ -64,6 +64,7 @@ states. Quantities take units as text: "40 G/cm", "3 kHz", "90 deg", "790 nm".`,
 	pf.BoolVar(&g.force, "force", false, "overwrite existing output files")
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error { return usageError{err.Error()} })
 	root.AddCommand(newSchemeCmd(), newBandsCmd(), newGroundCmd(), newMapCmd(), newCompareCmd(), newVerifyCmd(), newCalibrateCmd(), newMergeCmd(), newInspectCmd(), newDemoCmd())
+	registerCompletions(root) // complete.go
 	return root
 }
 

@@ -53,8 +53,8 @@ type mapOpts struct {
 func (o *mapOpts) addFlags(fs *pflag.FlagSet) {
 	o.mf.add(fs)
 	o.inf.add(fs)
-	fs.StringVar(&o.xs, "x", "", "x axis NAME=LO:HI:N")
-	fs.StringVar(&o.ys, "y", "", "y axis NAME=LO:HI:N (optional)")
+	fs.StringVarP(&o.xs, "x", "x", "", "x axis NAME=LO:HI:N") // shorthand = name: cobra completes one-letter flags only through it
+	fs.StringVarP(&o.ys, "y", "y", "", "y axis NAME=LO:HI:N (optional)")
 	fs.StringVar(&o.method, "method", "variational", "method: variational (two-plane-wave mean-field theory) or gpe (1D GPE ground state per point)")
 	fs.IntVar(&o.gpePoints, "points", 0, "gpe: grid points along x (0: a power of two ≥ 128 with k_max ≥ 4 k_R)")
 	o.gpeLength = qflag(fs, "length-kr", KindNumber, "", "gpe: box length in 1/k_R (default: per point, commensurate with the variational k₁)")

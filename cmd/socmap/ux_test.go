@@ -311,3 +311,45 @@ func TestHelpExamplesNoSourcePaths(t *testing.T) {
 	}
 	walk(newRoot())
 }
+
+// TestCompletion: values complete through cobra's completion functions:
+// atoms, pulse shapes, waveforms, map and verify axis names, sublevels of
+// the chosen atom, and .h5 files for inspect and merge.
+func TestCompletion(t *testing.T) {
+	cases := []struct {
+		args []string
+		want []string // words that must be offered
+		dir  string   // the directive's name
+	}{
+		{[]string{"map", "--atom", ""}, []string{"Na23", "Rb87", "K39", "K41", "Li7"}, "NoFileComp"},
+		{[]string{"scheme", "shake", "--pulse", ""}, []string{"delta", "rect", "gauss", "continuous"}, "NoFileComp"},
+		{[]string{"verify", "--waveform", ""}, []string{"sine", "square"}, "NoFileComp"},
+		{[]string{"map", "--x", ""}, []string{"omega=", "delta=", "G2=", "gradient=", "phase="}, "NoSpace"},
+		{[]string{"map", "--y", ""}, []string{"omega=", "density="}, "NoSpace"},
+		{[]string{"verify", "--x", ""}, []string{"pulse-width=", "shake="}, "NoSpace"},
+		{[]string{"scheme", "shake", "--atom", "Na23", "--up", ""}, []string{"1,-1", "1,0", "2,2"}, "NoFileComp"},
+		{[]string{"inspect", ""}, []string{"h5"}, "FilterFileExt"},
+		{[]string{"merge", "--out", "m.h5", ""}, []string{"h5"}, "FilterFileExt"},
+		{[]string{"map", "--plan", ""}, []string{"toml"}, "FilterFileExt"},
+		{[]string{"compare", "--out", ""}, []string{"json", "txt"}, "FilterFileExt"},
+	}
+	for _, c := range cases {
+		code, out, stderr := runArgs(t, append([]string{"__complete"}, c.args...)...)
+		if code != 0 {
+			t.Errorf("%v: exit %d %s", c.args, code, stderr)
+			continue
+		}
+		words := map[string]bool{}
+		for _, l := range strings.Split(strings.TrimSpace(out), "\n") {
+			words[strings.SplitN(l, "\t", 2)[0]] = true
+		}
+		for _, w := range c.want {
+			if !words[w] {
+				t.Errorf("%v: %q not offered (got %q)", c.args, w, out)
+			}
+		}
+		if !strings.Contains(stderr, c.dir) {
+			t.Errorf("%v: directive %q, want %s", c.args, strings.TrimSpace(stderr), c.dir)
+		}
+	}
+}

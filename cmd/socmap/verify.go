@@ -50,7 +50,7 @@ beside the effective model's value with the relative deviation.
 	f.cloud = qflag(fs, "cloud-rms", KindLength, "", `rms size of the atom cloud, centred on the null of the oscillating gradient (default: velocity spread 0.15/t_int in Doppler units)`)
 	fs.IntVar(&f.windows, "windows", 0, "interrogation time in shaking periods (default: π time of the cycle-averaged Rabi frequency)")
 	fs.StringVar(&f.method, "method", "auto", "solver: auto (delta pulses: exact; otherwise real-time), delta (exact, pulses taken as delta pulses), realtime")
-	fs.StringVar(&f.x, "x", "", `sweep the deviation: "pulse-width=LO:HI:N" or "shake=LO:HI:N", e.g. "pulse-width=10us:150us:5"`)
+	fs.StringVarP(&f.x, "x", "x", "", `sweep the deviation: "pulse-width=LO:HI:N" or "shake=LO:HI:N", e.g. "pulse-width=10us:150us:5"`)
 	fs.StringSliceVar(&f.outs, "out", nil, "write FILE.h5, FILE.json or FILE.png (repeatable)")
 	return c
 }
