@@ -214,6 +214,10 @@ func (o *mapOpts) printSbatch(cmd *cobra.Command, p *phases.MapProblem, h5out st
 			vals = sv.GetSlice()
 		}
 		for _, v := range vals {
+			if f.Value.Type() == "bool" { // a bool flag takes no separate value
+				args = append(args, "--"+f.Name+"="+shellQuote(v))
+				continue
+			}
 			args = append(args, "--"+f.Name, shellQuote(v))
 		}
 	})
