@@ -17,6 +17,15 @@ import "math"
 //     At the ceiling the grid may not resolve 4 k_R; Grid.ResolutionWarning
 //     then says so.
 //
+// When the box for a small momentum is too long for the ceiling (k → 0 near
+// the plane-wave ↔ single-minimum boundary), ResolveBox goes on: it raises
+// the points above the power-of-two ceiling through FFT-friendly sizes
+// (FFTSize: even 2^a·3^b·5^c) up to AutoPointsLimit[dim], and then caps the
+// box at fewer wavelengths of k (3, 2, 1; every one still admits ±k
+// exactly). A box that still misses k_max ≥ 4 k_R is reported unresolved:
+// callers must not classify a state computed on it (GPE maps label such a
+// point under-resolved).
+//
 // The floors are a choice of this project: at 256 points a 1D box of four
 // stripe wavelengths resolves k_max ≈ 30 k_R, far above the energies of
 // interest, and the floors of 2D and 3D keep grids affordable on a laptop
@@ -32,6 +41,15 @@ var (
 	AutoPointsMin = [4]int{0, 256, 64, 32}
 	AutoPointsMax = [4]int{0, 1024, 256, 128}
 )
+
+// AutoPointsLimit is the largest number of points per axis ResolveBox
+// raises an automatic count to (dimension 1, 2, 3): 1D 8192, 2D 1024,
+// 3D 256 (a choice of this project: a few MB to 0.5 GB per spinor state).
+var AutoPointsLimit = [4]int{0, 8192, 1024, 256}
+
+// ResolvedKMax is the resolution a box must reach, k_max = π/dx ≥ 4 k_R
+// (the threshold of Grid.ResolutionWarning).
+const ResolvedKMax = 4
 
 // BoxMomentum returns the momentum (k_R, positive) that a box is sized for:
 // |k| of the first candidate with |k| ≥ MinBoxMomentum, or 1 k_R when there
@@ -71,4 +89,88 @@ func AutoPoints(dim int, L float64) int {
 		n *= 2
 	}
 	return n
+}
+
+// FFTSize returns the smallest even n ≥ min whose only prime factors are 2,
+// 3 and 5 (sizes FFTW and gonum transform fast; FFTW's documentation
+// recommends small prime factors, common practice), and 0 when that is
+// above max.
+func FFTSize(min, max int) int {
+	if min < 2 {
+		min = 2
+	}
+	for n := min + min%2; n <= max; n += 2 {
+		m := n
+		for _, p := range [...]int{2, 3, 5} {
+			for m%p == 0 {
+				m /= p
+			}
+		}
+		if m == 1 {
+			return n
+		}
+	}
+	return 0
+}
+
+// BoxAxis is the x axis of a box chosen by ResolveBox.
+type BoxAxis struct {
+	// Length of the box along x (1/k_R) and the points along it.
+	Length float64
+	Points int
+	// Wavelengths of the box momentum in Length (4 normally, fewer when the
+	// box was capped; 0 when the length was given).
+	Wavelengths int
+	// Resolved: k_max = π·Points/Length ≥ ResolvedKMax. A state on an
+	// unresolved box must not be classified.
+	Resolved bool
+}
+
+// KMax is π·Points/Length (k_R).
+func (b BoxAxis) KMax() float64 { return math.Pi * float64(b.Points) / b.Length }
+
+// ResolveBox chooses the x axis of a periodic box (dimension dim, 1…3) for
+// momentum k (k_R; BoxMomentum of the states the box must hold) by the rule
+// of this file. points > 0 fixes the number of points and length > 0 the
+// length; zero leaves them to the rule:
+//
+//  1. length AutoLength(k) (four wavelengths), points AutoPoints(dim, length)
+//     — the rule `ground` has always used; resolved boxes end here;
+//  2. automatic points: the smallest FFTSize with k_max ≥ 4 k_R, up to
+//     AutoPointsLimit[dim];
+//  3. automatic length: 3, 2, then 1 wavelength of k, with the points of
+//     steps 1–2 (or the given ones) — the first that resolves.
+//
+// If nothing resolves, the last candidate is returned with Resolved false.
+func ResolveBox(dim int, k float64, points int, length float64) BoxAxis {
+	if dim < 1 || dim > 3 {
+		return BoxAxis{}
+	}
+	k = math.Abs(k)
+	if !(k > 0) {
+		k = 1
+	}
+	choose := func(L float64, wl int) BoxAxis {
+		b := BoxAxis{Length: L, Points: points, Wavelengths: wl}
+		if b.Points == 0 {
+			b.Points = AutoPoints(dim, L)
+			if b.KMax() < ResolvedKMax*(1-1e-12) {
+				if n := FFTSize(int(math.Ceil(ResolvedKMax*L/math.Pi*(1-1e-12))), AutoPointsLimit[dim]); n > 0 {
+					b.Points = n
+				} else {
+					b.Points = AutoPointsLimit[dim]
+				}
+			}
+		}
+		b.Resolved = b.KMax() >= ResolvedKMax*(1-1e-12)
+		return b
+	}
+	if length > 0 {
+		return choose(length, 0)
+	}
+	b := choose(AutoLength(k), 4)
+	for wl := 3; wl >= 1 && !b.Resolved; wl-- {
+		b = choose(2*math.Pi*float64(wl)/k, wl)
+	}
+	return b
 }

@@ -96,12 +96,17 @@ func BenchmarkFinisherIteration(b *testing.B) {
 // BenchmarkOneFFT: one forward transform, FFTW and the pure-Go backend.
 func BenchmarkOneFFT(b *testing.B) {
 	for _, pts := range benchSizes {
-		for _, be := range []fft.Backend{fft.FFTW, fft.Gonum} {
+		for _, c := range []struct {
+			be fft.Backend
+			pl fft.Planner
+			nm string
+		}{{fft.FFTW, fft.PlanEstimate, "fftw-estimate"}, {fft.FFTW, fft.PlanMeasure, "fftw-measure"}, {fft.Gonum, 0, "gonum"}} {
+			be := c.be
 			if be == fft.FFTW && !fft.FFTWAvailable {
 				continue
 			}
-			b.Run(fmt.Sprintf("%s/%v", sizeName(pts), be), func(b *testing.B) {
-				tr, err := fft.New(pts, be, fft.Options{})
+			b.Run(fmt.Sprintf("%s/%s", sizeName(pts), c.nm), func(b *testing.B) {
+				tr, err := fft.New(pts, be, fft.Options{Planner: c.pl})
 				if err != nil {
 					b.Fatal(err)
 				}

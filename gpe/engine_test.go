@@ -88,18 +88,31 @@ func TestEnergyNonIncreasing(t *testing.T) {
 
 // TestZeroAllocs: the split step and the finisher iteration allocate
 // nothing, serial and on the worker pool.
+// minAllocs is the fewest allocations per call over three rounds of
+// testing.AllocsPerRun. AllocsPerRun counts every malloc of the process, and
+// on a loaded machine the runtime now and then allocates for itself while a
+// pool worker sits in a cgo (FFTW) call (a new OS thread for the scheduler);
+// an allocation of our own code happens in every round and still shows.
+func minAllocs(f func()) float64 {
+	best := math.Inf(1)
+	for i := 0; i < 3; i++ {
+		best = math.Min(best, testing.AllocsPerRun(5, f))
+	}
+	return best
+}
+
 func TestZeroAllocs(t *testing.T) {
 	for _, pts := range [][]int{{256}, {128, 128}} {
 		p := stripeProblem(pts)
 		for _, mode := range []FFTMode{FFTSerial, FFTAuto} {
 			e := newTestEngine(t, p, Guess{Kind: GuessStripe, K: 0.9}, perf{fftMode: mode})
 			_ = e.normalize()
-			if a := testing.AllocsPerRun(5, func() { e.splitSteps(0.01, 3) }); a != 0 {
+			if a := minAllocs(func() { e.splitSteps(0.01, 3) }); a != 0 {
 				t.Errorf("%v mode %v: split step allocates %v", pts, mode, a)
 			}
 			set := (&Settings{MaxIter: 3, Tol: 1e-300}).withDefaults()
 			nop := func(Energies) {}
-			if a := testing.AllocsPerRun(5, func() { e.cg(set, nop) }); a != 0 {
+			if a := minAllocs(func() { e.cg(set, nop) }); a != 0 {
 				t.Errorf("%v mode %v: finisher allocates %v per 3 iterations", pts, mode, a)
 			}
 			e.close()

@@ -35,7 +35,9 @@ type Observables struct {
 	// of the atoms, largest first (at most 6).
 	Peaks []Peak
 
-	// K1: |k_x| of the largest peak (k_R).
+	// K1: |k_x| of the largest peak (k_R): the grid momentum of its bin in a
+	// periodic box, the maximum of the continuous momentum distribution for a
+	// trapped or walled state (observe_shape.go).
 	K1 float64
 	// StripePeriod: π/K1, the period of a stripe of wavenumbers ±K1 (0 when
 	// K1 = 0), in 1/k_R.
@@ -44,11 +46,18 @@ type Observables struct {
 	// transverse axes, ñ(q) = ∫ n(x) e^{−iqx} dx: ½·contrast for a pure
 	// cosine stripe n ∝ 1 + C cos 2K1x. 0 when K1 = 0.
 	Fourier2K1 float64
-	// Contrast: (n_max − n_min)/(n_max + n_min) of the total density along x
-	// (integrated over the transverse axes); in a trap over the central
-	// region |x − ⟨x⟩| < σ_x/2 (σ_x the rms width), in a hard box over the
-	// central half |x| < W_x/4, to leave out the envelope and the walls.
-	Contrast float64
+	// Contrast of the total density along x (integrated over the transverse
+	// axes), independent of the grid's offset (observe_shape.go): in a
+	// periodic box (n_max − n_min)/(n_max + n_min) of the continuous density;
+	// in a hard box the same over the central half |x| < W_x/4; in a harmonic
+	// trap the 2k₁ amplitude over the local mean density at the cloud centre
+	// (demodulation with a Gaussian window of rms width ContrastWindow = 2π/k₁,
+	// the envelope removed), 0 when k₁ is below the single-minimum threshold.
+	// For a cosine stripe n ∝ 1 + C cos 2k₁x all give C. ContrastDef says
+	// which definition was used.
+	Contrast       float64
+	ContrastDef    string
+	ContrastWindow float64 // 1/k_R; 0 unless trapped
 
 	// MuTF: Thomas–Fermi estimate of μ for a harmonic trap (0 otherwise),
 	// E₋,min + μ_TF(g_eff) with E₋,min the bottom of the lower band
@@ -154,7 +163,9 @@ func Observe(p Problem, st *State, converged bool, th label.Thresholds) (*Observ
 	}
 	o.Phase = label.Classify(f, th)
 
-	// Peaks of the ascending k_x marginal.
+	// Peaks of the ascending k_x marginal: grid maxima, then (for a
+	// localised state) the maximum of the continuous distribution n(k)
+	// within one bin (observe_shape.go).
 	m := make([]float64, nx)
 	for i := range m {
 		m[i] = o.MomentumX[0][i] + o.MomentumX[1][i]
@@ -168,12 +179,19 @@ func Observe(p Problem, st *State, converged bool, th label.Thresholds) (*Observ
 			r = m[i+1]
 		}
 		if m[i] >= 0.01 && m[i] > l && m[i] >= r {
-			o.Peaks = append(o.Peaks, Peak{Kx: o.Kx[i] + subBin(l, m[i], r, o.Kx), Weight: m[i]})
+			o.Peaks = append(o.Peaks, Peak{Kx: o.Kx[i], Weight: m[i]})
 		}
 	}
-	sort.Slice(o.Peaks, func(a, b int) bool { return o.Peaks[a].Weight > o.Peaks[b].Weight })
+	sort.SliceStable(o.Peaks, func(a, b int) bool { return o.Peaks[a].Weight > o.Peaks[b].Weight })
 	if len(o.Peaks) > 6 {
 		o.Peaks = o.Peaks[:6]
+	}
+	if p.Model.Potential.Kind != NoPotential && nx > 1 {
+		d := newDTFT(st)
+		dk := 2 * math.Pi / g.L[0]
+		for i := range o.Peaks {
+			o.Peaks[i].Kx = d.refinePeak(o.Peaks[i].Kx, dk)
+		}
 	}
 	if len(o.Peaks) > 0 {
 		o.K1 = math.Abs(o.Peaks[0].Kx)
@@ -194,64 +212,29 @@ func Observe(p Problem, st *State, converged bool, th label.Thresholds) (*Observ
 	if n0 > 0 && o.K1 > 0 {
 		o.Fourier2K1 = cmplx.Abs(nq) / n0
 	}
-	lo, hi := 0, nx
-	if pot := p.Model.Potential; pot.Kind == HardBox && pot.Width[0] > 0 {
-		lo, hi = nx, 0
-		for i := range n {
-			if math.Abs(g.X[0][i]) < pot.Width[0]/4 {
-				lo, hi = min(lo, i), max(hi, i+1)
-			}
-		}
+	// Contrast (observe_shape.go), on the alias-free density.
+	nf, err := fineDensityX(st)
+	if err != nil {
+		return nil, err
 	}
-	if p.Model.Potential.Kind == Harmonic {
-		var mx, mx2 float64
-		for i, v := range n {
-			mx += g.X[0][i] * v
-			mx2 += g.X[0][i] * g.X[0][i] * v
+	h := g.Dx[0] / 2
+	x0 := g.X[0][0]
+	pot := p.Model.Potential
+	o.ContrastDef = ContrastDefinition(pot.Kind)
+	switch {
+	case pot.Kind == Harmonic:
+		if o.K1 >= th.SingleMinimumK {
+			o.Contrast, o.ContrastWindow = contrastDemod(nf, x0, h, o.K1)
 		}
-		mx /= n0
-		sd := math.Sqrt(math.Max(mx2/n0-mx*mx, 0))
-		lo, hi = nx, 0
-		for i := range n {
-			if math.Abs(g.X[0][i]-mx) < sd/2 {
-				lo, hi = min(lo, i), max(hi, i+1)
-			}
-		}
+	case pot.Kind == HardBox && pot.Width[0] > 0:
+		o.Contrast, err = contrastMaxMin(nf, x0, h, -pot.Width[0]/4, pot.Width[0]/4)
+	default:
+		o.Contrast, err = contrastMaxMin(nf, x0, h, math.Inf(-1), math.Inf(1))
 	}
-	if hi > lo {
-		nmax, nmin := math.Inf(-1), math.Inf(1)
-		for _, v := range n[lo:hi] {
-			nmax, nmin = math.Max(nmax, v), math.Min(nmin, v)
-		}
-		if nmax+nmin > 0 {
-			o.Contrast = (nmax - nmin) / (nmax + nmin)
-		}
+	if err != nil {
+		return nil, err
 	}
 	return o, nil
-}
-
-// subBin returns the offset (k_R) of a peak from its grid bin by Gaussian
-// (log-parabolic) interpolation of the weights l, c, r of the bin and its
-// neighbours: δ = dk (ln l − ln r) / (2(ln l − 2 ln c + ln r)). A trapped
-// cloud's momentum peak is broad and falls between the box momenta 2πm/L;
-// the bin alone would put k₁ off by up to dk/2 (1.7 % seen on a 1D trap).
-// Zero when a neighbour is empty (a box state sits exactly on a bin) or the
-// bins do not bracket a maximum.
-func subBin(l, c, r float64, kx []float64) float64 {
-	const floor = 1e-6
-	if l < floor*c || r < floor*c || len(kx) < 2 {
-		return 0
-	}
-	a, b, d := math.Log(l), math.Log(c), math.Log(r)
-	den := a - 2*b + d
-	if den >= 0 {
-		return 0
-	}
-	off := (a - d) / (2 * den)
-	if math.Abs(off) > 0.5 {
-		return 0
-	}
-	return off * (kx[1] - kx[0])
 }
 
 // DensityX returns the total density integrated over the transverse axes,

@@ -76,15 +76,28 @@ func (cr *CalibrateResult) WriteH5(w *Writer) {
 	w.Scalar("/fit/phase_zero", c.PhaseZero, "rad", "pulse phase of zero recoil (also + π)")
 }
 
-// WritePNG draws the recoils against pulse phase with the fitted and the
-// nominal curve (CalibratePlot).
-func (cr *CalibrateResult) WritePNG(w io.Writer) error {
+// Plot returns the figure's data: the recoils against pulse phase with
+// error bars, the fitted and the nominal curve and the fit's values; the
+// title carries the nominal setting.
+func (cr *CalibrateResult) Plot() CalibratePlot {
 	p, c := cr.Shake, cr.Calibration
-	cp := CalibratePlot{Title: fmt.Sprintf("socmap calibrate: %s, %s G/cm nominal at %s kHz", p.Species.Name,
-		Num(p.Gradient*100, 4), Num(p.ShakeHz/1e3, 4)),
-		Kt: c.Kt, FitK: c.KMax, FitLagDeg: deg(c.Lag), NominalK: c.KNominal}
+	parts := []string{fmt.Sprintf("%s G/cm nominal at %s kHz (sine)", sig(p.Gradient*100), sig(p.ShakeHz/1e3)),
+		"B0 = " + sig(p.Bias/dispersion.Gauss) + " G"}
+	cp := CalibratePlot{Title: titleWith(fmt.Sprintf("socmap calibrate: recoil against pulse phase, %s %v↔%v", p.Species.Name, p.Up, p.Down), parts, 100),
+		Kt: c.Kt, FitK: c.KMax, FitLagDeg: deg(c.Lag), FitKErr: c.KMaxErr, FitLagErrDeg: deg(c.LagErr), NominalK: c.KNominal,
+		GradientRatio: c.GradientRatio, GradientRatioErr: c.GradientRatioErr}
+	if c.N > 2 {
+		// The unweighted fit's error per point: √(RSS/(N − 2)), from the rms residual √(RSS/N).
+		cp.ResidualSD = c.ResidualRMS * math.Sqrt(float64(c.N)/float64(c.N-2))
+	}
 	for _, th := range c.Theta {
 		cp.PhaseDeg = append(cp.PhaseDeg, math.Mod(math.Mod(deg(th), 360)+360, 360))
 	}
-	return cp.WritePNG(w)
+	return cp
 }
+
+// Figure is Plot's figure.
+func (cr *CalibrateResult) Figure() (*Figure, error) { return cr.Plot().Figure() }
+
+// WritePNG renders Plot as PNG.
+func (cr *CalibrateResult) WritePNG(w io.Writer) error { return cr.Plot().WritePNG(w) }

@@ -17,6 +17,8 @@ type CompareReport struct {
 	// Cautions: safety cautions printed with the comparison (gradient coils,
 	// RF, lasers), one paragraph each.
 	Cautions []string
+	// Notes: the command's notes (settings not used), one line each.
+	Notes []string
 }
 
 // ThomasFermiText describes the Thomas–Fermi density the comparison used
@@ -76,9 +78,24 @@ func VerdictText(s *phases.SchemeSide) string {
 	t += fmt.Sprintf("; at the planned detuning the state is %s", v.PlannedPhase)
 	switch v.Code {
 	case phases.StripeAtBalancing:
-		t += fmt.Sprintf(" — at the balancing detuning it would be a stripe (retune δ by %s Hz)", Num(v.RetuneHz, 3))
+		knob := "RF detuning f_RF − |f₀|"
+		if s.Name == "Raman" {
+			knob = "two-photon detuning"
+		}
+		t += fmt.Sprintf(" — at the balancing detuning it would be a stripe (retune δ/2π by %+.3g Hz: set the %s to %s Hz, a change of %+.3g Hz)",
+			v.RetuneHz, knob, Num(v.SetDetuningHz, 5), v.SetDetuningChangeHz)
 	case phases.StripePlanned:
 		t += ": STRIPE PHASE PREDICTED"
+	}
+	if e := s.GPEEdge; e != nil {
+		switch {
+		case !e.Found:
+			t += "; GPE edge not found (" + e.Note + ")"
+		case v.BetweenEdges:
+			t += fmt.Sprintf("; the planned Ω lies between the variational edge %s and the GPE edge %s E_R: the full GPE predicts a stripe at δ_b there", Num(s.Window.Hi, 4), Num(e.Omega, 4))
+		default:
+			t += fmt.Sprintf("; GPE upper edge %s E_R (variational %s)", Num(e.Omega, 4), Num(s.Window.Hi, 4))
+		}
 	}
 	return t
 }
@@ -102,6 +119,12 @@ func (r *CompareReport) Table() *Table {
 	if tf := r.ThomasFermiText(); tf != "" {
 		t.Text(tf)
 	}
+	if c := r.Cloud; c != nil && c.Warning != "" {
+		t.Text(c.Warning)
+	}
+	for _, n := range r.Notes {
+		t.Text(n)
+	}
 	col := func(f func(s *phases.SchemeSide) string) []string {
 		return []string{f(sides[0]), f(sides[1])}
 	}
@@ -116,6 +139,14 @@ func (r *CompareReport) Table() *Table {
 	t.Section("Stripe window at δ = δ_b")
 	t.Columns("Ω/E_R from", col(func(s *phases.SchemeSide) string { return winEdge(s, true, 1) }), "")
 	t.Columns("Ω/E_R to", col(func(s *phases.SchemeSide) string { return winEdge(s, false, 1) }), "")
+	if r.Shake.GPEEdge != nil || r.Raman.GPEEdge != nil {
+		t.Columns("GPE upper edge Ω/E_R", col(func(s *phases.SchemeSide) string {
+			if s.GPEEdge == nil || !s.GPEEdge.Found {
+				return "n/a"
+			}
+			return Num(s.GPEEdge.Omega, 4) + " ± " + Num((s.GPEEdge.Hi-s.GPEEdge.Lo)/2, 1)
+		}), "")
+	}
 	t.Columns("in the scheme's Rabi frequency from", col(func(s *phases.SchemeSide) string { return winEdge(s, true, s.ERHz()) }), "Hz")
 	t.Columns("… to", col(func(s *phases.SchemeSide) string { return winEdge(s, false, s.ERHz()) }), "Hz")
 	t.Columns("stripe period (mid window)", col(func(s *phases.SchemeSide) string {
@@ -185,6 +216,7 @@ func (r *CompareReport) JSON() map[string]any {
 			"omega_over_ER": s.Model.OmegaOverER, "delta_over_ER": s.Model.DeltaOverER,
 			"phase_planned": s.Planned.Phase.String(), "phase_planned_balanced": s.PlannedBalanced.Phase.String(),
 			"limits": r.limitTexts(i), "verdict": VerdictText(s),
+			"retune_delta_hz": n(s.Verdict.RetuneHz), "set_detuning_hz": n(s.Verdict.SetDetuningHz),
 		}
 		if s.Window.Found {
 			d["stripe_window_omega_over_ER"] = []any{n(s.Window.Lo), n(s.Window.Hi)}
@@ -193,9 +225,27 @@ func (r *CompareReport) JSON() map[string]any {
 			d["stripe_contrast"] = s.Mid.Contrast
 			d["delta_tolerance_hz"] = n(s.DeltaWindow.Width() / 2 * s.ERHz())
 		}
+		if e := s.GPEEdge; e != nil {
+			d["gpe_edge"] = map[string]any{"found": e.Found, "omega_over_ER": n(e.Omega), "bracket_over_ER": []any{n(e.Lo), n(e.Hi)},
+				"rabi_hz": n(e.Omega * s.ERHz()), "note": e.Note, "planned_between_edges": s.Verdict.BetweenEdges}
+		}
 		return d
 	}
 	sh := r.Problem.Shake
-	return map[string]any{"atom": sh.Species.Name, "up": sh.Up.String(), "down": sh.Down.String(), "density_per_m3": r.Density,
-		"shake": side(0, &r.Shake), "raman": side(1, &r.Raman), "cautions": append([]string{}, r.Cautions...)}
+	doc := map[string]any{"atom": sh.Species.Name, "up": sh.Up.String(), "down": sh.Down.String(), "density_per_m3": r.Density,
+		"shake": side(0, &r.Shake), "raman": side(1, &r.Raman), "cautions": append([]string{}, r.Cautions...),
+		"notes": append([]string{}, r.Notes...)}
+	if c := r.Cloud; c != nil {
+		doc["cloud"] = CloudJSON(c)
+	}
+	return doc
+}
+
+// CloudJSON is the density model of a trapped cloud (phases.TrapCloud) for
+// JSON documents.
+func CloudJSON(c *phases.CloudResult) map[string]any {
+	return map[string]any{"dims": c.Dims, "model": c.Model.String(), "mu_hz": c.Mu / dispersion.Planck,
+		"mu_3d_thomas_fermi_hz": c.Mu3D / dispersion.Planck, "mu_reduced_hz": c.MuReduced / dispersion.Planck,
+		"hbar_omega_perp_hz": c.HbarOmegaPerp / dispersion.Planck, "mu_over_hbar_omega_perp": c.Ratio,
+		"valid": c.Valid, "coupling_scale": c.Scale, "peak_density_per_m3": c.PeakDensity, "warning": c.Warning}
 }

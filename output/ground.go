@@ -2,14 +2,8 @@ package output
 
 import (
 	"fmt"
-	"image/color"
 	"io"
-	"math"
-
-	"gonum.org/v1/plot"
-	"gonum.org/v1/plot/palette/moreland"
-	"gonum.org/v1/plot/plotter"
-	"gonum.org/v1/plot/vg"
+	"strings"
 
 	"socmap/dispersion"
 	"socmap/gpe"
@@ -46,7 +40,7 @@ func (r *GroundResult) Table() *Table {
 	if o.Phase == label.Stripe && o.StripePeriod > 0 {
 		t.Row("stripe period π/k₁", N(o.StripePeriod, 5), "1/k_R")
 	}
-	t.Row("density contrast", N(o.Contrast, 4), "")
+	t.RowNote("density contrast", N(o.Contrast, 4), "", contrastNote(o))
 	t.Row("Fourier amplitude at 2k₁", N(o.Fourier2K1, 4), "")
 	if r.Units != nil {
 		t.Section("In SI")
@@ -106,7 +100,8 @@ func (r *GroundResult) JSON() map[string]any {
 	doc := map[string]any{
 		"phase": o.Phase.String(), "status": b.Status.String(), "energy_per_particle_over_ER": n(o.Energies.Total),
 		"mu_over_ER": n(o.Energies.Mu), "sz": n(o.Sz), "sx": n(o.Sx), "k1_over_kR": n(o.K1), "contrast": n(o.Contrast),
-		"fourier_2k1": n(o.Fourier2K1), "stripe_period_over_inv_kR": n(o.StripePeriod),
+		"contrast_definition": o.ContrastDef,
+		"fourier_2k1":         n(o.Fourier2K1), "stripe_period_over_inv_kR": n(o.StripePeriod),
 		"iterations": b.Iterations, "split_steps": b.SplitSteps, "residual_over_ER": n(b.Residual),
 		"energy_parts_over_ER": map[string]any{"kinetic": n(o.Energies.Kinetic), "potential": n(o.Energies.Potential),
 			"rabi": n(o.Energies.Rabi), "detuning": n(o.Energies.Detuning), "interaction": n(o.Energies.Interaction)},
@@ -118,6 +113,9 @@ func (r *GroundResult) JSON() map[string]any {
 	}
 	if o.MuTF > 0 {
 		doc["mu_thomas_fermi_over_ER"] = n(o.MuTF) // band bottom + μ_TF(g_eff), from gpe.Observe
+	}
+	if c := r.Cloud; c != nil {
+		doc["cloud"] = CloudJSON(c)
 	}
 	if v := r.Variational; v != nil {
 		doc["variational"] = map[string]any{"where": v.Where, "phase": v.Phase.String(), "energy_per_particle_over_ER": v.Energy,
@@ -131,6 +129,19 @@ func (r *GroundResult) JSON() map[string]any {
 		}
 	}
 	return doc
+}
+
+// contrastNote says how the contrast was measured (one line for tables).
+func contrastNote(o *gpe.Observables) string {
+	switch {
+	case o.ContrastWindow > 0:
+		return fmt.Sprintf("(2k₁ amplitude / local mean at the cloud centre, window σ = %s/k_R: envelope removed)", Num(o.ContrastWindow, 3))
+	case strings.Contains(o.ContrastDef, "central half"):
+		return "(continuous n_max, n_min over the central half)"
+	case strings.HasPrefix(o.ContrastDef, "2|"):
+		return "(no stripe wavenumber: k₁ below the single-minimum threshold)"
+	}
+	return "(continuous n_max, n_min)"
 }
 
 func lengths(g *gpe.Grid) string {
@@ -164,6 +175,13 @@ func (r *GroundResult) WriteH5(w *Writer) {
 	w.Attr("/model", "potential", m.Potential.Kind.String())
 	if m.Potential.Kind == gpe.Harmonic {
 		w.Array("/model/trap_omega", m.Potential.AngularFreq[:g.Dim], nil, "E_R/ħ", "harmonic trap angular frequencies")
+	}
+	if c := r.Cloud; c != nil {
+		w.Attr("/model", "cloud_model", c.Model.String())
+		w.Attr("/model", "cloud_warning", c.Warning)
+		w.Scalar("/model/mu_over_hbar_omega_perp", c.Ratio, "dimensionless", "validity check of the reduced couplings: Thomas–Fermi μ of the reduced model over ħω⊥ (valid up to 1; in 3D μ over ħω of the stiffest axis, valid from 1)")
+		w.Scalar("/model/coupling_scale", c.Scale, "dimensionless", "factor applied to the reduced couplings (1, or the factor that makes μ the 3D Thomas–Fermi μ)")
+		w.Scalar("/model/peak_density", c.PeakDensity, "1/m^3", "effective 3D peak density μ/g of the cloud model")
 	}
 	if r.Units != nil {
 		w.Scalar("/units/k_R", r.Units.KR, "1/m", "recoil wavenumber: unit of momentum")
@@ -202,7 +220,7 @@ func (r *GroundResult) WriteH5(w *Writer) {
 	w.Scalar(ob+"sigma_x", o.Sx, "dimensionless", "⟨σ_x⟩ per particle")
 	w.Scalar(ob+"k1", o.K1, "k_R", "|k_x| of the largest momentum peak")
 	w.Scalar(ob+"stripe_period", o.StripePeriod, "1/k_R", "π/k₁")
-	w.Scalar(ob+"contrast", o.Contrast, "dimensionless", "(n_max − n_min)/(n_max + n_min) of the total density along x (central region)")
+	w.Scalar(ob+"contrast", o.Contrast, "dimensionless", "stripe contrast of the total density along x: "+o.ContrastDef)
 	w.Scalar(ob+"fourier_2k1", o.Fourier2K1, "dimensionless", "|ñ(2k₁)|/ñ(0) of the total density along x")
 	w.Scalar(ob+"mu_thomas_fermi", o.MuTF, "E_R", "Thomas–Fermi estimate of μ (0 without a trap)")
 	w.Attr("/observables", "phase", o.Phase.String())
@@ -227,123 +245,11 @@ func (r *GroundResult) WriteH5(w *Writer) {
 	w.Attr("/starts", "kept", int64(r.Multi.BestIndex))
 }
 
-// WritePNG draws the densities along x (each component and the total), the
-// momentum distribution along k_x, and for 2D/3D an image of the total
-// density in the x–y plane (z = 0).
+// WritePNG renders Figure (groundplot.go) as PNG.
 func (r *GroundResult) WritePNG(w io.Writer) error {
-	o := r.Multi.Observed
-	st := r.Multi.Best.State
-	g := r.Problem.Grid
-	xs, xl := 1.0, "x  [1/k_R]"
-	if r.Units != nil {
-		xs, xl = 1e6/r.Units.KR, "x  [µm]"
+	f, err := r.Figure()
+	if err != nil {
+		return err
 	}
-	p1 := plot.New()
-	p1.Title.Text = fmt.Sprintf("GPE ground state (%dD): %s, k₁ = %.3f k_R, contrast %.3f, %s",
-		g.Dim, o.Phase, o.K1, o.Contrast, r.Multi.Best.Status)
-	p1.X.Label.Text = xl
-	p1.Y.Label.Text = "density along x (integrated transversally)"
-	curves := []struct {
-		name string
-		y    []float64
-		c    color.Color
-		dash bool
-	}{{"total", st.DensityX(), color.Black, false}, {"spin ↑", st.ComponentDensityX(0), color.RGBA{210, 40, 40, 255}, true},
-		{"spin ↓", st.ComponentDensityX(1), color.RGBA{30, 80, 200, 255}, true}}
-	for _, c := range curves {
-		xy := make(plotter.XYs, g.N[0])
-		for i := range xy {
-			xy[i] = plotter.XY{X: g.X[0][i] * xs, Y: c.y[i]}
-		}
-		l, err := plotter.NewLine(xy)
-		if err != nil {
-			return err
-		}
-		l.Color, l.Width = c.c, vg.Points(1.5)
-		if c.dash {
-			l.Dashes = []vg.Length{vg.Points(4), vg.Points(2)}
-		}
-		p1.Add(l)
-		p1.Legend.Add(c.name, l)
-	}
-	p1.Legend.Top = true
-	p1.Legend.Left = true
-	p1.Legend.XOffs = vg.Points(8)
-	p1.Legend.YOffs = vg.Points(-4)
-	p1.Y.Min = 0
-	p1.Add(plotter.NewGrid())
-
-	p2 := plot.New()
-	p2.X.Label.Text = "k_x  [k_R]"
-	p2.Y.Label.Text = "fraction of atoms"
-	// Discrete momenta: one stem per k_x (the ↓ stems shifted by a hair so
-	// that equal weights stay visible).
-	for c, name := range []string{"spin ↑", "spin ↓"} {
-		shift := 0.012 * float64(2*c-1)
-		var leg *plotter.Line
-		for i, k := range o.Kx {
-			wgt := o.MomentumX[c][i]
-			if math.Abs(k) > 4 || wgt < 1e-4 {
-				continue
-			}
-			l, err := plotter.NewLine(plotter.XYs{{X: k + shift, Y: 0}, {X: k + shift, Y: wgt}})
-			if err != nil {
-				return err
-			}
-			l.Color, l.Width = curves[c+1].c, vg.Points(2.5)
-			p2.Add(l)
-			leg = l
-		}
-		if leg != nil {
-			p2.Legend.Add(name, leg)
-		}
-	}
-	p2.X.Min, p2.X.Max = -4, 4
-	p2.Y.Min = 0
-	p2.Legend.Top = true
-	p2.Add(plotter.NewGrid())
-	panels := []*plot.Plot{p1, p2}
-	frac := []float64{0.5, 0.5}
-	if g.Dim >= 2 {
-		p3 := plot.New()
-		p3.Title.Text = "total density, x–y plane (z = 0)"
-		p3.X.Label.Text = xl
-		ys := xs
-		p3.Y.Label.Text = "y" + xl[1:]
-		pg := planeGrid{st: st, xs: xs, ys: ys}
-		hm := plotter.NewHeatMap(pg, moreland.SmoothBlueRed().Palette(64))
-		p3.Add(hm)
-		// Colour scale of the image.
-		cm := moreland.SmoothBlueRed()
-		cm.SetMin(hm.Min)
-		cm.SetMax(math.Max(hm.Max, hm.Min+1e-300))
-		p4 := plot.New()
-		p4.HideY()
-		p4.X.Label.Text = fmt.Sprintf("total density |ψ↑|² + |ψ↓|²  [atoms per (1/k_R)^%d]", g.Dim)
-		p4.Add(&plotter.ColorBar{ColorMap: cm})
-		panels = append(panels, p3, p4)
-		frac = []float64{0.28, 0.22, 0.40, 0.10}
-	}
-	h := 8 * vg.Inch
-	if g.Dim >= 2 {
-		h = 11 * vg.Inch
-	}
-	return renderPanels(w, 8*vg.Inch, h, panels, frac)
+	return f.WritePNG(w)
 }
-
-// planeGrid is the total density in the z = 0 plane (the middle z index).
-type planeGrid struct {
-	st     *gpe.State
-	xs, ys float64
-}
-
-func (p planeGrid) Dims() (c, r int) { return p.st.Grid.N[0], p.st.Grid.N[1] }
-func (p planeGrid) Z(c, r int) float64 {
-	g := p.st.Grid
-	l := g.N[2] / 2
-	i := (c*g.N[1]+r)*g.N[2] + l
-	a, b := p.st.Psi[0][i], p.st.Psi[1][i]
-	return real(a)*real(a) + imag(a)*imag(a) + real(b)*real(b) + imag(b)*imag(b)
-}
-func (p planeGrid) X(c int) float64 { return p.st.Grid.X[0][c] * p.xs }
-func (p planeGrid) Y(r int) float64 { return p.st.Grid.X[1][r] * p.ys }

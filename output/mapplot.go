@@ -1,33 +1,48 @@
 package output
 
 import (
+	"fmt"
 	"image/color"
 	"io"
 	"math"
+	"path/filepath"
+	"strings"
 
 	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/palette"
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
-	"gonum.org/v1/plot/vg/vgimg"
 
 	"socmap/phases"
 	"socmap/phases/label"
 )
 
-// phaseColors are the map colours of the phase codes (label.Phase order).
-var phaseColors = []color.Color{
-	color.RGBA{235, 235, 235, 255}, // not computed
-	color.RGBA{120, 170, 230, 255}, // single-minimum
-	color.RGBA{245, 190, 90, 255},  // plane-wave
-	color.RGBA{200, 90, 140, 255},  // stripe
-	color.RGBA{90, 90, 90, 255},    // not converged
-	color.RGBA{255, 255, 255, 255}, // no coupling
+// phaseColors are the map colours of the phase codes, one entry per code
+// of label.All: a new code needs one entry here (TestPhaseColors checks
+// that every code has one, visible on the white background and distinct
+// from the others).
+var phaseColors = map[label.Phase]color.Color{
+	label.NotComputed:   color.RGBA{225, 225, 225, 255}, // light grey
+	label.SingleMinimum: color.RGBA{120, 170, 230, 255}, // blue
+	label.PlaneWave:     color.RGBA{245, 190, 90, 255},  // orange
+	label.Stripe:        color.RGBA{200, 90, 140, 255},  // magenta
+	label.NotConverged:  color.RGBA{80, 80, 80, 255},    // dark grey
+	label.NoCoupling:    color.RGBA{105, 180, 140, 255}, // green
+	label.UnderResolved: color.RGBA{110, 70, 30, 255},   // dark brown
 }
 
-type phasePalette struct{}
+// spareColor is drawn for a code without an entry in phaseColors, so that
+// it is never invisible.
+var spareColor color.Color = color.RGBA{150, 105, 50, 255}
 
-func (phasePalette) Colors() []color.Color { return phaseColors }
+// PhaseColor returns the map colour of phase code p.
+func PhaseColor(p label.Phase) color.Color {
+	if c, ok := phaseColors[p]; ok {
+		return c
+	}
+	return spareColor
+}
 
 // AxisDisplay returns the plot label of a map axis and the factor that turns
 // its stored (SI or E_R) values into the displayed unit (phases.Axes).
@@ -39,98 +54,81 @@ type Boundary struct {
 	X, Y []float64
 }
 
+// boundaryStyles are the line styles of the boundaries over a map, in
+// order: each boundary gets its own, so that legend entries differ.
+var boundaryStyles = []draw.LineStyle{
+	{Color: color.Black, Width: vg.Points(2.2), Dashes: []vg.Length{vg.Points(7), vg.Points(4)}},
+	{Color: color.RGBA{255, 255, 255, 255}, Width: vg.Points(2.4), Dashes: []vg.Length{vg.Points(2), vg.Points(3)}},
+	{Color: color.Black, Width: vg.Points(1.6), Dashes: []vg.Length{vg.Points(9), vg.Points(3), vg.Points(2), vg.Points(3)}},
+}
+
 // MapPlot is a phase-diagram figure.
 type MapPlot struct {
-	Data       *MapData
+	Data *MapData
+	// Title: first line the map, the next lines the fixed settings.
 	Title      string
 	Boundaries []Boundary
 	Marks      []int  // point indices (iy·nx + ix) to mark with a cross
 	MarksName  string // legend text of the marks
 }
 
-type phaseGrid struct {
-	d      *MapData
-	xs, ys []float64
-}
-
-func (g phaseGrid) Dims() (c, r int)   { return g.d.NX, g.d.NY }
-func (g phaseGrid) Z(c, r int) float64 { return float64(g.d.Phase[r*g.d.NX+c]) }
-func (g phaseGrid) X(c int) float64    { return g.xs[c] }
-func (g phaseGrid) Y(r int) float64    { return g.ys[r] }
-
-// WritePNG renders the map: phases as colours with their names written in
-// each region, closed-form boundaries as dashed lines, and for a one-axis map
-// the stripe contrast and |k₁| beneath.
-func (mp MapPlot) WritePNG(w io.Writer) error {
-	d := mp.Data
-	sw := d.Spec.Sweep
+// axes returns the labels and displayed values of the map's axes (one
+// axis: y is a single 0).
+func (mp MapPlot) axes() (xl string, xv []float64, yl string, yv []float64) {
+	sw := mp.Data.Spec.Sweep
 	xl, xs := AxisDisplay(sw.X.Name, sw.X.Unit)
-	xv := scaled(sw.X.Values, xs)
-	oneAxis := sw.Y.Len() == 0
-	yv := []float64{0}
-	yl := ""
-	if !oneAxis {
+	xv = scaled(sw.X.Values, xs)
+	yv = []float64{0}
+	if sw.Y.Len() > 0 {
 		var ys float64
 		yl, ys = AxisDisplay(sw.Y.Name, sw.Y.Unit)
 		yv = scaled(sw.Y.Values, ys)
 	}
+	return FigureText(xl), xv, FigureText(yl), yv
+}
+
+// WritePNG renders the figure as PNG.
+func (mp MapPlot) WritePNG(w io.Writer) error {
+	f, err := mp.Figure()
+	if err != nil {
+		return err
+	}
+	return f.WritePNG(w)
+}
+
+// Figure builds the phase map: phases as colour cells (no gaps) with their
+// names written in their regions, a legend of the phases present, the
+// closed-form boundaries (one line style each) and the marks; for a
+// one-axis map the phase strip on top, the stripe contrast and |k₁| each on
+// its own axis beneath.
+func (mp MapPlot) Figure() (*Figure, error) {
+	d := mp.Data
+	xl, xv, yl, yv := mp.axes()
+	oneAxis := d.Spec.Sweep.Y.Len() == 0
 	p := plot.New()
-	p.Title.Text = mp.Title
 	p.X.Label.Text = xl
 	p.Y.Label.Text = yl
 	if oneAxis {
 		p.HideY()
 	}
-	grid := phaseGrid{d: d, xs: xv, ys: yv}
-	if d.NX > 1 && d.NY > 1 || oneAxis && d.NX > 1 {
-		hm := plotter.NewHeatMap(padGrid{grid}, phasePalette{})
-		hm.Min, hm.Max = 0, float64(len(phaseColors)-1)
-		p.Add(hm)
+	p.Add(&CellMap{X: xv, Y: yv, Color: func(ix, iy int) color.Color { return PhaseColor(d.Phase[iy*d.NX+ix]) }})
+	counts := map[label.Phase]int{}
+	for _, ph := range d.Phase {
+		counts[ph]++
 	}
-	// Phase names in their regions: at the point of each phase nearest to
-	// the phase's centroid.
-	var pts plotter.XYs
-	var names []string
+	if err := mp.regionNames(p, xv, yv); err != nil {
+		return nil, err
+	}
 	for _, ph := range label.All {
-		var sx, sy float64
-		n := 0
-		for iy := 0; iy < d.NY; iy++ {
-			for ix := 0; ix < d.NX; ix++ {
-				if d.Phase[iy*d.NX+ix] == ph {
-					sx, sy, n = sx+float64(ix), sy+float64(iy), n+1
-				}
-			}
+		if counts[ph] > 0 {
+			p.Legend.Add(ph.String(), Swatch{PhaseColor(ph)})
 		}
-		if n == 0 || ph == label.NotComputed {
-			continue
-		}
-		cx, cy := sx/float64(n), sy/float64(n)
-		// The cell of the phase nearest to its centroid.
-		best, bi := math.Inf(1), 0
-		for i, q := range d.Phase {
-			if q != ph {
-				continue
-			}
-			dx, dy := float64(i%d.NX)-cx, float64(i/d.NX)-cy
-			if r := dx*dx + dy*dy; r < best {
-				best, bi = r, i
-			}
-		}
-		pts = append(pts, plotter.XY{X: xv[bi%d.NX], Y: yv[bi/d.NX]})
-		names = append(names, ph.String())
 	}
-	if len(pts) > 0 {
-		lb, err := plotter.NewLabels(plotter.XYLabels{XYs: pts, Labels: names})
-		if err != nil {
-			return err
+	// Codes not in label.All (a newer file read by an older build).
+	for ph, n := range counts {
+		if n > 0 && !knownPhase(ph) {
+			p.Legend.Add(fmt.Sprintf("code %d", int8(ph)), Swatch{PhaseColor(ph)})
 		}
-		for i := range lb.TextStyle {
-			lb.TextStyle[i].Font.Size = vg.Points(13)
-			lb.TextStyle[i].Font.Weight = 700
-			lb.TextStyle[i].XAlign = draw.XCenter
-			lb.TextStyle[i].YAlign = draw.YCenter
-		}
-		p.Add(lb)
 	}
 	for i, b := range mp.Boundaries {
 		xy := make(plotter.XYs, 0, len(b.X))
@@ -144,11 +142,18 @@ func (mp MapPlot) WritePNG(w io.Writer) error {
 		}
 		l, err := plotter.NewLine(xy)
 		if err != nil {
-			return err
+			return nil, err
 		}
-		l.Width = vg.Points(2)
-		l.Dashes = []vg.Length{vg.Points(6), vg.Points(3 + float64(i))}
-		l.Color = color.Black
+		l.LineStyle = boundaryStyles[i%len(boundaryStyles)]
+		if l.LineStyle.Color == (color.RGBA{255, 255, 255, 255}) {
+			// A light line gets a dark casing, for the legend and for light cells.
+			casing, _ := plotter.NewLine(xy)
+			casing.LineStyle = draw.LineStyle{Color: color.Black, Width: l.Width + vg.Points(1.6)}
+			p.Add(casing)
+			p.Add(l)
+			p.Legend.Add(b.Name, casing, l)
+			continue
+		}
 		p.Add(l)
 		p.Legend.Add(b.Name, l)
 	}
@@ -159,95 +164,259 @@ func (mp MapPlot) WritePNG(w io.Writer) error {
 		}
 		sc, err := plotter.NewScatter(xy)
 		if err != nil {
-			return err
+			return nil, err
 		}
 		sc.GlyphStyle = draw.GlyphStyle{Shape: draw.CrossGlyph{}, Radius: vg.Points(4), Color: color.Black}
 		p.Add(sc)
 		p.Legend.Add(mp.MarksName, sc)
 	}
-	for _, ph := range label.All[1:] {
-		// A black-edged swatch, readable on any background colour.
-		edge, _ := plotter.NewScatter(plotter.XYs{})
-		edge.GlyphStyle = draw.GlyphStyle{Shape: draw.BoxGlyph{}, Radius: vg.Points(6), Color: color.Black}
-		s, _ := plotter.NewScatter(plotter.XYs{})
-		s.GlyphStyle = draw.GlyphStyle{Shape: draw.BoxGlyph{}, Radius: vg.Points(5), Color: phaseColors[ph]}
-		p.Legend.Add(ph.String(), edge, s)
-	}
-	p.Legend.Top = true
-	p.Legend.Left = false
-	p.Legend.XOffs = vg.Points(-8)
-	p.Legend.YOffs = vg.Points(-8)
 	p.X.Min, p.X.Max = extent(xv)
+	p.Y.Min, p.Y.Max = extent(yv)
 	if !oneAxis {
-		p.Y.Min, p.Y.Max = extent(yv)
-		// The legend goes beside the map, never over it.
-		leg := p.Legend
-		p.Legend = plot.NewLegend()
-		leg.Top, leg.Left = true, true
-		leg.XOffs, leg.YOffs = vg.Points(6), -vg.Points(40)
-		width, height := 10.5*vg.Inch, 7*vg.Inch
-		img := vgimg.NewWith(vgimg.UseWH(width, height), vgimg.UseDPI(110))
-		dc := draw.New(img)
-		split := 7.6 * vg.Inch
-		p.Draw(draw.Canvas{Canvas: dc.Canvas, Rectangle: vg.Rectangle{Max: vg.Point{X: split, Y: height}}})
-		leg.Draw(draw.Canvas{Canvas: dc.Canvas, Rectangle: vg.Rectangle{Min: vg.Point{X: split}, Max: vg.Point{X: width, Y: height}}})
-		_, err := vgimg.PngCanvas{Canvas: img}.WriteTo(w)
-		return err
+		return &Figure{Title: mp.Title, Width: 10.5 * vg.Inch, Height: 7.5 * vg.Inch, Panels: []Panel{{Plot: p}}}, nil
 	}
-	// One axis: the phase strip on top, contrast and |k1| below.
-	p.Legend = plot.NewLegend()
-	q := plot.New()
-	q.X.Label.Text = xl
-	q.X.Min, q.X.Max = p.X.Min, p.X.Max
-	for _, o := range []struct{ name, legend string }{{"contrast", "stripe contrast"}, {"k1", "|k1| / k_R"}} {
+	// One axis: the phase strip on top, then one panel per quantity.
+	panels := []Panel{{Plot: p, Height: 0.8}}
+	for _, o := range []struct{ name, label string }{
+		{"contrast", "stripe contrast"},
+		{"k1", "|k₁| / k_R"},
+	} {
 		v := d.Observable(o.name)
 		if v == nil {
 			continue
 		}
-		xy := make(plotter.XYs, 0, len(v))
-		for i := range v {
-			if d.Mask[i] && !math.IsNaN(v[i]) {
-				xy = append(xy, plotter.XY{X: xv[i], Y: math.Abs(v[i])})
-			}
-		}
-		if len(xy) < 2 {
+		q, ok := lineOverX(xv, d.Mask, v, true, xl, o.label)
+		if !ok {
 			continue
 		}
-		l, _ := plotter.NewLine(xy)
-		l.Width = vg.Points(2)
-		if o.name == "k1" {
-			l.Dashes = []vg.Length{vg.Points(5), vg.Points(3)}
+		q.X.Min, q.X.Max = p.X.Min, p.X.Max
+		panels = append(panels, Panel{Plot: q})
+	}
+	return &Figure{Title: mp.Title, Width: 8.5 * vg.Inch, Height: vg.Length(4+2.2*float64(len(panels)-1)) * vg.Inch, Panels: panels}, nil
+}
+
+func knownPhase(p label.Phase) bool {
+	for _, q := range label.All {
+		if q == p {
+			return true
 		}
-		q.Add(l)
-		q.Legend.Add(o.legend, l)
 	}
-	q.Add(plotter.NewGrid())
-	q.Legend.Top = true
-	return renderAligned(w, 8*vg.Inch, 7*vg.Inch, []*plot.Plot{p, q})
+	return false
 }
 
-// padGrid repeats a one-row grid so that the heat map has a height.
-type padGrid struct{ g phaseGrid }
+// lineOverX is a plot of v (|v| when abs) against x at the computed points,
+// with its own y axis; ok is false with fewer than two finite points.
+func lineOverX(xv []float64, mask []bool, v []float64, abs bool, xl, yl string) (*plot.Plot, bool) {
+	var xy plotter.XYs
+	for i := range v {
+		if mask[i] && !math.IsNaN(v[i]) {
+			y := v[i]
+			if abs {
+				y = math.Abs(y)
+			}
+			xy = append(xy, plotter.XY{X: xv[i], Y: y})
+		}
+	}
+	if len(xy) < 2 {
+		return nil, false
+	}
+	q := plot.New()
+	q.X.Label.Text = xl
+	q.Y.Label.Text = yl
+	l, err := plotter.NewLine(xy)
+	if err != nil {
+		return nil, false
+	}
+	l.Width = vg.Points(2)
+	q.Add(plotter.NewGrid(), l)
+	return q, true
+}
 
-func (p padGrid) Dims() (c, r int) {
-	c, r = p.g.Dims()
-	if r == 1 {
-		return c, 2
+// regionNames writes each phase's name at its cell nearest to the phase's
+// centroid, aligned so that the text stays inside the data area at the
+// map's edges.
+func (mp MapPlot) regionNames(p *plot.Plot, xv, yv []float64) error {
+	d := mp.Data
+	var pts plotter.XYs
+	var names []string
+	var xa []draw.XAlignment
+	var ya []draw.YAlignment
+	for _, ph := range label.All {
+		if ph == label.NotComputed {
+			continue
+		}
+		var sx, sy float64
+		n := 0
+		for i, q := range d.Phase {
+			if q == ph {
+				sx, sy, n = sx+float64(i%d.NX), sy+float64(i/d.NX), n+1
+			}
+		}
+		if n == 0 {
+			continue
+		}
+		cx, cy := sx/float64(n), sy/float64(n)
+		best, bi := math.Inf(1), 0
+		for i, q := range d.Phase {
+			if q != ph {
+				continue
+			}
+			dx, dy := float64(i%d.NX)-cx, float64(i/d.NX)-cy
+			if r := dx*dx + dy*dy; r < best {
+				best, bi = r, i
+			}
+		}
+		ix, iy := bi%d.NX, bi/d.NX
+		at := plotter.XY{X: xv[ix], Y: yv[iy]}
+		names = append(names, ph.String())
+		x, y := draw.XCenter, draw.YCenter
+		switch {
+		case d.NX > 1 && ix < d.NX/10:
+			x = draw.XLeft
+		case d.NX > 1 && ix >= d.NX-d.NX/10-1:
+			x = draw.XRight
+		}
+		// In an edge row the name hangs from the map's edge into the region.
+		ylo, yhi := extent(yv)
+		switch {
+		case d.NY > 1 && iy == d.NY-1:
+			y, at.Y = draw.YTop, yhi
+		case d.NY > 1 && iy == 0:
+			y, at.Y = draw.YBottom, ylo
+		}
+		pts = append(pts, at)
+		xa, ya = append(xa, x), append(ya, y)
 	}
-	return c, r
+	if len(pts) == 0 {
+		return nil
+	}
+	lb, err := plotter.NewLabels(plotter.XYLabels{XYs: pts, Labels: names})
+	if err != nil {
+		return err
+	}
+	for i := range lb.TextStyle {
+		lb.TextStyle[i].Font.Size = vg.Points(13)
+		lb.TextStyle[i].XAlign = xa[i]
+		lb.TextStyle[i].YAlign = ya[i]
+	}
+	p.Add(lb)
+	return nil
 }
-func (p padGrid) Z(c, r int) float64 {
-	if p.g.d.NY == 1 {
-		r = 0
-	}
-	return p.g.Z(c, r)
+
+// observableDisplay is how an observable is labelled in figures and
+// whether it is signed (diverging colours when it takes both signs).
+// Observables not listed are labelled "name [unit]" and drawn sequential.
+var observableDisplay = map[string]struct {
+	Label  string
+	Signed bool
+}{
+	"contrast":           {"stripe contrast (n_max − n_min)/(n_max + n_min)", false},
+	"period":             {"stripe period π/k₁  [1/k_R]", false},
+	"k1":                 {"k₁  [k_R]", true},
+	"k_plus":             {"k₊  [k_R]", true},
+	"k_minus":            {"k₋  [k_R]", true},
+	"sigma_z":            {"<σz>  (spatial mean)", true},
+	"energy":             {"energy per particle  [E_R]", false},
+	"energy_variational": {"variational energy per particle  [E_R]", false},
+	"gap":                {"energy gap to the competing branch  [E_R]", false},
+	"weight_plus":        {"weight C₊² of exp(ik₊x)", false},
+	"residual":           {"residual ‖Hψ − μψ‖  [E_R]", false},
+	"box_length":         {"box length  [1/k_R]", false},
+	"spread":             {"energy spread of the starts  [E_R]", false},
 }
-func (p padGrid) X(c int) float64 { return p.g.X(c) }
-func (p padGrid) Y(r int) float64 {
-	if p.g.d.NY == 1 {
-		return float64(r) - 0.5
+
+// ObservableLabel returns the figure label of a map observable (with its
+// unit) and whether it is a signed quantity.
+func ObservableLabel(o phases.Observable) (string, bool) {
+	if d, ok := observableDisplay[o.Name]; ok {
+		return d.Label, d.Signed
 	}
-	return p.g.Y(r)
+	if o.Unit == "" || o.Unit == "dimensionless" {
+		return o.Name + " (dimensionless)", false
+	}
+	return o.Name + "  [" + o.Unit + "]", false
+}
+
+// FigureText replaces the characters that the figures' font (Liberation)
+// lacks by plain ones: superscript minus ⁻ → ^-, angle brackets ⟨ ⟩ → < >
+// (so "cm⁻³" does not read "cm³").
+func FigureText(s string) string {
+	return strings.NewReplacer("⁻³", "^-3", "⁻²", "^-2", "⁻¹", "^-1", "⁻", "^-", "⟨", "<", "⟩", ">").Replace(s)
+}
+
+// ObservablePath names the figure of observable name beside a phase-map
+// figure: map.png → map-contrast.png.
+func ObservablePath(figure, name string) string {
+	ext := filepath.Ext(figure)
+	return strings.TrimSuffix(figure, ext) + "-" + name + ext
+}
+
+// ObservableFigure builds the map of one observable: cells coloured by the
+// value (Sequential for a positive quantity; Diverging centred on zero for
+// a signed one that takes both signs), a colour bar with the label and
+// unit, cells without a value (NaN: not computed, or undefined there, like
+// the period outside stripes) in Missing(map) with a legend entry. A
+// one-axis map gives the observable against x.
+func (mp MapPlot) ObservableFigure(name string) (*Figure, error) {
+	d := mp.Data
+	var obs *phases.Observable
+	for i := range d.Spec.Sweep.Observables {
+		if d.Spec.Sweep.Observables[i].Name == name {
+			obs = &d.Spec.Sweep.Observables[i]
+		}
+	}
+	if obs == nil {
+		return nil, fmt.Errorf("the map has no observable %q (it has: %s)", name, strings.Join(ObservableNames(d.Spec.Sweep), ", "))
+	}
+	v := d.Observable(name)
+	lbl, signed := ObservableLabel(*obs)
+	xl, xv, yl, yv := mp.axes()
+	if d.Spec.Sweep.Y.Len() == 0 {
+		q, ok := lineOverX(xv, d.Mask, v, false, xl, lbl)
+		if !ok {
+			q = plot.New()
+			q.X.Label.Text, q.Y.Label.Text = xl, lbl
+		}
+		q.X.Min, q.X.Max = extent(xv)
+		return &Figure{Title: mp.Title, Width: 8.5 * vg.Inch, Height: 5 * vg.Inch, Panels: []Panel{{Plot: q}}}, nil
+	}
+	vals := make([]float64, len(v))
+	missing := 0
+	for i := range v {
+		vals[i] = v[i]
+		if !d.Mask[i] {
+			vals[i] = math.NaN()
+		}
+		if math.IsNaN(vals[i]) {
+			missing++
+		}
+	}
+	lo, hi := FiniteRange(vals)
+	var cm palette.ColorMap
+	if signed && lo < 0 && hi > 0 {
+		cm = Diverging(SignedRange(vals))
+	} else {
+		cm = Sequential(lo, hi)
+	}
+	p := plot.New()
+	p.X.Label.Text, p.Y.Label.Text = xl, yl
+	p.Add(&CellMap{X: xv, Y: yv, Color: func(ix, iy int) color.Color { return ColorAt(cm, vals[iy*d.NX+ix]) }})
+	if missing > 0 {
+		p.Legend.Add("no value (NaN)", Swatch{Missing(cm)})
+	}
+	p.X.Min, p.X.Max = extent(xv)
+	p.Y.Min, p.Y.Max = extent(yv)
+	return &Figure{Title: mp.Title, Width: 10.5 * vg.Inch, Height: 7.5 * vg.Inch,
+		Panels: []Panel{{Plot: p, ColorBar: NewColorBar(cm, lbl)}}}, nil
+}
+
+// ObservableNames lists the observables of a sweep.
+func ObservableNames(sw phases.Sweep) []string {
+	var out []string
+	for _, o := range sw.Observables {
+		out = append(out, o.Name)
+	}
+	return out
 }
 
 func scaled(v []float64, f float64) []float64 {

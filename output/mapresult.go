@@ -53,7 +53,7 @@ func (r *MapResult) Disagreements() []int {
 	pv := d.Observable("phase_variational")
 	var out []int
 	for i, p := range d.Phase {
-		if pv == nil || !d.Mask[i] || p == label.NotConverged || math.IsNaN(pv[i]) {
+		if pv == nil || !d.Mask[i] || p == label.NotConverged || p == label.UnderResolved || math.IsNaN(pv[i]) {
 			continue
 		}
 		if label.Phase(int8(pv[i])) != p {
@@ -63,15 +63,26 @@ func (r *MapResult) Disagreements() []int {
 	return out
 }
 
-// Plot returns the PNG phase diagram: phases in colour, the closed-form
-// boundaries where they apply, GPE ≠ variational points marked.
+// Plot returns the phase diagram: phases in colour, the closed-form
+// boundaries where they apply, GPE ≠ variational points marked; the title
+// names the method and scheme and, on the next lines, the fixed settings
+// (those no axis replaces).
 func (r *MapResult) Plot() MapPlot {
 	d := r.Data
 	title := fmt.Sprintf("Mean-field phase diagram (variational), %s", r.subtitle())
 	if d.Spec.Method == string(phases.MethodGPE) {
-		title = fmt.Sprintf("Phase diagram from 1D GPE ground states, %s", r.subtitle())
+		dims, what := 1, "GPE ground states"
+		if r.Problem != nil {
+			if r.Problem.GPE.Dims > 1 {
+				dims = r.Problem.GPE.Dims
+			}
+			if tr := r.Problem.Trap; tr != nil {
+				what = fmt.Sprintf("trapped GPE ground states (%g, %g, %g Hz)", tr.FreqHz[0], tr.FreqHz[1], tr.FreqHz[2])
+			}
+		}
+		title = fmt.Sprintf("Phase diagram from %dD %s, %s", dims, what, r.subtitle())
 	}
-	mp := MapPlot{Data: d, Title: title}
+	mp := MapPlot{Data: d, Title: r.titleWith(title)}
 	if r.Problem != nil {
 		xs, ys := axisScale(d.Spec.Sweep.X), axisScale(d.Spec.Sweep.Y)
 		for _, b := range r.Problem.ClosedFormBoundaries() {
@@ -85,17 +96,56 @@ func (r *MapResult) Plot() MapPlot {
 	return mp
 }
 
+// titleWith adds the fixed settings of the map's problem to a title.
+func (r *MapResult) titleWith(title string) string {
+	if r.Problem == nil {
+		return title
+	}
+	var except []string
+	for _, a := range []phases.Axis{r.Data.Spec.Sweep.X, r.Data.Spec.Sweep.Y} {
+		if def, ok := phases.LookupAxis(a.Name); ok && a.Len() > 0 {
+			except = append(except, def.Overrides...)
+		}
+	}
+	return titleWith(title, SettingParts(r.Problem.Lab, except), 110)
+}
+
 func axisScale(a phases.Axis) float64 {
 	_, s := AxisDisplay(a.Name, a.Unit)
 	return s
 }
 
-// WritePNG renders Plot.
+// Figure is the phase diagram's figure (Plot().Figure()).
+func (r *MapResult) Figure() (*Figure, error) { return r.Plot().Figure() }
+
+// WritePNG renders Plot as PNG.
 func (r *MapResult) WritePNG(w io.Writer) error { return r.Plot().WritePNG(w) }
+
+// ObservableFigure is the figure of one observable over the map (MapPlot.ObservableFigure),
+// titled with the observable, the method, the scheme and the fixed settings.
+func (r *MapResult) ObservableFigure(name string) (*Figure, error) {
+	mp := r.Plot()
+	method := "variational"
+	if r.Data.Spec.Method == string(phases.MethodGPE) {
+		method = "1D GPE"
+	}
+	mp.Title = r.titleWith(fmt.Sprintf("%s (%s), %s", name, method, r.subtitle()))
+	return mp.ObservableFigure(name)
+}
+
+// ObservableFigurer is the Figurer of one observable's map (for WriteFigure).
+type ObservableFigurer struct {
+	Result *MapResult
+	Name   string
+}
+
+// Figure implements Figurer.
+func (o ObservableFigurer) Figure() (*Figure, error) { return o.Result.ObservableFigure(o.Name) }
 
 // JSON is the map as a JSON document: x, y (name, unit, values), method,
 // phase_codes, phase and energy_over_ER (rows y, columns x; one row for a
-// one-axis map).
+// one-axis map); for a map over a scheme with an atom also k_R_per_m,
+// E_R_hz, omega_over_ER, delta_over_ER, energy_hz, k1_per_m and period_um.
 func (r *MapResult) JSON() map[string]any {
 	d := r.Data
 	sw := d.Spec.Sweep
@@ -119,6 +169,29 @@ func (r *MapResult) JSON() map[string]any {
 		doc["phase"], doc["energy_over_ER"] = names, energy
 	} else {
 		doc["phase"], doc["energy_over_ER"] = names[0], energy[0]
+	}
+	// Maps over a scheme with an atom: the per-point units and SI values
+	// (phases.LabObservables), in the same layout.
+	for _, o := range [...]struct{ obs, key string }{
+		{"k_R", "k_R_per_m"}, {"E_R", "E_R_hz"}, {"omega_over_ER", "omega_over_ER"}, {"delta_over_ER", "delta_over_ER"},
+		{"energy_hz", "energy_hz"}, {"k1_si", "k1_per_m"}, {"period_um", "period_um"},
+	} {
+		v := d.Observable(o.obs)
+		if v == nil {
+			continue
+		}
+		rows := make([][]any, d.NY)
+		for iy := range rows {
+			rows[iy] = make([]any, d.NX)
+			for ix := range rows[iy] {
+				rows[iy][ix] = JSONNum(v[iy*d.NX+ix])
+			}
+		}
+		if sw.Y.Len() > 0 {
+			doc[o.key] = rows
+		} else {
+			doc[o.key] = rows[0]
+		}
 	}
 	return doc
 }
@@ -158,25 +231,16 @@ func (r *MapResult) Table() *Table {
 	if res.Skipped > 0 {
 		t.Text(fmt.Sprintf("resumed: %d points from an earlier run, %d computed now", res.Skipped, res.Computed))
 	}
+	if ur := r.Where(label.UnderResolved); len(ur) > 0 {
+		t.Section(fmt.Sprintf("Under-resolved: %d of %d points (no grid within the limits resolves k_max = π/dx ≥ 4 k_R; not solved, not classified)", len(ur), d.NX*d.NY))
+		r.listPoints(t, ur, "all in the HDF5 file: phase code 6", func(int) string { return "" })
+	}
 	if pv := d.Observable("phase_variational"); pv != nil {
 		dis := r.Disagreements()
 		t.Section(fmt.Sprintf("GPE against the variational theory: %d of %d points disagree", len(dis), d.NX*d.NY))
-		xl, xsc := AxisDisplay(sw.X.Name, sw.X.Unit)
-		yl, ysc := "", 1.0
-		if sw.Y.Len() > 0 {
-			yl, ysc = AxisDisplay(sw.Y.Name, sw.Y.Unit)
-		}
-		for k, i := range dis {
-			if k == 12 {
-				t.Text(fmt.Sprintf("… and %d more (all in the HDF5 file: phase vs phase_variational)", len(dis)-12))
-				break
-			}
-			at := fmt.Sprintf("%s = %s", xl, Num(sw.X.Values[i%d.NX]*xsc, 4))
-			if yl != "" {
-				at += fmt.Sprintf(", %s = %s", yl, Num(sw.Y.Values[i/d.NX]*ysc, 4))
-			}
-			t.Text(fmt.Sprintf("%s: GPE %s, variational %s", at, d.Phase[i], label.Phase(int8(pv[i]))))
-		}
+		r.listPoints(t, dis, "all in the HDF5 file: phase vs phase_variational", func(i int) string {
+			return fmt.Sprintf(": GPE %s, variational %s", d.Phase[i], label.Phase(int8(pv[i])))
+		})
 	}
 	th := label.DefaultThresholds
 	if r.Problem != nil {
@@ -185,4 +249,38 @@ func (r *MapResult) Table() *Table {
 	t.Text(fmt.Sprintf("classifier thresholds: single-minimum below |k| = %g k_R, stripe from minority weight %g",
 		th.SingleMinimumK, th.StripeMinority))
 	return t
+}
+
+// Where lists the points (iy·nx + ix) labelled ph.
+func (r *MapResult) Where(ph label.Phase) []int {
+	var out []int
+	for i, p := range r.Data.Phase {
+		if p == ph && r.Data.Mask[i] {
+			out = append(out, i)
+		}
+	}
+	return out
+}
+
+// listPoints adds one line per point (at most 12) with the axis values and
+// what(i), and a count of the rest ("… and N more (more)").
+func (r *MapResult) listPoints(t *Table, pts []int, more string, what func(int) string) {
+	d := r.Data
+	sw := d.Spec.Sweep
+	xl, xsc := AxisDisplay(sw.X.Name, sw.X.Unit)
+	yl, ysc := "", 1.0
+	if sw.Y.Len() > 0 {
+		yl, ysc = AxisDisplay(sw.Y.Name, sw.Y.Unit)
+	}
+	for k, i := range pts {
+		if k == 12 {
+			t.Text(fmt.Sprintf("… and %d more (%s)", len(pts)-12, more))
+			break
+		}
+		at := fmt.Sprintf("%s = %s", xl, Num(sw.X.Values[i%d.NX]*xsc, 4))
+		if yl != "" {
+			at += fmt.Sprintf(", %s = %s", yl, Num(sw.Y.Values[i/d.NX]*ysc, 4))
+		}
+		t.Text(at + what(i))
+	}
 }

@@ -11,7 +11,6 @@ import (
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
-	"gonum.org/v1/plot/vg/vgimg"
 
 	"socmap/dispersion"
 )
@@ -51,48 +50,28 @@ type BandsPlot struct {
 	Info     dispersion.BandInfo
 }
 
-// WritePNG renders the figure (two panels: E±(k) coloured by ⟨σ_z⟩ with the
-// minima marked, and ⟨σ_z⟩(k) of both bands) as PNG.
+// WritePNG renders the figure as PNG.
 func (bp BandsPlot) WritePNG(w io.Writer) error {
+	f, err := bp.Figure()
+	if err != nil {
+		return err
+	}
+	return f.WritePNG(w)
+}
+
+// Figure builds the two panels: E±(k) coloured by ⟨σz⟩ (a signed quantity:
+// the diverging blue–grey–red scale of spinColor) with the minima marked,
+// and ⟨σz⟩(k) of both bands; legends in the side column.
+func (bp BandsPlot) Figure() (*Figure, error) {
 	c := bp.Curve
 	top := plot.New()
-	top.Title.Text = bp.Title
-	if bp.Subtitle != "" {
-		top.Title.Text += "\n" + bp.Subtitle
-	}
-	top.Y.Label.Text = "energy E / E_R"
-	top.X.Label.Text = "quasi-momentum k_x / k_R"
+	top.Y.Label.Text = "energy E  [E_R]"
+	top.X.Label.Text = "quasi-momentum k_x  [k_R]"
 	if err := spinLine(top, c.K, c.Lower, c.SzLower, vg.Points(2.5)); err != nil {
-		return err
+		return nil, err
 	}
 	if err := spinLine(top, c.K, c.Upper, c.SzUpper, vg.Points(1.5)); err != nil {
-		return err
-	}
-	var pts plotter.XYs
-	for _, m := range bp.Info.Minima {
-		pts = append(pts, plotter.XY{X: m.K, Y: m.E})
-	}
-	if len(pts) > 0 {
-		s, err := plotter.NewScatter(pts)
-		if err != nil {
-			return err
-		}
-		s.GlyphStyle.Shape = draw.CircleGlyph{}
-		s.GlyphStyle.Radius = vg.Points(4)
-		s.GlyphStyle.Color = color.Black
-		top.Add(s)
-		labels := make([]string, len(pts))
-		for i, m := range bp.Info.Minima {
-			labels[i] = fmt.Sprintf("  min k = %.3f", m.K)
-		}
-		lb, err := plotter.NewLabels(plotter.XYLabels{XYs: pts, Labels: labels})
-		if err == nil {
-			for i := range lb.TextStyle {
-				lb.TextStyle[i].Font.Size = vg.Points(10)
-			}
-			lb.Offset = vg.Point{X: vg.Points(-30), Y: vg.Points(-18)}
-			top.Add(lb)
-		}
+		return nil, err
 	}
 	// Legend entries for the colour code.
 	for _, e := range []struct {
@@ -103,15 +82,34 @@ func (bp BandsPlot) WritePNG(w io.Writer) error {
 		l.Color, l.Width = spinColor(e.sz), vg.Points(3)
 		top.Legend.Add(e.name, l)
 	}
-	top.Legend.Top = true
-	top.Legend.Left = false
-	top.Legend.XOffs = vg.Points(-12)
-	top.Legend.YOffs = vg.Points(-6)
+	top.Legend.Add("thick line: lower band")
+	var pts plotter.XYs
+	for _, m := range bp.Info.Minima {
+		pts = append(pts, plotter.XY{X: m.K, Y: m.E})
+	}
+	if len(pts) > 0 {
+		s, err := plotter.NewScatter(pts)
+		if err != nil {
+			return nil, err
+		}
+		s.GlyphStyle.Shape = draw.CircleGlyph{}
+		s.GlyphStyle.Radius = vg.Points(4)
+		s.GlyphStyle.Color = color.Black
+		top.Add(s)
+		ks := ""
+		for i, m := range bp.Info.Minima {
+			if i > 0 {
+				ks += ", "
+			}
+			ks += Num(m.K, 3)
+		}
+		top.Legend.Add("band minima at k = "+ks, s)
+	}
 	top.Add(plotter.NewGrid())
 
 	bot := plot.New()
 	bot.Y.Label.Text = "spin polarisation <σz>"
-	bot.X.Label.Text = "quasi-momentum k_x / k_R"
+	bot.X.Label.Text = "quasi-momentum k_x  [k_R]"
 	bot.Y.Min, bot.Y.Max = -1.05, 1.05
 	for _, b := range []struct {
 		name string
@@ -124,59 +122,20 @@ func (bp BandsPlot) WritePNG(w io.Writer) error {
 		}
 		l, err := plotter.NewLine(xy)
 		if err != nil {
-			return err
+			return nil, err
 		}
 		l.Width = vg.Points(1.5)
 		l.Dashes = b.dash
 		bot.Add(l)
 		bot.Legend.Add(b.name, l)
 	}
-	bot.Legend.Top = true
-	bot.Legend.Left = true
-	bot.Legend.XOffs = vg.Points(40)
-	bot.Legend.YOffs = vg.Points(-6)
 	bot.Add(plotter.NewGrid())
-	return renderPanels(w, 8*vg.Inch, 8*vg.Inch, []*plot.Plot{top, bot}, []float64{0.65, 0.35})
-}
-
-// renderAligned stacks plots in equal rows with their data areas aligned
-// (plot.Align), for panels that share an x axis.
-func renderAligned(w io.Writer, width, height vg.Length, panels []*plot.Plot) error {
-	img := vgimg.NewWith(vgimg.UseWH(width, height), vgimg.UseDPI(110))
-	dc := draw.New(img)
-	rows := make([][]*plot.Plot, len(panels))
-	for i, p := range panels {
-		rows[i] = []*plot.Plot{p}
-		if !p.Legend.Left && p.Legend.XOffs == 0 {
-			p.Legend.XOffs = -vg.Points(12)
-		}
+	title := bp.Title
+	if bp.Subtitle != "" {
+		title += "\n" + bp.Subtitle
 	}
-	t := draw.Tiles{Rows: len(panels), Cols: 1, PadTop: vg.Points(4), PadBottom: vg.Points(4), PadLeft: vg.Points(4), PadRight: vg.Points(8), PadY: vg.Points(6)}
-	cs := plot.Align(rows, t, dc)
-	for i, p := range panels {
-		p.Draw(cs[i][0])
-	}
-	_, err := vgimg.PngCanvas{Canvas: img}.WriteTo(w)
-	return err
-}
-
-// renderPanels stacks plots vertically with the given height fractions and writes a PNG.
-func renderPanels(w io.Writer, width, height vg.Length, panels []*plot.Plot, frac []float64) error {
-	img := vgimg.NewWith(vgimg.UseWH(width, height), vgimg.UseDPI(110))
-	dc := draw.New(img)
-	y := height
-	for i, p := range panels {
-		// Keep right-hand legends clear of the image edge.
-		if !p.Legend.Left && p.Legend.XOffs == 0 {
-			p.Legend.XOffs = -vg.Points(12)
-		}
-		h := vg.Length(frac[i]) * height
-		p.Draw(draw.Canvas{Canvas: dc.Canvas, Rectangle: vg.Rectangle{Min: vg.Point{X: 0, Y: y - h}, Max: vg.Point{X: width, Y: y}}})
-		y -= h
-	}
-	png := vgimg.PngCanvas{Canvas: img}
-	_, err := png.WriteTo(w)
-	return err
+	return &Figure{Title: title, Width: 9.5 * vg.Inch, Height: 8 * vg.Inch,
+		Panels: []Panel{{Plot: top, Height: 0.65}, {Plot: bot, Height: 0.35}}}, nil
 }
 
 // WriteCSV writes the sampled bands as CSV with a header row.

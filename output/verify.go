@@ -157,11 +157,14 @@ func (vr *VerifyResult) WriteH5(w *Writer) {
 	w.Array("/spectra/model_centre", mcen, nil, "Hz", "effective model's resonance (RF detuning)")
 }
 
-// WritePNG draws the spectra and the resonance centres against velocity with
-// the model's and the fitted line (VerifyPlot).
-func (vr *VerifyResult) WritePNG(w io.Writer) error {
+// Plot returns the figure's data: the spectra and the resonance centres
+// against velocity with the model's and the fitted line; the title carries
+// the fixed settings (all but the RF detuning, which the spectra scan).
+func (vr *VerifyResult) Plot() VerifyPlot {
 	p, r := vr.Shake, vr.Verify
-	vp := VerifyPlot{Title: fmt.Sprintf("socmap verify: %s, %s pulses, %s kHz", p.Species.Name, p.Pulse, Num(p.ShakeHz/1e3, 3))}
+	title := titleWith(fmt.Sprintf("socmap verify: %s %v↔%v, shaken dynamics against the effective model", p.Species.Name, p.Up, p.Down),
+		ShakeParts(p, map[string]bool{"detuning": true}), 100)
+	vp := VerifyPlot{Title: title, FitBErr: r.SlopeErr}
 	for _, s := range r.Spectra {
 		vp.Velocities = append(vp.Velocities, s.Velocity*1e3)
 		vp.Detunings = append(vp.Detunings, s.DetuningHz)
@@ -172,8 +175,14 @@ func (vr *VerifyResult) WritePNG(w io.Writer) error {
 	// Lines in the RF-detuning axis: centre = intercept + sgn(f0)·slope·v.
 	vp.ModelA, vp.ModelB = r.InterceptModelHz, r.SignF0*r.SlopeModel
 	vp.FitA, vp.FitB = r.InterceptMeasuredHz, r.SignF0*r.SlopeMeasured
-	return vp.WritePNG(w)
+	return vp
 }
+
+// Figure is Plot's figure.
+func (vr *VerifyResult) Figure() (*Figure, error) { return vr.Plot().Figure() }
+
+// WritePNG renders Plot as PNG.
+func (vr *VerifyResult) WritePNG(w io.Writer) error { return vr.Plot().WritePNG(w) }
 
 // VerifySweepResult is a gpe.VerifySweep: the deviations of the effective
 // model against one swept setting.
@@ -274,14 +283,23 @@ func (sr *VerifySweepResult) WriteH5(w *Writer) {
 	w.Array("/sweep/rabi_measured", rmeas, nil, "Hz", "effective Rabi frequency from the flip dynamics")
 }
 
-// WritePNG draws the relative deviations of k_t and of the effective Rabi
-// frequency against the swept setting (SweepPlot).
-func (sr *VerifySweepResult) WritePNG(w io.Writer) error {
-	sp := SweepPlot{Title: "socmap verify: effective model against the shaken dynamics"}
+// Plot returns the sweep figure's data: the relative deviations of k_t and
+// of the effective Rabi frequency against the swept setting; the title
+// carries the fixed settings (all but the swept one).
+func (sr *VerifySweepResult) Plot() SweepPlot {
+	skip := map[string]bool{}
 	if sr.Axis == gpe.VerifyPulseWidth {
-		sp.XLabel = "pulse width (µs)"
+		skip["pulse-width"] = true
 	} else {
-		sp.XLabel = "shaking frequency (kHz)"
+		skip["shake"] = true
+	}
+	p := sr.Shake
+	sp := SweepPlot{Title: titleWith(fmt.Sprintf("socmap verify: effective model against the shaken dynamics, %s %v↔%v", p.Species.Name, p.Up, p.Down),
+		ShakeParts(p, skip), 100)}
+	if sr.Axis == gpe.VerifyPulseWidth {
+		sp.XLabel = "pulse width  [µs]"
+	} else {
+		sp.XLabel = "shaking frequency ω/2π  [kHz]"
 	}
 	for _, pt := range sr.Points {
 		x, _ := sr.axisValue(pt.X)
@@ -295,5 +313,11 @@ func (sr *VerifySweepResult) WritePNG(w io.Writer) error {
 		sp.Series[1] = append(sp.Series[1], dr)
 	}
 	sp.Names = [2]string{"k_t (Doppler slope)", "effective Rabi frequency"}
-	return sp.WritePNG(w)
+	return sp
 }
+
+// Figure is Plot's figure.
+func (sr *VerifySweepResult) Figure() (*Figure, error) { return sr.Plot().Figure() }
+
+// WritePNG renders Plot as PNG.
+func (sr *VerifySweepResult) WritePNG(w io.Writer) error { return sr.Plot().WritePNG(w) }

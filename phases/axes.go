@@ -46,6 +46,8 @@ const (
 	AxisRabi           = "rabi"
 	AxisWavelength     = "wavelength"
 	AxisCrossingAngle  = "angle"
+	AxisRFDetuning     = "rf-detuning" // the shake scheme's RF detuning f_RF − |f_0|
+	AxisAtoms          = "atoms"       // atom number of a trapped cloud (MapProblem.Trap)
 )
 
 // Axes is the table of map axes, the one list every layer uses (parsing,
@@ -84,12 +86,19 @@ var Axes = []AxisDef{
 			l.Ratio, l.RatioSet = v, true
 			return nil
 		}},
+	{Name: AxisAtoms, Kind: dispersion.KindNumber, Unit: "dimensionless", Label: "atom number N", Scale: 1,
+		Overrides: []string{"atoms"}, set: func(l *Lab, v float64) error {
+			l.Atoms = v // checked (≥ 1) by MapProblem.Check
+			return nil
+		}},
 	{Name: AxisGradient, Kind: dispersion.KindGradient, Unit: "T/m", Label: "gradient amplitude  [G/cm]", Scale: 100,
 		Overrides: []string{"gradient"}, set: shakeSetting(AxisGradient, func(p *dispersion.Shake, v float64) { p.Gradient = v })},
 	{Name: AxisShakeFrequency, Kind: dispersion.KindFrequency, Unit: "Hz", Label: "shaking frequency  [kHz]", Scale: 1e-3,
 		Overrides: []string{"shake"}, set: shakeSetting(AxisShakeFrequency, func(p *dispersion.Shake, v float64) { p.ShakeHz = v })},
 	{Name: AxisPulseAngle, Kind: dispersion.KindAngle, Unit: "rad", Label: "pulse phase θ  [deg]", Scale: 180 / math.Pi,
 		Overrides: []string{"phase"}, set: shakeSetting(AxisPulseAngle, func(p *dispersion.Shake, v float64) { p.PulsePhase = v })},
+	{Name: AxisRFDetuning, Kind: dispersion.KindFrequency, Unit: "Hz", Label: "RF detuning f_RF − f₀  [Hz]", Scale: 1,
+		Overrides: []string{"detuning"}, set: shakeSetting(AxisRFDetuning, func(p *dispersion.Shake, v float64) { p.DetuningHz = v })},
 	{Name: AxisBias, Kind: dispersion.KindField, Unit: "T", Label: "bias field  [G]", Scale: 1e4,
 		Overrides: []string{"bias"}, set: shakeSetting(AxisBias, func(p *dispersion.Shake, v float64) { p.Bias = v })},
 	{Name: AxisRabi, Kind: dispersion.KindFrequency, Unit: "Hz", Label: "Rabi frequency Ω/2π  [Hz]", Scale: 1,
@@ -167,10 +176,12 @@ func AxisDisplay(name, unit string) (string, float64) {
 	return name + " [" + unit + "]", 1
 }
 
-// ParseAxis reads an axis "NAME=LO:HI:N": N points from LO to HI (both
-// included; one point is LO), LO and HI with units of the axis's kind ("LO"
-// may borrow HI's unit: "phase=0:180 deg:37"). Errors say what is wrong;
-// the caller adds the flag and the text.
+// ParseAxis reads an axis "NAME=LO:HI:N" or "NAME=LO:HI:N:log": N points
+// from LO to HI (both included; one point is LO), evenly spaced, or evenly
+// spaced in log(value) with ":log" (LogAxis; LO and HI of one sign, not 0),
+// LO and HI with units of the axis's kind ("LO" may borrow HI's unit:
+// "phase=0:180 deg:37"). Errors say what is wrong; the caller adds the flag
+// and the text.
 func ParseAxis(s string) (Axis, error) {
 	var a Axis
 	name, rng, ok := strings.Cut(s, "=")
@@ -183,8 +194,15 @@ func ParseAxis(s string) (Axis, error) {
 		return a, fmt.Errorf("unknown axis name %q", name)
 	}
 	parts := strings.Split(rng, ":")
+	logSpaced := false
+	if len(parts) == 4 {
+		if strings.TrimSpace(parts[3]) != "log" {
+			return a, fmt.Errorf("the fourth field must be \"log\" (got %q)", strings.TrimSpace(parts[3]))
+		}
+		logSpaced, parts = true, parts[:3]
+	}
 	if len(parts) != 3 {
-		return a, fmt.Errorf("need LO:HI:N")
+		return a, fmt.Errorf("need LO:HI:N or LO:HI:N:log")
 	}
 	n, err := strconv.Atoi(strings.TrimSpace(parts[2]))
 	if err != nil || n < 1 || n > 100000 {
@@ -194,7 +212,26 @@ func ParseAxis(s string) (Axis, error) {
 	if err != nil {
 		return a, err
 	}
+	if logSpaced {
+		if !(lo*hi > 0) {
+			return a, fmt.Errorf("a log axis needs LO and HI of one sign, neither 0 (got %g, %g)", lo, hi)
+		}
+		return LogAxis(name, lo, hi, n), nil
+	}
 	return LinearAxis(name, lo, hi, n), nil
+}
+
+// LogAxis returns n points from lo to hi (both included, of one sign, not
+// 0; one point is lo) evenly spaced in log|value|: v_i = lo·(hi/lo)^(i/(n−1)),
+// the ends exact.
+func LogAxis(name string, lo, hi float64, n int) Axis {
+	a := LinearAxis(name, lo, hi, n)
+	for i := range a.Values {
+		if i > 0 && i < n-1 {
+			a.Values[i] = lo * math.Pow(hi/lo, float64(i)/float64(n-1))
+		}
+	}
+	return a
 }
 
 // LinearAxis returns n points from lo to hi (both included; one point is

@@ -52,6 +52,11 @@ type CompareSettings struct {
 	DeltaTol float64
 	// Variational: settings of the variational theory (nil: defaults).
 	Variational *Settings
+	// GPE: also find each window's upper edge from GPE ground states
+	// (GPEStripeEdge, bisection with BestGPEState at δ_b). Default false.
+	GPE bool
+	// GPEEdge: settings of GPEStripeEdge (zero: its defaults, Ω to 1e-3 E_R).
+	GPEEdge GPEEdgeSettings
 }
 
 // CompareResult is the outcome of Compare.
@@ -61,6 +66,10 @@ type CompareResult struct {
 	// ThomasFermi: the Thomas–Fermi estimate of Comparison.Trap (nil when
 	// the density was given).
 	ThomasFermi *dispersion.ThomasFermi
+	// Cloud: the density model of Comparison.Trap (TrapCloud with Dims 3,
+	// the same rule `ground` uses) with its validity check; nil when the
+	// density was given.
+	Cloud *CloudResult
 	// ShakeResult, RamanResult: the schemes' effective parameters.
 	ShakeResult dispersion.ShakeResult
 	RamanResult dispersion.RamanResult
@@ -98,6 +107,9 @@ type SchemeSide struct {
 	// Planned: the state at the planned Ω and δ; PlannedBalanced at the
 	// planned Ω and δ_b.
 	Planned, PlannedBalanced Result
+	// GPEEdge: the GPE upper edge of the stripe window at δ_b
+	// (CompareSettings.GPE; nil otherwise or without a window).
+	GPEEdge *GPEEdge
 	// Verdict on the planned coupling.
 	Verdict Verdict
 }
@@ -135,9 +147,23 @@ type Verdict struct {
 	InWindow bool
 	// PlannedPhase: the phase at the planned Ω and δ.
 	PlannedPhase label.Phase
-	// RetuneHz: δ_b − δ in Hz, the change of detuning that would give a
-	// stripe (StripeAtBalancing only, else 0).
+	// BetweenEdges: the planned Ω lies above the variational upper edge but
+	// below the GPE edge (CompareSettings.GPE): the full GPE predicts a
+	// stripe at δ_b where the two-plane-wave ansatz does not.
+	BetweenEdges bool
+	// RetuneHz: δ_b − δ in Hz (signed: + raises δ), the change of the
+	// effective detuning δ/2π that would give a stripe (StripeAtBalancing
+	// only, else 0).
 	RetuneHz float64
+	// SetDetuningHz: the scheme's detuning setting that gives δ = δ_b, Hz
+	// (StripeAtBalancing only, else NaN): for the shaking scheme the RF
+	// detuning f_RF − |f₀| = ZeroDeltaDetuningHz + sgn(f₀)·δ_b/2π (δ/2π =
+	// sgn(f₀)(f_RF − |f₀|) + micromotion shift, dispersion.ShakeResult), for
+	// the Raman scheme the two-photon detuning δ_b/2π.
+	SetDetuningHz float64
+	// SetDetuningChangeHz: SetDetuningHz minus the planned setting, Hz
+	// (signed; NaN unless StripeAtBalancing).
+	SetDetuningChangeHz float64
 }
 
 // ShakeLimits are what limits the shaking scheme.
@@ -221,13 +247,17 @@ func Compare(c Comparison, s *CompareSettings) (*CompareResult, error) {
 		if !(c.Trap.Atoms >= 1) {
 			return nil, badInputf("atom number %g: must be ≥ 1", c.Trap.Atoms)
 		}
-		tf, err := dispersion.NewThomasFermi(c.Shake.Species.Mass, c.Couplings.PairCoupling(), c.Trap.Atoms, c.Trap.FreqHz)
+		cr, err := TrapCloud(Cloud{Mass: c.Shake.Species.Mass, Couplings: c.Couplings, Atoms: c.Trap.Atoms, FreqHz: c.Trap.FreqHz, Dims: 3})
 		if err != nil {
-			return nil, badInput(err)
+			return nil, err
 		}
-		r.ThomasFermi, r.Density = &tf, tf.Peak
+		tf := cr.ThomasFermi
+		r.ThomasFermi, r.Cloud, r.Density = &tf, &cr, cr.PeakDensity
 	default:
 		return nil, badInputf("give a density, or atoms in a trap")
+	}
+	if c.Couplings.Guu <= 0 || c.Couplings.Gdd <= 0 || c.Couplings.PairCoupling() <= 0 {
+		return nil, badInputf("couplings g↑↑ = %.4g, g↓↓ = %.4g, g↑↓ = %.4g J m³: the gas must be repulsive (g↑↑, g↓↓ > 0 and g↑↑ + g↓↓ + 2g↑↓ > 0); an attractive gas collapses", c.Couplings.Guu, c.Couplings.Gdd, c.Couplings.Gud)
 	}
 	var err error
 	if r.ShakeResult, err = c.Shake.Evaluate(); err != nil {
@@ -245,6 +275,17 @@ func Compare(c Comparison, s *CompareSettings) (*CompareResult, error) {
 		if err := sd.evaluate(r.Density, c.Couplings, &set); err != nil {
 			return nil, err
 		}
+	}
+	// The detuning settings that give δ_b.
+	if v := &r.Shake.Verdict; v.Code == StripeAtBalancing {
+		// sgn(f₀), f₀ = (E↓ − E↑)/h of the pair at the bias field.
+		sgn := math.Copysign(1, c.Shake.Species.TransitionHz(c.Shake.Up, c.Shake.Down, c.Shake.Bias))
+		v.SetDetuningHz = r.ShakeResult.ZeroDeltaDetuningHz + sgn*r.Shake.DeltaBalancing*r.Shake.ERHz()
+		v.SetDetuningChangeHz = v.SetDetuningHz - c.Shake.DetuningHz
+	}
+	if v := &r.Raman.Verdict; v.Code == StripeAtBalancing {
+		v.SetDetuningHz = r.Raman.DeltaBalancing * r.Raman.ERHz()
+		v.SetDetuningChangeHz = v.SetDetuningHz - c.Raman.DetuningHz
 	}
 	// What limits the shaking scheme.
 	shr := r.ShakeResult
@@ -309,18 +350,35 @@ func (sd *SchemeSide) evaluate(density float64, c dispersion.Couplings, set *Com
 	if sd.PlannedBalanced, err = Variational(ub, vs); err != nil {
 		return err
 	}
+	if set.GPE && sd.Window.Found && !math.IsInf(sd.Window.Hi, 1) {
+		es := set.GPEEdge
+		if es.OmegaMax == 0 {
+			es.OmegaMax = sd.OmegaMax
+		}
+		if es.Best.Variational == nil {
+			es.Best.Variational = vs
+		}
+		e, err := GPEStripeEdge(ub, sd.Window.Hi, &es)
+		if err != nil {
+			return fmt.Errorf("%s: GPE stripe edge: %w", sd.Name, err)
+		}
+		sd.GPEEdge = &e
+	}
 	sd.Verdict = sd.verdict()
 	return nil
 }
 
 func (sd *SchemeSide) verdict() Verdict {
-	v := Verdict{PlannedPhase: sd.Planned.Phase}
+	v := Verdict{PlannedPhase: sd.Planned.Phase, SetDetuningHz: math.NaN(), SetDetuningChangeHz: math.NaN()}
 	if !sd.Window.Found {
 		v.Code = NoStripeWindow
 		return v
 	}
 	om := sd.Model.OmegaOverER
 	v.InWindow = om > sd.Window.Lo && om < sd.Window.Hi
+	if e := sd.GPEEdge; e != nil && e.Found {
+		v.BetweenEdges = om >= sd.Window.Hi && om < e.Omega
+	}
 	switch {
 	case sd.Planned.Phase == label.Stripe:
 		v.Code = StripePlanned

@@ -104,3 +104,61 @@ func TestCompareBadInput(t *testing.T) {
 		}
 	}
 }
+
+// The retune advice has its sign and the setting to dial: a shaking scheme
+// set to Verdict.SetDetuningHz (RF detuning) gives δ = δ_b, checked by
+// evaluating the scheme again (dispersion.Shake: δ/2π = sgn(f₀)(f_RF − |f₀|)
+// + micromotion shift); likewise the Raman two-photon detuning. The planned
+// detunings are off by ±8 Hz so that the planned state is not a stripe.
+func TestCompareRetuneSetting(t *testing.T) {
+	sh, c := demoShake(t)
+	ram := demoRaman(sh.Species)
+	for _, off := range []float64{8, -8} {
+		sh.DetuningHz = 145.4 + off
+		ram.DetuningHz = off * 40
+		ram.RabiHz = 600
+		r, err := Compare(Comparison{Shake: sh, Raman: ram, Couplings: c, Density: 1e20}, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, side := range []struct {
+			s   SchemeSide
+			set func(d float64) (float64, error)
+		}{
+			{r.Shake, func(d float64) (float64, error) {
+				s2 := sh
+				s2.DetuningHz = d
+				res, err := s2.Evaluate()
+				return res.Model.DeltaOverER, err
+			}},
+			{r.Raman, func(d float64) (float64, error) {
+				r2 := ram
+				r2.DetuningHz = d
+				res, err := r2.Evaluate()
+				return res.Model.DeltaOverER, err
+			}},
+		} {
+			v := side.s.Verdict
+			if v.Code != StripeAtBalancing {
+				t.Logf("offset %g, %s: verdict %d (planned %v), no retune", off, side.s.Name, v.Code, side.s.Planned.Phase)
+				continue
+			}
+			d, err := side.set(v.SetDetuningHz)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if math.Abs(d-side.s.DeltaBalancing) > 1e-9*math.Max(1, math.Abs(side.s.DeltaBalancing)) {
+				t.Errorf("offset %g, %s: setting %g Hz gives δ = %g E_R, want δ_b = %g", off, side.s.Name, v.SetDetuningHz, d, side.s.DeltaBalancing)
+			}
+			if want := (side.s.DeltaBalancing - side.s.Model.DeltaOverER) * side.s.ERHz(); math.Abs(v.RetuneHz-want) > 1e-9*math.Abs(want) {
+				t.Errorf("%s: retune %g Hz, want %g", side.s.Name, v.RetuneHz, want)
+			}
+			t.Logf("offset %g, %s: retune δ/2π by %+.4g Hz, set %.6g Hz (change %+.4g Hz)", off, side.s.Name, v.RetuneHz, v.SetDetuningHz, v.SetDetuningChangeHz)
+		}
+	}
+	// An attractive gas is refused, as `map` refuses it.
+	ca := dispersion.ExplicitCouplings(sh.Species.Mass, -70, 100, 100)
+	if _, err := Compare(Comparison{Shake: sh, Raman: ram, Couplings: ca, Density: 1e20}, nil); !errors.Is(err, ErrInput) {
+		t.Errorf("attractive a↑↑: error %v, want ErrInput", err)
+	}
+}

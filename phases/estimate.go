@@ -175,14 +175,16 @@ func (p *MapProblem) Estimate(s *RunSettings) Estimate {
 	var perPoint float64 // seconds on one worker
 	what := fmt.Sprintf("%s map points", shapeText(p))
 	if p.method() == MethodGPE {
+		dims := max(p.GPE.Dims, 1)
 		n := p.GPE.Points
 		if n == 0 {
-			n = gpe.AutoPointsMax[1] // the automatic rule's ceiling
+			n = gpe.AutoPointsMax[dims] // the automatic rule's ceiling per axis
 		}
+		grid := math.Pow(float64(n), float64(dims))
 		starts := 3 + float64(p.GPE.RandomStarts)
-		perPoint = CostGPEPoint256.Seconds() * float64(n) / 256 * starts / 3
-		mem += float64(workers) * CostGroundPointMemory(1) * float64(n)
-		what += fmt.Sprintf(", GPE (%d grid points)", n)
+		perPoint = CostGPEPoint256.Seconds() * grid / 256 * starts / 3
+		mem += float64(workers) * CostGroundPointMemory(dims) * grid
+		what += fmt.Sprintf(", GPE (%dD, %.0f grid points)", dims, grid)
 	} else {
 		perPoint = CostVariationalPoint.Seconds()
 		what += ", variational"

@@ -6,6 +6,7 @@ import (
 	"math"
 	"testing"
 
+	"socmap/gpe"
 	"socmap/phases/label"
 )
 
@@ -78,5 +79,92 @@ func BenchmarkGPEMap(b *testing.B) {
 			}
 			b.ReportMetric(float64(len(omegas))*float64(b.N)/b.Elapsed().Seconds(), "points/s")
 		})
+	}
+}
+
+// TestGPEPointResolution: the map point of Ω = 2.873, G1 = 1, G2 = 0.2808
+// (the variational plane wave at k₁ = 0.051 k_R, just below the boundary
+// 4(1 − G2) = 2.877) was labelled stripe 0.055 E_R below the variational
+// energy with 256 points in a 489/k_R box (k_max = 1.6 k_R). With the
+// shared grid rule the box is capped to one wavelength, and the GPE energy
+// equals the variational plane wave's (a uniform plane wave is an exact GPE
+// state: the two must agree to the solver's tolerance); with automatic
+// points the four-wavelength box gets 1024 points. With 16 points no box
+// resolves it: under-resolved, not solved.
+func TestGPEPointResolution(t *testing.T) {
+	u := Symmetric(2.873, 1, 0.2808)
+	for _, c := range []struct {
+		points, wantPoints int
+		wantLength         float64
+	}{{256, 256, 2 * math.Pi / 0.0513817}, {0, 1024, 8 * math.Pi / 0.0513817}} {
+		f := GPEPoints(func(ix, iy int) (Uniform, error) { return u, nil }, GPESettings{Points: c.points})
+		r, err := f(context.Background(), 0, 0)
+		if err != nil {
+			t.Fatal(err)
+		}
+		e, ev, L, n := r.Values[0], r.Values[5], r.Values[7], r.Values[9]
+		if r.Phase == label.Stripe || r.Phase == label.UnderResolved || math.Abs(e-ev) > 1e-9 {
+			t.Errorf("points %d: %v, energy %.12f against variational %.12f", c.points, r.Phase, e, ev)
+		}
+		if int(n) != c.wantPoints || math.Abs(L-c.wantLength) > 1e-3*c.wantLength || math.Pi*n/L < 4 {
+			t.Errorf("points %d: box %g/k_R with %g points", c.points, L, n)
+		}
+	}
+	f := GPEPoints(func(ix, iy int) (Uniform, error) { return u, nil }, GPESettings{Points: 16})
+	r, err := f(context.Background(), 0, 0)
+	if err != nil || r.Phase != label.UnderResolved || !math.IsNaN(r.Values[0]) || math.IsNaN(r.Values[5]) {
+		t.Errorf("16 points: %v %v %v", r.Phase, r.Values, err)
+	}
+}
+
+// TestKeepStartRule: the documented tie-break of GPEPoints — lowest
+// converged energy; within DegenerateTol the larger ⟨σz⟩ (beyond 1e-6);
+// then start order; never a start that did not converge.
+func TestKeepStartRule(t *testing.T) {
+	mk := func(conv bool, e, sz float64) gpeStart {
+		st := gpe.MaxIterations
+		if conv {
+			st = gpe.Converged
+		}
+		return gpeStart{res: &gpe.Result{Status: st}, obs: &gpe.Observables{Energies: gpe.Energies{Total: e}, Sz: sz}}
+	}
+	for _, c := range []struct {
+		name   string
+		starts []gpeStart
+		want   int
+	}{
+		{"lowest", []gpeStart{mk(true, 1, 0.5), mk(true, 0.9, -0.5)}, 1},
+		{"+k wins a tie", []gpeStart{mk(true, 1, -0.5), mk(true, 1+1e-14, 0.5)}, 1},
+		{"+k wins within tolerance", []gpeStart{mk(true, 1+5e-10, 0.5), mk(true, 1, -0.5)}, 0},
+		{"beyond tolerance energy decides", []gpeStart{mk(true, 1+5e-9, 0.5), mk(true, 1, -0.5)}, 1},
+		{"equal ⟨σz⟩: first start", []gpeStart{mk(true, 1, 1e-9), mk(true, 1-1e-14, 3e-9)}, 0},
+		{"not converged never kept", []gpeStart{mk(false, 0.5, 0.9), mk(true, 1, -0.5)}, 1},
+		{"none converged: lowest", []gpeStart{mk(false, 1, 0.9), mk(false, 0.8, -0.5)}, 1},
+	} {
+		if k, _ := keepStart(c.starts); k != c.want {
+			t.Errorf("%s: kept %d, want %d", c.name, k, c.want)
+		}
+	}
+}
+
+// TestMirrorPlaneWave: the mirror image of a plane-wave optimum has the
+// opposite k and ⟨σz⟩ and the same energy (Uniform.Energy), and is offered
+// only where the single-wave energy is even in k (δ/2 + Δg = 0).
+func TestMirrorPlaneWave(t *testing.T) {
+	u := Symmetric(2.6, 1, 0.1)
+	vr, err := Variational(u, nil)
+	if err != nil || vr.Phase != label.PlaneWave {
+		t.Fatal(vr.Phase, err)
+	}
+	m, ok := mirrorPlaneWave(u, vr)
+	if !ok || math.Abs(m.KPlus+vr.State.KPlus) > 1e-12 || math.Abs(m.SigmaZ()+vr.State.SigmaZ()) > 1e-12 ||
+		math.Abs(u.Energy(m)-u.Energy(vr.State)) > 1e-12 {
+		t.Errorf("mirror %+v of %+v", m, vr.State)
+	}
+	u.Delta = 0.01
+	if vr, _ := Variational(u, nil); vr.Phase == label.PlaneWave {
+		if _, ok := mirrorPlaneWave(u, vr); ok {
+			t.Error("mirror offered at δ ≠ 0")
+		}
 	}
 }

@@ -71,6 +71,12 @@ type GroundTrap struct {
 	// Couplings: 3D contact couplings of the pair; the scattering lengths
 	// Auu, Add, Aud (m) are used.
 	Couplings dispersion.Couplings
+	// Model: how a 1D/2D grid treats the frozen axes (TrapCloud): CloudAuto
+	// (default) uses the reduced couplings while μ ≤ ħω⊥ and otherwise
+	// scales them so that μ is the 3D Thomas–Fermi μ (CloudMatched, the
+	// density `compare` uses); CloudReduced keeps the reduced couplings with
+	// a warning.
+	Model CloudModel
 }
 
 // VariationalRef is the variational prediction beside a GPE ground state.
@@ -94,6 +100,9 @@ type GroundSetup struct {
 	// gas at the Thomas–Fermi peak density of a trap; nil when it could not
 	// be evaluated (a note says why).
 	Variational *VariationalRef
+	// Cloud: the trapped cloud's density model and its validity check
+	// (TrapCloud); nil for a box.
+	Cloud *CloudResult
 	// Notes: what was chosen and warnings, one line each.
 	Notes []string
 }
@@ -265,10 +274,23 @@ func (p GroundProblem) setupTrap(su *GroundSetup, model dispersion.Model, length
 	if !(t.Atoms >= 1) || math.IsInf(t.Atoms, 0) {
 		return badInputf("atom number %g: must be ≥ 1", t.Atoms)
 	}
+	if t.Model != CloudAuto && t.Model != CloudReduced {
+		return badInputf("cloud model %v: request auto or reduced couplings", t.Model)
+	}
+	cr, err := TrapCloud(Cloud{Mass: su.Units.Mass(), Couplings: t.Couplings, Atoms: t.Atoms, FreqHz: t.FreqHz, Dims: dims, Model: t.Model})
+	if err != nil {
+		return err
+	}
+	su.Cloud = &cr
 	ts := gpe.TrapSpec{Units: *su.Units, Atoms: t.Atoms, FreqHz: t.FreqHz, Auu: t.Couplings.Auu, Add: t.Couplings.Add, Aud: t.Couplings.Aud}
+	trapped := func(g *gpe.Grid) (gpe.Model, error) {
+		m, err := gpe.Trapped(g, ts, model.OmegaOverER, model.DeltaOverER)
+		m.Guu, m.Gdd, m.Gud = cr.Scale*m.Guu, cr.Scale*m.Gdd, cr.Scale*m.Gud
+		return m, err
+	}
 	// A provisional grid to evaluate the Thomas–Fermi size.
 	tmp := gpe.MustGrid(intsOf(dims, 16), floatsOf(dims, 1))
-	m0, err := gpe.Trapped(tmp, ts, model.OmegaOverER, model.DeltaOverER)
+	m0, err := trapped(tmp)
 	if err != nil {
 		return badInput(err)
 	}
@@ -285,7 +307,7 @@ func (p GroundProblem) setupTrap(su *GroundSetup, model dispersion.Model, length
 	if err != nil {
 		return badInput(err)
 	}
-	m, err := gpe.Trapped(grid, ts, model.OmegaOverER, model.DeltaOverER)
+	m, err := trapped(grid)
 	if err != nil {
 		return badInput(err)
 	}
@@ -302,11 +324,15 @@ func (p GroundProblem) setupTrap(su *GroundSetup, model dispersion.Model, length
 		}
 	}
 	if dims < 3 {
-		form := "g_1D = g/(2π a⊥²)"
+		form, perp := "g_1D = g/(2π a⊥²)", "ħω⊥ = ħ√(ω_yω_z)"
 		if dims == 2 {
-			form = "g_2D = g/(√(2π) a_z)"
+			form, perp = "g_2D = g/(√(2π) a_z)", "ħω⊥ = ħω_z"
 		}
-		su.Notes = append(su.Notes, fmt.Sprintf("reduced %dD couplings for tight transverse confinement (%s)", dims, form))
+		su.Notes = append(su.Notes, fmt.Sprintf("reduced %dD couplings for tight transverse confinement (%s): Thomas–Fermi μ/h = %.4g Hz against %s/h = %.4g Hz (valid up to %g×)",
+			dims, form, cr.MuReduced/dispersion.Planck, perp, cr.HbarOmegaPerp/dispersion.Planck, ReducedValidityLimit))
+	}
+	if cr.Warning != "" {
+		su.Notes = append(su.Notes, cr.Warning)
 	}
 	return nil
 }
@@ -326,11 +352,20 @@ func (p GroundProblem) setupBox(su *GroundSetup, lengths []float64, points func(
 	}
 	su.Variational = varRef("uniform box", vr)
 	k1 := gpe.BoxMomentum(vr.K1)
+	xPoints := 0 // points along x chosen with an automatic box (gpe.ResolveBox)
 	for a := 0; a < dims; a++ {
 		switch {
 		case lengths[a] == 0 && a == 0:
-			lengths[a] = gpe.AutoLength(k1)
-			su.Notes = append(su.Notes, fmt.Sprintf("box length along x %.4g/k_R admits ±k₁ = ±%.4g k_R of the variational optimum exactly", lengths[a], k1))
+			given := 0
+			if p.Points != nil {
+				given = p.Points[0]
+			}
+			box := gpe.ResolveBox(dims, k1, given, 0)
+			lengths[0], xPoints = box.Length, box.Points
+			su.Notes = append(su.Notes, fmt.Sprintf("box length along x %.4g/k_R (%d wavelengths) admits ±k₁ = ±%.4g k_R of the variational optimum exactly", lengths[0], box.Wavelengths, k1))
+			if !box.Resolved {
+				su.Notes = append(su.Notes, fmt.Sprintf("warning: no box of the automatic-grid rule resolves k₁ = %.4g k_R with k_max ≥ %d k_R (k_max = %.3g k_R on %d points): the state may be an artefact of the grid", k1, gpe.ResolvedKMax, box.KMax(), box.Points))
+			}
 		case lengths[a] == 0:
 			lengths[a] = gpe.AutoTransverse(lengths[0])
 		case a == 0 && p.Commensurate:
@@ -342,7 +377,11 @@ func (p GroundProblem) setupBox(su *GroundSetup, lengths []float64, points func(
 			}
 		}
 	}
-	grid, err := gpe.NewGrid(points(), lengths)
+	n := points()
+	if xPoints > 0 && p.Points == nil {
+		n[0] = xPoints
+	}
+	grid, err := gpe.NewGrid(n, lengths)
 	if err != nil {
 		return badInput(err)
 	}

@@ -37,7 +37,32 @@ type Lab struct {
 	// g = (g↑↑ + g↓↓)/2.
 	G1, G2, Ratio          float64
 	G1Set, G2Set, RatioSet bool
+
+	// Hold replaces the detuning last of all (after the interactions):
+	// HoldNone (default) keeps it; HoldBalance sets the balancing detuning
+	// ħδ_b = (n g↓↓ − n g↑↑)/2 of the resolved interactions; HoldHz sets
+	// δ/2π = HoldDeltaHz (needs a scheme with E_R in SI).
+	Hold        DeltaHold
+	HoldDeltaHz float64
+
+	// Atoms: the atom number of a trapped cloud (the atoms axis; trapped
+	// GPE maps, MapProblem.Trap). Not used by Resolve. Default 0.
+	Atoms float64
 }
+
+// DeltaHold is how Lab.Resolve holds the detuning (Lab.Hold).
+type DeltaHold int
+
+const (
+	// HoldNone: the scheme's detuning, or the DetuningOverER override.
+	HoldNone DeltaHold = iota
+	// HoldBalance: δ = δ_b = (n g↓↓ − n g↑↑)/2, where the single-wave energy
+	// is even in k (the two plane waves are degenerate, Uniform.Couplings:
+	// δ/2 + Δg = 0).
+	HoldBalance
+	// HoldHz: δ/2π = Lab.HoldDeltaHz, whatever the scheme's settings.
+	HoldHz
+)
 
 // SchemeName is the name of l's scheme ("shake", "raman", "direct"), or
 // "none" without one.
@@ -68,7 +93,8 @@ func (l Lab) Set(axis string, v float64) (Lab, error) {
 var ErrNoRecoil = errors.New("the scheme gives no recoil here (k_t = 0): no spin–orbit coupling")
 
 // Model computes the effective model of l's scheme with the coupling and
-// detuning overrides (no interactions). ErrNoRecoil when a scheme with an
+// detuning overrides and a detuning held in Hz (Hold = HoldHz; no
+// interactions). ErrNoRecoil when a scheme with an
 // atom gives k_t = 0.
 func (l Lab) Model() (dispersion.Model, error) {
 	if l.Scheme == nil {
@@ -86,6 +112,12 @@ func (l Lab) Model() (dispersion.Model, error) {
 	}
 	if l.DetuningSet {
 		m.DeltaOverER = l.DetuningOverER
+	}
+	if l.Hold == HoldHz {
+		if m.ER <= 0 {
+			return m, fmt.Errorf("a detuning held in Hz needs a scheme with a recoil energy (E_R = 0 here)")
+		}
+		m.DeltaOverER = l.HoldDeltaHz * dispersion.Planck / m.ER
 	}
 	return m, nil
 }
@@ -120,6 +152,11 @@ func (l Lab) Resolve() (Uniform, dispersion.Model, error) {
 	}
 	if l.RatioSet {
 		u.Gud = l.Ratio * (u.Guu + u.Gdd) / 2
+	}
+	switch l.Hold {
+	case HoldBalance:
+		u.Delta = (u.Gdd - u.Guu) / 2
+		m.DeltaOverER = u.Delta
 	}
 	for _, v := range []float64{u.Omega, u.Delta, u.Guu, u.Gdd, u.Gud} {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
@@ -176,6 +213,15 @@ func (l Lab) Settings() []dispersion.Setting {
 	}
 	if l.RatioSet {
 		add("ratio", num(l.Ratio))
+	}
+	if l.Atoms > 0 {
+		add("atoms", num(l.Atoms))
+	}
+	switch l.Hold {
+	case HoldBalance:
+		add("hold-delta", "balance")
+	case HoldHz:
+		add("hold-delta", dispersion.FormatSI(l.HoldDeltaHz, dispersion.KindFrequency))
 	}
 	return dedupSettings(s)
 }

@@ -39,7 +39,38 @@ type MapProblem struct {
 	// Variational configures the variational theory (nil: defaults); with
 	// MethodGPE it is GPE.Variational's default.
 	Variational *Settings
+	// HoldDelta holds the detuning while the axes change the lab setting
+	// (sweeps of gradient, shaking frequency, bias, density, …), as a lab
+	// retunes the RF at every setting:
+	//   - HoldNone (default, ""): the scheme's detuning at every point (a
+	//     fixed RF detuning: the micromotion shift and δ_b move with the
+	//     sweep);
+	//   - HoldBalance ("balance"): δ = δ_b = (n g↓↓ − n g↑↑)/2 at every point
+	//     (Lab.Hold = HoldBalance), the detuning at which the stripe window
+	//     is widest;
+	//   - HoldCompensate ("compensate"): δ/2π at every point equal to its
+	//     value at the base setting (Lab before the axes), i.e. the RF
+	//     detuning follows the change of the micromotion shift
+	//     (⟨A↑²⟩ − ⟨A↓²⟩)/(2mh) and of the resonance, so a plan whose RF
+	//     detuning compensates the micromotion stays compensated (Lab.Hold =
+	//     HoldHz). Needs a scheme with an atom.
+	// Not with the delta or rf-detuning axes, which set δ themselves.
+	HoldDelta HoldMode
+	// Trap: nil for uniform gases; otherwise a trapped-cloud GPE map
+	// (MethodGPE only): every point is the ground state of Lab.Atoms atoms
+	// in this trap (trapPoints, through Ground), with interactions from the
+	// atom's scattering lengths. Default nil.
+	Trap *MapTrap
 }
+
+// HoldMode is MapProblem.HoldDelta.
+type HoldMode string
+
+const (
+	HoldOff        HoldMode = ""
+	HoldToBalance  HoldMode = "balance"
+	HoldCompensate HoldMode = "compensate"
+)
 
 func (p *MapProblem) method() Method {
 	if p.Method == "" {
@@ -48,13 +79,53 @@ func (p *MapProblem) method() Method {
 	return p.Method
 }
 
-// Sweep returns the map's axes and the method's observables.
+// Sweep returns the map's axes and the method's observables, followed by
+// LabObservables when the lab's scheme has an atom (HasLabUnits).
 func (p *MapProblem) Sweep() Sweep {
-	sw := Sweep{X: p.X, Y: p.Y, Observables: VariationalObservables}
+	obs := VariationalObservables
 	if p.method() == MethodGPE {
-		sw.Observables = GPEObservables
+		obs = GPEObservables
+		if p.Trap != nil {
+			obs = TrapObservables
+		}
 	}
-	return sw
+	if p.HasLabUnits() {
+		obs = append(append([]Observable(nil), obs...), LabObservables...)
+	}
+	return Sweep{X: p.X, Y: p.Y, Observables: obs}
+}
+
+// LabObservables are stored beside the method's observables in maps whose
+// lab has an atom (a shaking or Raman scheme): there k_R and E_R — the units
+// of k1, period and energy — can change from point to point (every
+// lab-setting axis goes through the scheme), so each point carries its units
+// and the SI values. NaN where the scheme gives no recoil.
+var LabObservables = []Observable{
+	{Name: "k_R", Unit: "1/m", Description: "|k_R| at this point (the unit of k1 and of the momenta)"},
+	{Name: "E_R", Unit: "Hz", Description: "E_R/h at this point (the unit of the energies)"},
+	{Name: "omega_over_ER", Unit: "dimensionless", Description: "coupling hbar Omega/E_R at this point"},
+	{Name: "delta_over_ER", Unit: "dimensionless", Description: "detuning hbar delta/E_R at this point"},
+	{Name: "energy_hz", Unit: "Hz", Description: "energy per particle / h (energy times E_R/h)"},
+	{Name: "k1_si", Unit: "1/m", Description: "k1 in SI (k1 times |k_R|)"},
+	{Name: "period_um", Unit: "µm", Description: "stripe period pi/k1 in micrometres (NaN unless stripe)"},
+}
+
+// HasLabUnits reports whether the lab's scheme has an atom, so that the map
+// stores LabObservables (a direct model has no k_R or E_R in SI).
+func (p *MapProblem) HasLabUnits() bool {
+	return p.Lab.Scheme != nil && p.Lab.Scheme.Atom() != nil
+}
+
+// labValues returns the LabObservables of a point with model m and the
+// method's result r (energy and k1 are r.Values[0] and [1] for both
+// methods).
+func labValues(u Uniform, m dispersion.Model, r PointResult) []float64 {
+	kr, er := math.Abs(m.KR), m.ERHz()
+	v := []float64{kr, er, u.Omega, u.Delta, r.Values[0] * er, r.Values[1] * kr, math.NaN()}
+	if r.Phase == label.Stripe && r.Values[1] != 0 {
+		v[6] = math.Pi / math.Abs(r.Values[1]*kr) * 1e6
+	}
+	return v
 }
 
 // Check validates the problem: a known method, known distinct axes that
@@ -79,6 +150,42 @@ func (p *MapProblem) Check() error {
 	if p.Y.Len() > 0 && p.Y.Name == p.X.Name {
 		return fmt.Errorf("the y axis is the x axis (%s)", p.X.Name)
 	}
+	switch p.HoldDelta {
+	case HoldOff, HoldToBalance, HoldCompensate:
+	default:
+		return fmt.Errorf("hold-delta %q: allowed: balance, compensate", p.HoldDelta)
+	}
+	if p.HoldDelta != HoldOff {
+		for _, a := range []Axis{p.X, p.Y} {
+			if a.Len() > 0 && (a.Name == AxisDetuning || a.Name == AxisRFDetuning) {
+				return fmt.Errorf("hold-delta %s with the %s axis: the axis sets the detuning itself", p.HoldDelta, a.Name)
+			}
+		}
+	}
+	if d := p.GPE.Dims; d != 0 && d != 1 && d != 2 || d == 2 && p.method() != MethodGPE {
+		return fmt.Errorf("dims %d: allowed 1, or 2 with the gpe method", d)
+	}
+	for _, a := range []Axis{p.X, p.Y} {
+		if a.Len() > 0 && a.Name == AxisAtoms && p.Trap == nil {
+			return errors.New("the atoms axis needs a trapped cloud (a trap)")
+		}
+	}
+	if p.Trap != nil {
+		if err := p.checkTrap(); err != nil {
+			return err
+		}
+	}
+	if p.HoldDelta == HoldCompensate {
+		if !p.HasLabUnits() {
+			return fmt.Errorf("hold-delta compensate needs a scheme with an atom (shake or raman): it holds δ/2π in Hz")
+		}
+		if _, err := p.Lab.Model(); err != nil {
+			return fmt.Errorf("hold-delta compensate: the base setting has no detuning to hold: %w", err)
+		}
+	}
+	if p.Trap != nil {
+		return nil // checkTrap checked the corners
+	}
 	nx, ny := p.Sweep().Shape()
 	for _, c := range [][2]int{{0, 0}, {nx - 1, ny - 1}} {
 		if _, err := p.Uniform(c[0], c[1]); err != nil && !errors.Is(err, ErrNoRecoil) {
@@ -88,13 +195,27 @@ func (p *MapProblem) Check() error {
 	return nil
 }
 
-// LabAt returns the lab setting at point (ix, iy).
+// LabAt returns the lab setting at point (ix, iy), with the detuning held
+// as HoldDelta says.
 func (p *MapProblem) LabAt(ix, iy int) (Lab, error) {
 	l, err := p.Lab.Set(p.X.Name, p.X.Values[ix])
 	if err == nil && p.Y.Len() > 0 {
 		l, err = l.Set(p.Y.Name, p.Y.Values[iy])
 	}
-	return l, err
+	if err != nil {
+		return l, err
+	}
+	switch p.HoldDelta {
+	case HoldToBalance:
+		l.Hold = HoldBalance
+	case HoldCompensate:
+		m0, err := p.Lab.Model()
+		if err != nil {
+			return l, err
+		}
+		l.Hold, l.HoldDeltaHz = HoldHz, m0.DeltaOverER*m0.ERHz()
+	}
+	return l, nil
 }
 
 // Uniform returns the uniform problem at point (ix, iy) (Lab.Resolve of
@@ -110,15 +231,52 @@ func (p *MapProblem) Uniform(ix, iy int) (Uniform, error) {
 
 // Points returns the point function of the method (VariationalPoints or
 // GPEPoints over Uniform).
+//
+// With lab units (HasLabUnits) each point's model is resolved once and
+// LabObservables follow the method's values.
 func (p *MapProblem) Points() PointFunc {
+	if p.Trap != nil && p.method() == MethodGPE {
+		return p.trapPoints()
+	}
+	var solve func(context.Context, Uniform) (PointResult, error)
+	nObs := len(VariationalObservables)
 	if p.method() == MethodGPE {
 		s := p.GPE
 		if s.Variational == nil {
 			s.Variational = p.Variational
 		}
-		return GPEPoints(p.Uniform, s)
+		if !p.HasLabUnits() {
+			return GPEPoints(p.Uniform, s)
+		}
+		solve, nObs = gpeSolve(s), len(GPEObservables)
+	} else {
+		if !p.HasLabUnits() {
+			return VariationalPoints(p.Uniform, p.Variational)
+		}
+		solve = variationalSolve(p.Variational)
 	}
-	return VariationalPoints(p.Uniform, p.Variational)
+	return func(ctx context.Context, ix, iy int) (PointResult, error) {
+		if err := ctx.Err(); err != nil {
+			return PointResult{}, err
+		}
+		l, err := p.LabAt(ix, iy)
+		if err != nil {
+			return PointResult{}, err
+		}
+		u, m, err := l.Resolve()
+		if errors.Is(err, ErrNoRecoil) {
+			return PointResult{Phase: label.NoCoupling, Values: nanValues(nObs + len(LabObservables))}, nil
+		}
+		if err != nil {
+			return PointResult{}, err
+		}
+		r, err := solve(ctx, u)
+		if err != nil {
+			return r, err
+		}
+		r.Values = append(r.Values, labValues(u, m, r)...)
+		return r, nil
+	}
 }
 
 // Run computes the map's points into sink (the sweep engine Run with the
@@ -148,6 +306,9 @@ func (p *MapProblem) Identity() Identity {
 		}
 	}
 	add := func(name, v string) { id = append(id, dispersion.Setting{Name: name, Value: v}) }
+	if p.HoldDelta != HoldOff {
+		add("hold-delta", string(p.HoldDelta))
+	}
 	add("x", axisText(p.X))
 	if p.Y.Len() > 0 {
 		add("y", axisText(p.Y))
@@ -158,6 +319,13 @@ func (p *MapProblem) Identity() Identity {
 		add("length-kr", num(p.GPE.Length))
 		add("starts", strconv.Itoa(p.GPE.RandomStarts))
 		add("tol", num(p.GPE.Solver.Tol))
+		if d := p.GPE.dims(); d != 1 {
+			add("dims", strconv.Itoa(d))
+		}
+		if p.Trap != nil {
+			f := p.Trap.FreqHz
+			add("trap", fmt.Sprintf("%s,%s,%s Hz", num(f[0]), num(f[1]), num(f[2])))
+		}
 	}
 	th := thresholds(p.Variational)
 	add("threshold-single-minimum-k", num(th.SingleMinimumK))
@@ -165,24 +333,29 @@ func (p *MapProblem) Identity() Identity {
 	return id
 }
 
-// axisText is "name=lo:hi:n" for an evenly spaced axis, else the values
-// listed ("name=v0,v1,…").
+// axisText is "name=lo:hi:n" for an evenly spaced axis, "name=lo:hi:n:log"
+// for one evenly spaced in log (LogAxis), else the values listed
+// ("name=v0,v1,…").
 func axisText(a Axis) string {
 	n := a.Len()
 	if n == 0 {
 		return ""
 	}
-	lin := LinearAxis(a.Name, a.Values[0], a.Values[n-1], n)
-	even := true
-	for i, v := range a.Values {
-		if !(math.Abs(v-lin.Values[i]) <= 1e-12*math.Max(math.Abs(v), math.Abs(a.Values[n-1]-a.Values[0]))) {
-			even = false
-			break
+	same := func(b Axis) bool {
+		for i, v := range a.Values {
+			if !(math.Abs(v-b.Values[i]) <= 1e-12*math.Max(math.Abs(v), math.Abs(a.Values[n-1]-a.Values[0]))) {
+				return false
+			}
 		}
+		return true
 	}
 	s := a.Name + "="
-	if even {
-		return s + strconvG(a.Values[0]) + ":" + strconvG(a.Values[n-1]) + ":" + strconv.Itoa(n)
+	ends := strconvG(a.Values[0]) + ":" + strconvG(a.Values[n-1]) + ":" + strconv.Itoa(n)
+	if same(LinearAxis(a.Name, a.Values[0], a.Values[n-1], n)) {
+		return s + ends
+	}
+	if lo, hi := a.Values[0], a.Values[n-1]; lo*hi > 0 && same(LogAxis(a.Name, lo, hi, n)) {
+		return s + ends + ":log"
 	}
 	for i, v := range a.Values {
 		if i > 0 {

@@ -37,7 +37,12 @@ func (r Result) Point() PointResult {
 // A point that does not converge is returned with phase label.NotConverged
 // (not an error); a problem that cannot be built is an error.
 func VariationalPoints(problem func(ix, iy int) (Uniform, error), s *Settings) PointFunc {
-	return uniformPoints(problem, len(VariationalObservables), func(_ context.Context, u Uniform) (PointResult, error) {
+	return uniformPoints(problem, len(VariationalObservables), variationalSolve(s))
+}
+
+// variationalSolve is the per-point solve of VariationalPoints.
+func variationalSolve(s *Settings) func(context.Context, Uniform) (PointResult, error) {
+	return func(_ context.Context, u Uniform) (PointResult, error) {
 		r, err := Variational(u, s)
 		if err != nil {
 			return PointResult{}, fmt.Errorf("%+v: %w", u, err)
@@ -46,7 +51,16 @@ func VariationalPoints(problem func(ix, iy int) (Uniform, error), s *Settings) P
 			r.Phase = label.NotConverged
 		}
 		return r.Point(), nil
-	})
+	}
+}
+
+// nanValues returns n NaNs.
+func nanValues(n int) []float64 {
+	v := make([]float64, n)
+	for i := range v {
+		v[i] = math.NaN()
+	}
+	return v
 }
 
 // uniformPoints is the PointFunc shared by the methods: stop when ctx is
@@ -60,11 +74,7 @@ func uniformPoints(problem func(ix, iy int) (Uniform, error), nObs int, solve fu
 		}
 		u, err := problem(ix, iy)
 		if errors.Is(err, ErrNoRecoil) {
-			v := make([]float64, nObs)
-			for i := range v {
-				v[i] = math.NaN()
-			}
-			return PointResult{Phase: label.NoCoupling, Values: v}, nil
+			return PointResult{Phase: label.NoCoupling, Values: nanValues(nObs)}, nil
 		}
 		if err != nil {
 			return PointResult{}, err

@@ -54,6 +54,9 @@ func PlaneWaveSingleMinimumOmega(g2 float64) float64 { return 4 * (1 - g2) }
 // k = √(1 − (Ω/(4(1 − G2)))²) falls below the threshold kThreshold (k_R,
 // label.Thresholds.SingleMinimumK) at Ω = 4(1 − G2)√(1 − kThreshold²),
 // slightly below the true boundary 4(1 − G2) (by 0.5 % for the default 0.1).
+// This is where numerical (GPE) states change name; the variational theory
+// labels by the optimum's own landscape (Uniform.SingleWaveBistable) and
+// changes at 4(1 − G2).
 func SingleMinimumLabelOmega(g2, kThreshold float64) float64 {
 	return 4 * (1 - g2) * math.Sqrt(1-kThreshold*kThreshold)
 }

@@ -152,9 +152,16 @@ var stripeStarts = [...]struct{ c0, w float64 }{
 // distribution (mean |k| and the weights at k > 0 and k < 0), so the label
 // is consistent with the classifier of numerical states: single-minimum when
 // the mean |k| is below Thresholds.SingleMinimumK, stripe when the minority
-// weight is at least Thresholds.StripeMinority, plane-wave otherwise. A
-// minimisation that did not converge gives Status NotConverged and phase
-// label.NotConverged.
+// weight is at least Thresholds.StripeMinority, plane-wave otherwise — with
+// one exception that uses the optimum's own energy landscape instead of the
+// |k| threshold: a single plane wave that is one of two minima of the
+// single-wave energy (Uniform.SingleWaveBistable) is plane-wave however
+// small its k. So at δ + Δg = 0 the plane-wave ↔ single-minimum boundary of
+// a variational map is the exact Ω = 4(1 − G2) (PlaneWaveSingleMinimumOmega),
+// not where k falls below the threshold (SingleMinimumLabelOmega, 3.582 for
+// G2 = 0.1). Where δ + Δg ≠ 0 the single minimum moves continuously off k = 0
+// and the threshold separates the two names. A minimisation that did not
+// converge gives Status NotConverged and phase label.NotConverged.
 func Variational(u Uniform, s *Settings) (Result, error) {
 	for _, v := range [...]float64{u.Omega, u.Delta, u.Guu, u.Gdd, u.Gud} {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
@@ -276,6 +283,12 @@ func (ws *workspace) solve(u Uniform, st *Settings) Result {
 	plus, minus, mk := res.State.Fractions()
 	res.Phase = label.Classify(label.Features{MeanAbsK: mk, FracPlus: plus, FracMinus: minus,
 		Converged: res.Status == Converged}, st.Thresholds)
+	if res.Phase == label.SingleMinimum && res.State.W == 1 && u.SingleWaveBistable() {
+		// The optimum is one of two single-wave minima: a plane wave,
+		// however small its k (the classifier's |k| threshold is for
+		// numerical states only).
+		res.Phase = label.PlaneWave
+	}
 	res.Period = math.NaN()
 	if res.Phase == label.Stripe {
 		res.K1 = math.Abs(res.State.K1())
@@ -367,7 +380,7 @@ func (ws *workspace) localSearch(f float64, st *Settings) (float64, bool) {
 	}
 	resetH(1)
 	first := true
-	var d, xn, gn, s, y [3]float64
+	var d, xn, gn, xt, gt, s, y [3]float64
 	for iter := 0; iter < st.MaxIter; iter++ {
 		gn2 := norm3(g)
 		if gn2 < st.GradTol {
@@ -410,6 +423,29 @@ func (ws *workspace) localSearch(f float64, st *Settings) (float64, bool) {
 		}
 		if !accepted {
 			return fx, gn2 < st.AcceptTol
+		}
+		// Expansion (the curvature condition of the weak Wolfe conditions,
+		// Nocedal & Wright, eq. 3.6b, c₂ = 0.9): while the energy still falls
+		// steeply along d at the accepted point, the step is doubled, up to
+		// the 0.5 rad cap. Without it a backtracking search accepts every
+		// unit step in a region of negative curvature (sᵀy ≤ 0, no update),
+		// and the search crawls: from a plane wave with a small admixture
+		// towards a lower stripe at small G2 it spent MaxIter at |g| = 1e-3
+		// (Ω = 0.191, δ = −7.4e-4, G1 = 0.046, G2 = 4.6e-4 E_R).
+		for ex := 0; ex < 40 && alpha < 1e6; ex++ {
+			if gn[0]*d[0]+gn[1]*d[1]+gn[2]*d[2] >= 0.9*slope || 2*alpha*norm3(d[:]) > 0.5 {
+				break
+			}
+			for i := range xt {
+				xt[i] = x[i] + 2*alpha*d[i]
+			}
+			ft := u.stripeEnergy(xt[:], gt[:], f)
+			ws.evals++
+			if !(ft <= fx+1e-4*2*alpha*slope) || !(ft < fn) {
+				break
+			}
+			alpha *= 2
+			xn, gn, fn = xt, gt, ft
 		}
 		for i := 0; i < 3; i++ {
 			s[i] = xn[i] - x[i]
@@ -461,6 +497,37 @@ func (u *Uniform) pwEnergy(th float64) (e, d1, d2 float64) {
 	d1 = 4*c*s + u.Omega*c - u.Delta*s - 2*s*ip
 	d2 = 8*(c*c-s*s) - 2*u.Omega*s - 2*u.Delta*c - 4*c*ip + 8*g2*s*s
 	return
+}
+
+// SingleWaveBistable reports whether the single-plane-wave energy of u
+// (pwEnergy) has two local minima in the momentum c = k/k_R of the wave.
+// On the lower spinor branch (sin 2θ = −sgn Ω √(1 − c²))
+//
+//	ε(c) = 1 − c² − (|Ω|/2)√(1 − c²) + b c + ḡ2 c² + ḡ1,  b = δ/2 + Δg,
+//	ε'(c) = f(c) + b,  f(c) = c [(|Ω|/2)/√(1 − c²) − 2a],  a = 1 − ḡ2.
+//
+// f is odd; for r = |Ω|/(4a) < 1 it has a local maximum at
+// c_m = −√(1 − r^{2/3}) of height 2a (1 − r^{2/3})^{3/2}, so ε' has three
+// zeros (two minima and the maximum between them) iff
+//
+//	r < 1 and |b| < 2a (1 − r^{2/3})^{3/2},
+//
+// the astroid (|b|/2a)^{2/3} + r^{2/3} < 1 (derived here; at ḡ2 = Δg = 0 it
+// is the familiar two-minima region of the Raman-dressed lower band,
+// (|δ|/4)^{2/3} + (Ω/4)^{2/3} < 1, common practice, no source). At b = 0 the
+// boundary is Ω = 4(1 − G2). With a ≤ 0 the energy has one minimum.
+func (u Uniform) SingleWaveBistable() bool {
+	_, g2, dg := u.Couplings()
+	a := 1 - g2
+	if !(a > 0) {
+		return false
+	}
+	r := math.Abs(u.Omega) / (4 * a)
+	if r >= 1 {
+		return false
+	}
+	b := u.Delta/2 + dg
+	return math.Abs(b) < 2*a*math.Pow(1-math.Cbrt(r*r), 1.5)
 }
 
 const pwScan = 64

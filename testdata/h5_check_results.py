@@ -7,7 +7,7 @@ created_utc, kind and plan_toml; every dataset carries non-empty `units` and
 Per kind, values are cross-checked with scipy.constants:
   scheme-*  : E_R/h = ħ²k_R²/(2m h) from /model/k_R and /model/mass
   scheme-shake: Doppler coefficient = k_t/2π
-  map       : phase codes in 0..5, shapes match the axes, `codes` attribute
+  map       : phase codes in 0..6, shapes match the axes, `codes` attribute
 Exit status 1 with a list of failures.
 """
 import sys
@@ -60,8 +60,8 @@ def check(path):
             shape = (len(f["map/y"][()]), len(x)) if "y" in f["map"] else (len(x),)
             if ph.shape != shape:
                 fail(path, f"phase shape {ph.shape}, axes give {shape}")
-            if ph.min() < 0 or ph.max() > 5:
-                fail(path, f"phase codes outside 0..5: {np.unique(ph)}")
+            if ph.min() < 0 or ph.max() > 6:
+                fail(path, f"phase codes outside 0..6: {np.unique(ph)}")
             if "3=stripe" not in f["map/phase"].attrs.get("codes", ""):
                 fail(path, "phase codes attribute missing")
             done = f["map/done"][()]

@@ -56,6 +56,8 @@ CASES = [
     (1.12, 0.02, 2.75, 1.48, 1.29),  # ground state: two waves, minority weight < 0.1
     (1.55, -0.35, 1.93, 2.98, 1.14), # the same
     (5.0, -0.1, 1.0, 0.8, 0.7),    # single minimum (delta + (Guu - Gdd)/2 = 0)
+    (0.19125, -0.000742, 0.09396, 0.09282, 0.09154),  # weak interactions (G2 ~ 5e-4), stripe:
+    (0.6107, 0.00028, 0.02535, 0.02563, 0.02345),     # the descent from the plane wave crosses negative curvature
 ]
 
 

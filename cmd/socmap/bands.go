@@ -14,6 +14,7 @@ import (
 
 func newBandsCmd() *cobra.Command {
 	var mf modelFlags
+	var lf levelFlags
 	var outs []string
 	var kmax *quantity
 	var samples int
@@ -22,16 +23,39 @@ func newBandsCmd() *cobra.Command {
 		Short: "single-particle bands of an effective model: minima, barrier, effective mass, spin texture",
 		Long: `Single-particle dispersion E±(k) of h = (k − k_R σz)²/2m + (ħΩ/2)σx + (ħδ/2)σz,
 from a scheme (--scheme shake|raman with its settings) or given directly
-(--omega-er, --delta-er). Energies in E_R, momenta in k_R.`,
+(--omega-er, --delta-er). Energies in E_R, momenta in k_R.
+
+With --levels 3 the full F = 1 model: three branches of
+h = Σ_m [(k − K_m)² + E_m]|m⟩⟨m| + (Ω/√2)F_x, their minima (up to three) with
+⟨F_z⟩ and ⟨F_z²⟩, and the two-level answer of the pair beside them. The
+shaking scheme gives K_m and E_m from each sublevel's own moment (pair: two
+adjacent F = 1 sublevels); the Raman scheme and the direct model are
+h = (k − 2F_z)² + δF_z + εF_z² + (Ω/√2)F_x with --epsilon-er.`,
 		Example: `  socmap bands --omega-er 2 --delta-er 0 --out bands.png --out bands.csv
-  socmap bands --scheme raman --atom Rb87 --wavelength "790 nm" --raman-rabi "10 kHz"`,
+  socmap bands --scheme raman --atom Rb87 --wavelength "790 nm" --raman-rabi "10 kHz"
+  socmap bands --levels 3 --omega-er 1 --delta-er 0 --epsilon-er 0.2 --json`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := lf.check(); err != nil {
+				return err
+			}
+			if lf.levels == 3 {
+				if err := checkOuts(outs, ".png", ".csv", ".h5", ".json"); err != nil {
+					return err
+				}
+				if !(kmax.v > 0) {
+					return usagef("--k-max %q: must be positive", kmax.text)
+				}
+				if samples < 3 || samples > 1000000 {
+					return usagef("--samples %d: allowed 3 … 1000000", samples)
+				}
+				return runBands3(cmd, &mf, &lf, outs, kmax.v, samples)
+			}
 			mc, err := mf.build()
 			if err != nil {
 				return err
 			}
-			if err := checkOuts(outs, ".png", ".csv", ".h5", ".json"); err != nil {
+			if err := checkOuts(outs, outTypes(".csv", ".h5", ".json")...); err != nil {
 				return err
 			}
 			if !(kmax.v > 0) {
@@ -52,8 +76,8 @@ from a scheme (--scheme shake|raman with its settings) or given directly
 			for _, o := range outs {
 				var err error
 				switch strings.ToLower(filepath.Ext(o)) {
-				case ".png":
-					err = output.WriteFileAtomic(o, g.force, bp.WritePNG)
+				case ".png", ".svg", ".pdf":
+					err = output.WriteFigure(o, g.force, bp)
 				case ".csv":
 					err = output.WriteFileAtomic(o, g.force, bp.WriteCSV)
 				default:
@@ -73,9 +97,10 @@ from a scheme (--scheme shake|raman with its settings) or given directly
 		},
 	}
 	mf.add(c.Flags())
+	lf.add(c.Flags(), false)
 	kmax = qflag(c.Flags(), "k-max", KindNumber, "2.5", "plot and sample k_x over [−k-max, k-max] (units of k_R)")
 	c.Flags().IntVar(&samples, "samples", 501, "number of k points in the CSV/HDF5 curves and the plot")
-	c.Flags().StringSliceVar(&outs, "out", nil, "write FILE.png (plot), FILE.csv (curves), FILE.h5 or FILE.json (repeatable)")
+	c.Flags().StringSliceVar(&outs, "out", nil, "write FILE.png, .svg or .pdf (plot), FILE.csv (curves), FILE.h5 or FILE.json (repeatable)")
 	return c
 }
 

@@ -45,7 +45,7 @@ drive (b_eff sin(ωt − θ_lag)). k_t = 2π sgn(f0) × slope.`,
 			if data == "" {
 				return usagef("--data is required: a CSV with columns phase_deg,slope_hz_per_mm_s or phase_deg,detuning_hz,velocity_mm_s")
 			}
-			if err := checkOuts(outs, ".h5", ".json", ".png"); err != nil {
+			if err := checkOuts(outs, outTypes(".h5", ".json")...); err != nil {
 				return err
 			}
 			fh, err := os.Open(data)
@@ -65,6 +65,6 @@ drive (b_eff sin(ωt − θ_lag)). k_t = 2π sgn(f0) × slope.`,
 	}
 	sf.add(c.Flags())
 	c.Flags().StringVar(&data, "data", "", "CSV of measurements (see above)")
-	c.Flags().StringSliceVar(&outs, "out", nil, "write FILE.h5, FILE.json or FILE.png (repeatable)")
+	c.Flags().StringSliceVar(&outs, "out", nil, "write FILE.h5, FILE.json or FILE.png, .svg, .pdf (figure) (repeatable)")
 	return c
 }

@@ -2,6 +2,7 @@ package main
 
 import (
 	"errors"
+	"fmt"
 	"io"
 	"math"
 	"path/filepath"
@@ -11,7 +12,6 @@ import (
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
-	"socmap/dispersion"
 	"socmap/output"
 	"socmap/phases"
 )
@@ -55,6 +55,7 @@ func newCompareCmd() *cobra.Command {
 	var inf interFlags
 	var tf trapFlags
 	var outs []string
+	var method string
 	c := &cobra.Command{
 		Use:   "compare",
 		Short: "shaking scheme vs Raman scheme side by side for one atom and density",
@@ -71,18 +72,26 @@ planned couplings give a stripe.`,
 			if err := checkOuts(outs, ".json", ".txt"); err != nil {
 				return err
 			}
-			p, err := comparison(&sf, &rf, &inf, &tf)
+			p, notes, err := comparison(&sf, &rf, &inf, &tf)
 			if err != nil {
 				return err
 			}
-			res, err := phases.Compare(p, nil)
+			var set phases.CompareSettings
+			switch method {
+			case "variational":
+			case "gpe":
+				set.GPE = true
+			default:
+				return usagef("--method %q: allowed variational, gpe", method)
+			}
+			res, err := phases.Compare(p, &set)
 			if errors.Is(err, phases.ErrInput) {
 				return usagef("%v", err)
 			}
 			if err != nil {
 				return err
 			}
-			rep := &output.CompareReport{Problem: p, CompareResult: res, Cautions: []string{output.CautionCoils, output.CautionLasers}}
+			rep := &output.CompareReport{Problem: p, CompareResult: res, Notes: notes, Cautions: []string{output.CautionCoils, output.CautionLasers}}
 			for _, o := range outs {
 				var err error
 				switch strings.ToLower(filepath.Ext(o)) {
@@ -107,12 +116,38 @@ planned couplings give a stripe.`,
 	rf.add(fs, false, "raman-")
 	inf.add(fs)
 	tf.add(fs)
+	fs.StringVar(&method, "method", "variational", "variational, or gpe: also the upper stripe edge from 1D GPE ground states (bisection, each branch in a box of its own momentum; ~10 s per scheme)")
 	return c
 }
 
 // comparison builds the library problem from the flags (the checks here are
 // about the flags; phases.Compare checks the physics).
-func comparison(sf *shakeFlags, rf *ramanFlags, inf *interFlags, tf *trapFlags) (phases.Comparison, error) {
+func comparison(sf *shakeFlags, rf *ramanFlags, inf *interFlags, tf *trapFlags) (phases.Comparison, []string, error) {
+	p, err := comparisonProblem(sf, rf, inf, tf)
+	if err != nil {
+		return p, nil, err
+	}
+	// compare takes its interactions from scattering lengths and a density
+	// in each scheme's own E_R: interaction parameters in E_R cannot be
+	// used. On the command line they are refused; from a plan (shared with
+	// map or ground) they are named in a note.
+	var notes []string
+	for _, q := range []struct {
+		name string
+		q    *quantity
+	}{{"G1", inf.g1}, {"G2", inf.g2}, {"ng-uu", inf.nguu}, {"ng-dd", inf.ngdd}, {"ng-ud", inf.ngud}} {
+		if q.q.text == "" {
+			continue
+		}
+		if !g.fromPlan[q.name] {
+			return p, nil, usagef("--%s: compare takes its interactions from the atom's scattering lengths (or --a-uu/--a-dd/--a-ud) and a density (--density, or --atoms with --trap), in each scheme's own E_R; interaction parameters in E_R are not used", q.name)
+		}
+		notes = append(notes, fmt.Sprintf("plan key %s = %s not used: compare takes its interactions from the scattering lengths and the density", q.name, q.q.text))
+	}
+	return p, notes, nil
+}
+
+func comparisonProblem(sf *shakeFlags, rf *ramanFlags, inf *interFlags, tf *trapFlags) (phases.Comparison, error) {
 	var p phases.Comparison
 	var err error
 	if p.Shake, err = sf.build(); err != nil {
@@ -122,9 +157,6 @@ func comparison(sf *shakeFlags, rf *ramanFlags, inf *interFlags, tf *trapFlags) 
 		return p, err
 	}
 	if p.Couplings, err = inf.couplings(&sf.atomFlags); err != nil {
-		return p, err
-	}
-	if err := repulsive(p.Couplings); err != nil {
 		return p, err
 	}
 	if inf.density.text != "" && tf.atoms.text != "" {
@@ -155,16 +187,4 @@ func comparison(sf *shakeFlags, rf *ramanFlags, inf *interFlags, tf *trapFlags) 
 		return p, usagef("give --density, or --atoms and --trap")
 	}
 	return p, nil
-}
-
-// repulsive refuses an attractive gas, as map does (phases.Lab.Resolve):
-// g↑↑, g↓↓ > 0 and g↑↑ + g↓↓ + 2g↑↓ > 0 (G1 > 0); an attractive gas
-// collapses (common practice, no source). phases.Compare does not check
-// it (yet), so the command does.
-func repulsive(c dispersion.Couplings) error {
-	if c.Guu > 0 && c.Gdd > 0 && c.Guu+c.Gdd+2*c.Gud > 0 {
-		return nil
-	}
-	a0 := dispersion.BohrRadius
-	return usagef("--a-uu %.4g, --a-dd %.4g, --a-ud %.4g a₀: the gas must be repulsive (a↑↑, a↓↓ > 0 and a↑↑ + a↓↓ + 2a↑↓ > 0); an attractive gas collapses", c.Auu/a0, c.Add/a0, c.Aud/a0)
 }

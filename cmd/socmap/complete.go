@@ -69,18 +69,30 @@ func sublevels(cmd *cobra.Command, args []string, toComplete string) ([]string, 
 	return out, cobra.ShellCompDirectiveNoFileComp
 }
 
-// outTypes are the --out file types per command (for completion).
-var outTypes = map[string][]string{
-	"scheme shake": {"h5", "json"}, "scheme raman": {"h5", "json"},
-	"bands": {"png", "csv", "h5", "json"}, "ground": {"h5", "png", "json"},
-	"map": {"h5", "png", "json"}, "merge": {"h5", "png", "json"},
-	"compare": {"json", "txt"}, "verify": {"h5", "json", "png"}, "calibrate": {"h5", "json", "png"},
+// completionOuts are the --out file types per command (for completion),
+// without the dot; figure commands take outTypes' figure types too.
+func completionOuts() map[string][]string {
+	figs := func(extra ...string) []string {
+		var out []string
+		for _, e := range outTypes(extra...) {
+			out = append(out, strings.TrimPrefix(e, "."))
+		}
+		return out
+	}
+	return map[string][]string{
+		"scheme shake": {"h5", "json"}, "scheme raman": {"h5", "json"},
+		"bands": figs(".csv", ".h5", ".json"), "ground": figs(".h5", ".json"),
+		"map": figs(".h5", ".json"), "merge": figs(".h5", ".json"),
+		"compare": {"json", "txt"}, "verify": figs(".h5", ".json"), "calibrate": figs(".h5", ".json"),
+		"excitations": figs(".h5", ".json", ".csv"), "sequence": {"h5", "png", "gif", "json"},
+	}
 }
 
 // registerCompletions adds the completion functions to every command of
 // root that has the flag.
 func registerCompletions(root *cobra.Command) {
 	verifyAxes := []string{gpe.VerifyPulseWidth.Name(), gpe.VerifyShakeFreq.Name()}
+	outs := completionOuts()
 	byFlag := map[string]cobra.CompletionFunc{
 		"atom":     fixed(dispersion.SpeciesNames()...),
 		"scheme":   fixed("shake", "raman", "direct"),
@@ -108,7 +120,7 @@ func registerCompletions(root *cobra.Command) {
 				reg(flag, f)
 			}
 		}
-		if exts, ok := outTypes[path]; ok {
+		if exts, ok := outs[path]; ok {
 			reg("out", files(exts...))
 		}
 		switch path {

@@ -16,6 +16,11 @@ import (
 //go:embed plans/demo.toml
 var demoPlan string
 
+// demoSequence is the built-in example sequence (plans/sequence.toml).
+//
+//go:embed plans/sequence.toml
+var demoSequence string
+
 // calibrateExample is synthetic Doppler-slope data of our own for the demo's
 // calibrate step (same content as testdata/calibrate_example.csv).
 //
@@ -75,11 +80,22 @@ non-empty --dir is refused unless --force is given.`,
 				{[]string{"ground", "--dims", "1", "--atoms", "2e4", "--trap", "20,200,200", "--out", p("ground-trap.h5"), "--out", p("ground-trap.png")}, "ground-trap.txt", "GPE ground state of 2e4 atoms in an elongated trap"},
 				{[]string{"verify", "--out", p("verify.h5"), "--out", p("verify.png")}, "verify.txt", "shaken dynamics without the cycle average: measured k_t, Doppler slope, Rabi frequency"},
 				{[]string{"calibrate", "--data", p("calibrate-example.csv"), "--out", p("calibrate.png")}, "calibrate.txt", "recoil and phase lag fitted from (synthetic) Doppler slopes"},
+				{[]string{"sequence", "--out", p("sequence.h5"), "--out", p("sequence.png"), "--out", p("sequence.gif")}, "sequence.txt", "the coupling ramped on in real time, hold, release: can the stripes be seen?"},
+			}
+			if err := output.WriteFileAtomic(p("sequence.toml"), true, func(w io.Writer) error {
+				_, err := io.WriteString(w, demoSequence)
+				return err
+			}); err != nil {
+				return err
 			}
 			var report strings.Builder
 			fmt.Fprintf(&report, "socmap %s demo — built-in example plan (invented setting, see plan.toml)\n\n", version)
 			for _, s := range steps {
-				full := append(append([]string{}, s.args...), "--plan", planPath, "--force")
+				plan := planPath
+				if s.args[0] == "sequence" {
+					plan = p("sequence.toml")
+				}
+				full := append(append([]string{}, s.args...), "--plan", plan, "--force")
 				if !g.quiet {
 					fmt.Fprintf(os.Stderr, "demo: socmap %s\n", strings.Join(full, " "))
 				}
@@ -109,6 +125,8 @@ non-empty --dir is refused unless --force is given.`,
 				{"verify.png, .h5, .txt", "spin-flip spectra per velocity and resonance centre vs velocity against the model"},
 				{"calibrate-example.csv", "synthetic Doppler-slope data of our own (gradient 85 % of nominal, 12° lag, 4 Hz/(mm/s) noise)"},
 				{"calibrate.png, .txt", "fit of k_t(θ) = k_max cos(θ − θ_lag) to those data"},
+				{"sequence.toml", "the example sequence (ramp, hold, time of flight)"},
+				{"sequence.png, .gif, .h5, .txt", "real-time sequence: overlap, Ω, energy against time, final image and verdict; density animation; snapshots"},
 			}
 			for _, f := range files {
 				fmt.Fprintf(&report, "  %-32s %s\n", f.name, f.what)

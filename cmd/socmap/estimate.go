@@ -3,6 +3,7 @@ package main
 import (
 	"errors"
 	"fmt"
+	"os"
 	"path/filepath"
 	"strings"
 
@@ -74,4 +75,12 @@ func h5Out(outs []string) string {
 		}
 	}
 	return ""
+}
+
+// isTerminal reports whether f is a terminal (a character device).
+// New commands show progress with output.NewProgress, which decides this
+// itself.
+func isTerminal(f *os.File) bool {
+	st, err := f.Stat()
+	return err == nil && st.Mode()&os.ModeCharDevice != 0
 }

@@ -53,6 +53,7 @@ func perAxis(flag, s string, dims int) ([]string, error) {
 
 func newGroundCmd() *cobra.Command {
 	var mf modelFlags
+	var lf levelFlags
 	var inf interFlags
 	var tf trapFlags
 	var gf gridFlags
@@ -68,12 +69,19 @@ conjugate gradient whose fixed point is exact, from several starts (plane waves
 at the band minima, a stripe, the variational optimum for a box, random states),
 keeping the lowest energy. A uniform periodic box takes --G1/--G2, --ng-* or
 --density; a harmonic trap takes an atom, --atoms and --trap (3D couplings, or
-reduced 1D/2D couplings for tight transverse confinement).`,
+reduced 1D/2D couplings for tight transverse confinement).
+
+With --levels 3 the three-component F = 1 GPE (spin-changing collisions
+included) in a uniform periodic box: n·c0, n·c2 from --nc0-er/--nc2-er or
+--density with the atom's F = 1 scattering lengths (--a0/--a2 override them);
+the variational three-level theory sizes the box and is one of the starts, and
+the two-level answer of the pair is shown beside it. JSON keys: populations,
+fz, f_perp, phase, energy_per_particle_over_ER, residual_over_ER, …`,
 		Example: `  socmap ground --omega-er 1 --G1 1 --G2 0.1 --dims 1 --out stripe.png --out stripe.h5
   socmap ground --plan socmap-demo/plan.toml --dims 1 --atoms 2e4 --trap "20,200,200" --out trap.png`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			if err := checkOuts(outs, ".h5", ".png", ".json"); err != nil {
+			if err := checkOuts(outs, outTypes(".h5", ".json")...); err != nil {
 				return err
 			}
 			if starts < 0 || starts > 50 {
@@ -81,6 +89,12 @@ reduced 1D/2D couplings for tight transverse confinement).`,
 			}
 			if !(tol.v > 0) {
 				return usagef("--tol %q: must be positive", tol.text)
+			}
+			if err := lf.check(); err != nil {
+				return err
+			}
+			if lf.levels == 3 {
+				return runGround3(cmd, &mf, &lf, &inf, &tf, &gf, outs, tol.v)
 			}
 			p, err := groundProblem(&mf, &inf, &tf, &gf)
 			if err != nil {
@@ -119,8 +133,8 @@ reduced 1D/2D couplings for tight transverse confinement).`,
 			for _, o := range outs {
 				var err error
 				switch strings.ToLower(filepath.Ext(o)) {
-				case ".png":
-					err = output.WriteFileAtomic(o, g.force, res.WritePNG)
+				case ".png", ".svg", ".pdf":
+					err = output.WriteFigure(o, g.force, res)
 				default:
 					err = writeResult(cmd, o, "ground", doc, res.WriteH5)
 				}
@@ -135,12 +149,13 @@ reduced 1D/2D couplings for tight transverse confinement).`,
 		},
 	}
 	mf.add(c.Flags())
+	lf.add(c.Flags(), true)
 	inf.add(c.Flags())
 	tf.add(c.Flags())
 	gf.add(c)
 	c.Flags().IntVar(&starts, "starts", 1, "random starts (seeds 1 … N) besides the plane waves, the stripe and the variational optimum")
 	tol = qflag(c.Flags(), "tol", KindNumber, "1e-8", "residual ‖Hψ − μψ‖ to converge to, in E_R")
-	c.Flags().StringSliceVar(&outs, "out", nil, "write FILE.h5 (state, observables, history), FILE.png (densities, momentum distribution), FILE.json (repeatable)")
+	c.Flags().StringSliceVar(&outs, "out", nil, "write FILE.h5 (state, observables, history), FILE.png, .svg or .pdf (densities, momentum distribution), FILE.json (repeatable)")
 	addSizeCheckFlag(c.Flags())
 	return c
 }

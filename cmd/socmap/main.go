@@ -35,6 +35,7 @@ type globals struct {
 	plan               string
 	planText           string          // the plan file as read, for result files
 	fromPlan           map[string]bool // flags whose value came from the plan file
+	planSteps          []planStep      // [[sequence.step]] tables of the plan file (sequence.go)
 }
 
 var g globals
@@ -63,7 +64,8 @@ states. Quantities take units as text: "40 G/cm", "3 kHz", "90 deg", "790 nm".`,
 	pf.BoolVar(&g.quiet, "quiet", false, "no progress output on stderr")
 	pf.BoolVar(&g.force, "force", false, "overwrite existing output files")
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error { return usageError{err.Error()} })
-	root.AddCommand(newSchemeCmd(), newBandsCmd(), newGroundCmd(), newMapCmd(), newCompareCmd(), newVerifyCmd(), newCalibrateCmd(), newMergeCmd(), newInspectCmd(), newDemoCmd())
+	root.AddCommand(newSchemeCmd(), newBandsCmd(), newGroundCmd(), newMapCmd(), newCompareCmd(), newVerifyCmd(), newCalibrateCmd(), newMergeCmd(), newInspectCmd(), newDemoCmd(), newExcitationsCmd())
+	root.AddCommand(newSequenceCmd())
 	registerCompletions(root) // complete.go
 	return root
 }

@@ -328,3 +328,32 @@ func TestInspect(t *testing.T) {
 		t.Errorf("unwritable: exit %d %q", code, stderr)
 	}
 }
+
+// map --png-observable writes one figure per observable beside each figure
+// --out (also as SVG); bad names and a missing figure --out are refused.
+func TestMapObservableFigures(t *testing.T) {
+	dir := t.TempDir()
+	base := []string{"map", "--omega-er", "1", "--G1", "1", "--G2", "0.1", "--x", "omega=0:5:11", "--y", "G2=-0.2:0.6:5"}
+	code, _, stderr := runArgs(t, append(base, "--out", filepath.Join(dir, "m.png"), "--out", filepath.Join(dir, "m.svg"), "--png-observable", "contrast,period")...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	for _, f := range []string{"m.png", "m.svg", "m-contrast.png", "m-period.png", "m-contrast.svg", "m-period.svg"} {
+		if st, err := os.Stat(filepath.Join(dir, f)); err != nil || st.Size() == 0 {
+			t.Errorf("%s: %v", f, err)
+		}
+	}
+	for _, c := range []struct{ args []string }{
+		{[]string{"--out", filepath.Join(dir, "n.png"), "--png-observable", "temperature"}},
+		{[]string{"--out", filepath.Join(dir, "n.h5"), "--png-observable", "contrast"}},
+		{[]string{"--out", filepath.Join(dir, "n.pdf"), "--out", filepath.Join(dir, "n.gif")}},
+	} {
+		code, _, stderr := runArgs(t, append(append([]string{}, base...), c.args...)...)
+		if code != 2 || len(strings.Split(strings.TrimSpace(stderr), "\n")) != 1 {
+			t.Errorf("%v: exit %d, stderr %q; want 2 and one line", c.args, code, stderr)
+		}
+	}
+	if m, _ := filepath.Glob(filepath.Join(dir, "n*")); len(m) != 0 {
+		t.Errorf("refused runs left files: %v", m)
+	}
+}

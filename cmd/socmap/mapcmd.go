@@ -37,7 +37,9 @@ type mapOpts struct {
 	mf             modelFlags
 	inf            interFlags
 	xs, ys, method string
+	holdDelta      string
 	outs           []string
+	observables    []string // --png-observable
 	workers        int
 	shard          string
 	flushEvery     int
@@ -45,6 +47,8 @@ type mapOpts struct {
 	tasks, cpus    int
 	sbatchOptions  []string
 	// GPE method
+	tf                   trapFlags
+	gpeDims              int
 	gpePoints, gpeStarts int
 	gpeLength, gpeTol    *quantity
 }
@@ -53,15 +57,19 @@ type mapOpts struct {
 func (o *mapOpts) addFlags(fs *pflag.FlagSet) {
 	o.mf.add(fs)
 	o.inf.add(fs)
-	fs.StringVarP(&o.xs, "x", "x", "", "x axis NAME=LO:HI:N") // shorthand = name: cobra completes one-letter flags only through it
-	fs.StringVarP(&o.ys, "y", "y", "", "y axis NAME=LO:HI:N (optional)")
+	fs.StringVarP(&o.xs, "x", "x", "", "x axis NAME=LO:HI:N, or NAME=LO:HI:N:log (evenly spaced in log)") // shorthand = name: cobra completes one-letter flags only through it
+	fs.StringVarP(&o.ys, "y", "y", "", "y axis NAME=LO:HI:N or NAME=LO:HI:N:log (optional)")
+	fs.StringVar(&o.holdDelta, "hold-delta", "", "hold the detuning at every point: balance (δ = δ_b = (n g↓↓ − n g↑↑)/2) or compensate (δ/2π as at the base setting: the RF follows the micromotion shift); default: the scheme's detuning")
 	fs.StringVar(&o.method, "method", "variational", "method: variational (two-plane-wave mean-field theory) or gpe (1D GPE ground state per point)")
-	fs.IntVar(&o.gpePoints, "points", 0, "gpe: grid points along x (0: a power of two ≥ 128 with k_max ≥ 4 k_R)")
+	fs.IntVar(&o.gpePoints, "points", 0, "gpe: grid points along x (0: per point, the automatic-grid rule: k_max = π/dx ≥ 4 k_R; a given count is kept and the box shortened to fewer wavelengths; points that cannot be resolved are labelled under-resolved)")
 	o.gpeLength = qflag(fs, "length-kr", KindNumber, "", "gpe: box length in 1/k_R (default: per point, commensurate with the variational k₁)")
+	fs.IntVar(&o.gpeDims, "dims", 1, "gpe: dimension of the grid, 1 or 2 (a uniform box, or the trapped cloud with the other axes frozen out)")
+	o.tf.add(fs)
 	fs.IntVar(&o.gpeStarts, "starts", 0, "gpe: random starts per point besides the variational optimum and the competing phase")
 	o.gpeTol = qflag(fs, "tol", KindNumber, "1e-8", "gpe: residual to converge to, in E_R")
 	fs.IntVar(&o.workers, "workers", 0, "parallel workers (0 = all cores, or SLURM_CPUS_PER_TASK inside a Slurm job)")
-	fs.StringSliceVar(&o.outs, "out", nil, "write FILE.h5 (map), FILE.png (phase diagram), FILE.json (repeatable)")
+	fs.StringSliceVar(&o.outs, "out", nil, "write FILE.h5 (map), FILE.png, .svg or .pdf (phase diagram), FILE.json (repeatable)")
+	fs.StringSliceVar(&o.observables, "png-observable", nil, "also write one figure per observable NAME beside each figure --out (map.png → map-NAME.png): sequential colours (diverging for a signed one), colour bar with units, NaN cells grey; e.g. contrast,period")
 	fs.StringVar(&o.shard, "shard", "", "compute only shard I/N of the points (p % N == I, p = iy·nx + ix) into FILE.shard-I-of-N.h5; default from SLURM_ARRAY_TASK_ID and SLURM_ARRAY_TASK_COUNT")
 	fs.IntVar(&o.flushEvery, "flush-every", 0, "points committed to the .h5 file together (0 = automatic: 256 for variational points, 1 for expensive ones; a killed run recomputes at most one batch)")
 	fs.BoolVar(&o.sbatch, "sbatch", false, "print a Slurm job script (a job array of --tasks shards and a dependent merge job) instead of computing")
@@ -76,7 +84,12 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 	if o.method != "variational" && o.method != "gpe" {
 		return nil, usagef("--method %q: allowed: variational, gpe", o.method)
 	}
-	p := &phases.MapProblem{Method: phases.Method(o.method)}
+	switch o.holdDelta {
+	case "", "balance", "compensate":
+	default:
+		return nil, usagef("--hold-delta %q: allowed: balance, compensate", o.holdDelta)
+	}
+	p := &phases.MapProblem{Method: phases.Method(o.method), HoldDelta: phases.HoldMode(o.holdDelta)}
 	if p.Method == phases.MethodGPE {
 		if o.gpePoints != 0 && (o.gpePoints < 16 || o.gpePoints > 8192) {
 			return nil, usagef("--points %d: allowed 16 … 8192", o.gpePoints)
@@ -90,8 +103,13 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 		if !(o.gpeTol.v > 0) {
 			return nil, usagef("--tol %q: must be positive", o.gpeTol.text)
 		}
+		if o.gpeDims != 1 && o.gpeDims != 2 {
+			return nil, usagef("--dims %d: allowed 1, 2", o.gpeDims)
+		}
 		p.GPE = phases.GPESettings{Points: o.gpePoints, Length: o.gpeLength.v, RandomStarts: o.gpeStarts,
-			Solver: gpe.Settings{Tol: o.gpeTol.v}}
+			Solver: gpe.Settings{Tol: o.gpeTol.v}, Dims: o.gpeDims}
+	} else if o.gpeDims != 1 {
+		return nil, usagef("--dims %d: a grid dimension is for --method gpe", o.gpeDims)
 	}
 	var err error
 	if o.xs == "" {
@@ -111,7 +129,12 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 	if p.Lab, err = o.lab(p.X.Name, p.Y.Name); err != nil {
 		return nil, err
 	}
-	if err := o.inf.apply(&p.Lab, &o.mf.shake.atomFlags); err != nil {
+	trapped := o.tf.trap != "" || o.tf.atoms.text != "" || p.X.Name == phases.AxisAtoms || p.Y.Name == phases.AxisAtoms
+	if trapped {
+		if err := o.trapLab(p); err != nil {
+			return nil, err
+		}
+	} else if err := o.inf.apply(&p.Lab, &o.mf.shake.atomFlags); err != nil {
 		return nil, err
 	}
 	// The chain is validated at the corners before the run.
@@ -136,6 +159,45 @@ func (o *mapOpts) lab(x, y string) (phases.Lab, error) {
 		return phases.Lab{}, usagef("--omega-er is required: a delta axis implies the direct model, which needs the coupling ħΩ/E_R (or give --scheme shake|raman)")
 	}
 	return o.mf.lab()
+}
+
+// trapLab sets up a trapped-cloud map: --trap (required), --atoms (unless
+// an axis is atoms), interactions from the atom's scattering lengths.
+func (o *mapOpts) trapLab(p *phases.MapProblem) error {
+	if p.Method != phases.MethodGPE {
+		return usagef("a trapped cloud (--trap, --atoms or the atoms axis) needs --method gpe")
+	}
+	if p.Lab.Scheme == nil || p.Lab.Scheme.Atom() == nil {
+		return usagef("a trapped cloud needs a scheme (--scheme shake|raman) to set k_R and E_R")
+	}
+	if o.tf.trap == "" {
+		return usagef("a trapped cloud needs --trap \"f_x,f_y,f_z\" (Hz)")
+	}
+	fr, err := o.tf.frequencies()
+	if err != nil {
+		return err
+	}
+	if o.tf.atoms.text != "" {
+		if !(o.tf.atoms.v >= 1) {
+			return usagef("--atoms %q: must be ≥ 1", o.tf.atoms.text)
+		}
+		p.Lab.Atoms = o.tf.atoms.v
+	}
+	for _, q := range []struct {
+		name string
+		q    *quantity
+	}{{"G1", o.inf.g1}, {"G2", o.inf.g2}, {"ng-uu", o.inf.nguu}, {"ng-dd", o.inf.ngdd}, {"ng-ud", o.inf.ngud}, {"density", o.inf.density}} {
+		if q.q.text != "" && !g.fromPlan[q.name] {
+			return usagef("--%s: a trapped cloud takes its interactions from the atom (or --a-uu/--a-dd/--a-ud) and its density from --atoms and --trap", q.name)
+		}
+	}
+	c, err := o.inf.couplings(&o.mf.shake.atomFlags)
+	if err != nil {
+		return err
+	}
+	p.Lab.HaveSI, p.Lab.Couplings = true, c
+	p.Trap = &phases.MapTrap{FreqHz: fr}
+	return nil
 }
 
 // shardSetting returns the shard of this run: from --shard I/N, else from
@@ -181,9 +243,13 @@ func newMapCmd() *cobra.Command {
 		Long: `Fills a one- or two-axis map with the mean-field phase (single-minimum,
 plane-wave, stripe), energy, stripe k1, contrast, ⟨σz⟩ and the energy gap to
 the competing phase. Axes: omega, delta (E_R), G1, G2 (E_R), density, ratio
-(g↑↓/g), and the schemes' lab settings gradient, shake, phase, bias, rabi
-(shake) or rabi, wavelength, angle (raman), which go through the whole
-scheme → effective-model chain at every point.
+(g↑↓/g), and the schemes' lab settings gradient, shake, phase, bias, rabi,
+rf-detuning (shake) or rabi, wavelength, angle (raman), which go through
+the whole scheme → effective-model chain at every point. NAME=LO:HI:N:log
+spaces the points evenly in log (density over decades). While sweeping lab
+settings, --hold-delta balance holds δ at the balancing value δ_b =
+(n g↓↓ − n g↑↑)/2 at every point, --hold-delta compensate holds δ/2π at its
+value at the base setting (the RF detuning follows the micromotion shift).
 
 With --out MAP.h5 the map is written point by point into MAP.h5.partial,
 which becomes MAP.h5 when every point is done. If the run is interrupted
@@ -212,7 +278,7 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 	if err != nil {
 		return err
 	}
-	if err := checkOutTypes(o.outs, ".h5", ".png", ".json"); err != nil {
+	if err := checkOutTypes(o.outs, outTypes(".h5", ".json")...); err != nil {
 		return err
 	}
 	if o.workers < 0 {
@@ -233,6 +299,10 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 			others = append(others, out)
 		}
 	}
+	obsOuts, err := observableOuts(o.observables, others, p.Sweep())
+	if err != nil {
+		return err
+	}
 	if o.sbatch {
 		return o.printSbatch(cmd, p, h5out, others)
 	}
@@ -241,7 +311,7 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 		return err
 	}
 	if sharded {
-		if h5out == "" || len(others) > 0 {
+		if h5out == "" || len(others) > 0 || len(obsOuts) > 0 {
 			return usagef("--shard %d/%d: give exactly one --out FILE.h5 (the shard goes to FILE.shard-%d-of-%d.h5; make the PNG with socmap merge)", shard, shards, shard, shards)
 		}
 		h5out = output.ShardName(h5out, shard, shards)
@@ -258,7 +328,7 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 	if h5out != "" {
 		outs = append(outs, h5out)
 	}
-	if err := checkOuts(outs, ".h5", ".png", ".json"); err != nil {
+	if err := checkOuts(append(outs, obsOuts...), outTypes(".h5", ".json")...); err != nil {
 		return err
 	}
 	spec := output.NewMapSpec(p, shard, shards)
@@ -334,6 +404,9 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 		if r.Data, _, err = output.ReadMap(h5out); err != nil {
 			return fmt.Errorf("map: reading back %s: %w", h5out, err)
 		}
+	}
+	if err := writeObservableOuts(o.observables, others, r); err != nil {
+		return err
 	}
 	if err := writeMapOuts(others, r); err != nil {
 		return err
@@ -428,13 +501,61 @@ func writeMapOuts(outs []string, r *output.MapResult) error {
 	for _, o := range outs {
 		var err error
 		switch strings.ToLower(filepath.Ext(o)) {
-		case ".png":
-			err = output.WriteFileAtomic(o, g.force, r.WritePNG)
+		case ".png", ".svg", ".pdf":
+			err = output.WriteFigure(o, g.force, r)
 		case ".json":
 			err = output.WriteFileAtomic(o, g.force, func(w io.Writer) error { return writeJSON(w, r.JSON()) })
 		}
 		if err != nil {
 			return err
+		}
+	}
+	return nil
+}
+
+// observableOuts checks --png-observable (names of the map's observables,
+// at least one figure --out to name the files after) and returns the
+// files it will write.
+func observableOuts(names, outs []string, sw phases.Sweep) ([]string, error) {
+	if len(names) == 0 {
+		return nil, nil
+	}
+	have := map[string]bool{}
+	for _, n := range output.ObservableNames(sw) {
+		have[n] = true
+	}
+	var figs, files []string
+	for _, o := range outs {
+		if output.IsFigure(o) {
+			figs = append(figs, o)
+		}
+	}
+	for _, n := range names {
+		if !have[n] {
+			return nil, usagef("--png-observable %q: not an observable of this map; allowed: %s", n, strings.Join(output.ObservableNames(sw), ", "))
+		}
+	}
+	if len(figs) == 0 {
+		return nil, usagef("--png-observable %s: needs a figure --out FILE.png (or .svg, .pdf) to name the files after (FILE-NAME.png)", strings.Join(names, ","))
+	}
+	for _, f := range figs {
+		for _, n := range names {
+			files = append(files, output.ObservablePath(f, n))
+		}
+	}
+	return files, nil
+}
+
+// writeObservableOuts writes the observable figures beside each figure in outs.
+func writeObservableOuts(names, outs []string, r *output.MapResult) error {
+	for _, o := range outs {
+		if !output.IsFigure(o) {
+			continue
+		}
+		for _, n := range names {
+			if err := output.WriteFigure(output.ObservablePath(o, n), g.force, output.ObservableFigurer{Result: r, Name: n}); err != nil {
+				return err
+			}
 		}
 	}
 	return nil

@@ -45,7 +45,7 @@ same as --out FILE.png.`,
 			if png != "" {
 				outs = append(outs, png)
 			}
-			if err := checkOuts(outs, ".h5", ".png", ".json"); err != nil {
+			if err := checkOuts(outs, outTypes(".h5", ".json")...); err != nil {
 				return err
 			}
 			var h5out string
@@ -111,7 +111,7 @@ same as --out FILE.png.`,
 		},
 	}
 	fs := c.Flags()
-	fs.StringSliceVar(&outs, "out", nil, "merged map FILE.h5 (required); also FILE.png, FILE.json (repeatable)")
+	fs.StringSliceVar(&outs, "out", nil, "merged map FILE.h5 (required); also FILE.png, .svg or .pdf, FILE.json (repeatable)")
 	fs.StringVar(&png, "png", "", "also write the phase diagram FILE.png")
 	fs.BoolVar(&allowIncomplete, "allow-incomplete", false, "write the map even if some points are in no input (done = 0 there)")
 	return c
@@ -159,7 +159,7 @@ func shellQuote(s string) string {
 // shard comes from Slurm, its workers from the CPUs per task, its output
 // and the progress switches are set by the script.
 var sbatchSkip = map[string]bool{
-	"sbatch": true, "tasks": true, "cpus-per-task": true, "sbatch-option": true, "shard": true,
+	"sbatch": true, "png-observable": true, "tasks": true, "cpus-per-task": true, "sbatch-option": true, "shard": true,
 	"workers": true, "out": true, "json": true, "quiet": true, "force": true, "plan": true, "help": true,
 }
 

@@ -63,6 +63,11 @@ func readPlanText(text, name string) (map[string]string, map[string][]string, er
 	if _, err := toml.Decode(text, &data); err != nil {
 		return nil, nil, usagef("--plan %s: not valid TOML: %v", name, strings.ReplaceAll(err.Error(), "\n", " "))
 	}
+	steps, err := takeSequenceSteps(data)
+	if err != nil {
+		return nil, nil, usagef("--plan %s: %v", name, err)
+	}
+	g.planSteps = steps
 	out, lists := map[string]string{}, map[string][]string{}
 	if err := planSettings(data, "", out, lists); err != nil {
 		return nil, nil, usagef("--plan %s: %v", name, err)
@@ -152,4 +157,74 @@ func effectivePlan(cmd *cobra.Command) string {
 		fmt.Fprintf(&b, "%s = %q\n", f.Name, f.Value.String())
 	})
 	return b.String()
+}
+
+// takeSequenceSteps removes the [[sequence.step]] array of tables from a
+// decoded plan and returns its steps (only `socmap sequence` uses them;
+// every other command ignores them). Keys of a step: name, duration, ramps
+// (an array of "NAME=FROM:TO"), shape ("linear", "s"), release and
+// interacting (booleans); any other key is an error. The rest of the
+// [sequence] table is ordinary grouping of flag keys.
+func takeSequenceSteps(data map[string]any) ([]planStep, error) {
+	seq, ok := data["sequence"].(map[string]any)
+	if !ok {
+		return nil, nil
+	}
+	raw, ok := seq["step"]
+	if !ok {
+		return nil, nil
+	}
+	delete(seq, "step")
+	list, ok := raw.([]map[string]any)
+	if !ok {
+		return nil, fmt.Errorf("sequence.step must be an array of tables ([[sequence.step]])")
+	}
+	var out []planStep
+	for i, t := range list {
+		var s planStep
+		for k, v := range t {
+			bad := func() error { return fmt.Errorf("sequence.step %d: %s = %v has the wrong type", i+1, k, v) }
+			switch k {
+			case "name", "duration", "shape":
+				str, ok := v.(string)
+				if !ok {
+					return nil, bad()
+				}
+				switch k {
+				case "name":
+					s.Name = str
+				case "duration":
+					s.Duration = str
+				default:
+					s.Shape = str
+				}
+			case "ramps":
+				arr, ok := v.([]any)
+				if !ok {
+					return nil, bad()
+				}
+				for _, e := range arr {
+					str, ok := e.(string)
+					if !ok {
+						return nil, bad()
+					}
+					s.Ramps = append(s.Ramps, str)
+				}
+			case "release", "interacting":
+				b, ok := v.(bool)
+				if !ok {
+					return nil, bad()
+				}
+				if k == "release" {
+					s.Release = b
+				} else {
+					s.Interacting = b
+				}
+			default:
+				return nil, fmt.Errorf("sequence.step %d: unknown key %q (allowed: name, duration, ramps, shape, release, interacting)", i+1, k)
+			}
+		}
+		out = append(out, s)
+	}
+	return out, nil
 }

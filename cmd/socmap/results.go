@@ -15,6 +15,12 @@ import (
 
 // checkOuts validates --out paths before any work: allowed extensions, and
 // (without --force) no existing file.
+// outTypes lists the --out file types of a command that writes a figure:
+// the figure types (output.FigureExts: .png, .svg, .pdf) and extra.
+func outTypes(extra ...string) []string {
+	return append(append([]string{}, output.FigureExts...), extra...)
+}
+
 func checkOuts(outs []string, exts ...string) error {
 	if err := checkOutTypes(outs, exts...); err != nil {
 		return err

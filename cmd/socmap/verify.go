@@ -51,7 +51,7 @@ beside the effective model's value with the relative deviation.
 	fs.IntVar(&f.windows, "windows", 0, "interrogation time in shaking periods (default: π time of the cycle-averaged Rabi frequency)")
 	fs.StringVar(&f.method, "method", "auto", "solver: auto (delta pulses: exact; otherwise real-time), delta (exact, pulses taken as delta pulses), realtime")
 	fs.StringVarP(&f.x, "x", "x", "", `sweep the deviation: "pulse-width=LO:HI:N" or "shake=LO:HI:N", e.g. "pulse-width=10us:150us:5"`)
-	fs.StringSliceVar(&f.outs, "out", nil, "write FILE.h5, FILE.json or FILE.png (repeatable)")
+	fs.StringSliceVar(&f.outs, "out", nil, "write FILE.h5, FILE.json or FILE.png, .svg, .pdf (figure) (repeatable)")
 	return c
 }
 
@@ -96,7 +96,7 @@ func runVerify(cmd *cobra.Command, f *verifyFlags) error {
 	if err != nil {
 		return err
 	}
-	if err := checkOuts(f.outs, ".h5", ".json", ".png"); err != nil {
+	if err := checkOuts(f.outs, outTypes(".h5", ".json")...); err != nil {
 		return err
 	}
 	var s gpe.VerifySettings
@@ -201,13 +201,16 @@ type rendered interface {
 	WritePNG(w io.Writer) error
 }
 
-// emitRendered writes the --out files of r by extension (.png, .json, .h5;
+// emitRendered writes the --out files of r by extension (.png/.svg/.pdf, .json, .h5;
 // each complete or not at all), then prints its JSON (--json) or its table.
 func emitRendered(cmd *cobra.Command, outs []string, kind string, r rendered) error {
 	doc := r.JSON()
 	for _, o := range outs {
 		var err error
-		if strings.ToLower(filepath.Ext(o)) == ".png" {
+		fr, vector := r.(output.Figurer)
+		if output.IsFigure(o) && vector {
+			err = output.WriteFigure(o, g.force, fr)
+		} else if strings.EqualFold(filepath.Ext(o), ".png") {
 			err = output.WriteFileAtomic(o, g.force, r.WritePNG)
 		} else {
 			err = writeResult(cmd, o, kind, doc, r.WriteH5)

@@ -39,7 +39,8 @@ const (
 	// without cgo (CGO_ENABLED=0).
 	Default Backend = iota
 	// FFTW is FFTW3 through cgo (Debian libfftw3-dev), planned with
-	// FFTW_MEASURE. Not available under the build tag purego or without cgo.
+	// FFTW_ESTIMATE unless Options.Planner asks for FFTW_MEASURE. Not
+	// available under the build tag purego or without cgo.
 	FFTW
 	// Gonum is the pure-Go backend: one-dimensional transforms of
 	// gonum.org/v1/gonum/dsp/fourier applied along each axis in turn.
@@ -64,7 +65,26 @@ type Options struct {
 	// (fftw_plan_with_nthreads). 0 or 1: one thread. The gonum backend
 	// ignores it.
 	Threads int
+	// Planner: how FFTW chooses its algorithm. Default PlanEstimate, which
+	// is reproducible; the gonum backend ignores it.
+	Planner Planner
 }
+
+// Planner selects FFTW's planning rigour.
+type Planner int
+
+const (
+	// PlanEstimate (default): FFTW_ESTIMATE, a plan chosen by FFTW's
+	// heuristics from the shape and alignment alone, so the same shape gets
+	// the same algorithm, hence the same rounding, in every run: the same
+	// command gives the same file.
+	PlanEstimate Planner = iota
+	// PlanMeasure: FFTW_MEASURE, a plan chosen by timing candidates. It can
+	// differ between runs (it depends on the machine's load), and so can the
+	// last digits of every result; use it only where reproducibility to the
+	// last bit does not matter. BenchmarkOneFFT measures both.
+	PlanMeasure
+)
 
 // New makes a Transform of the given shape (1 to 3 axes, each ≥ 1).
 func New(shape []int, b Backend, opt Options) (Transform, error) {

@@ -27,7 +27,7 @@ const FFTWAvailable = true
 // Plans are cached per (shape, threads) for the life of the process and
 // shared: executing one plan on different arrays from several goroutines is
 // allowed (fftw_execute_dft is FFTW's thread-safe routine), while planning
-// with FFTW_MEASURE is serialised and costs more than a small solve. A map
+// is serialised (with FFTW_MEASURE it costs more than a small solve). A map
 // sweep makes thousands of transforms of a few shapes; without the cache the
 // planner mutex serialised the workers (measured: 63 % of a 1D map point in
 // fftw_plan_dft, no speed-up from a second worker).
@@ -48,7 +48,7 @@ type fftwFFT struct {
 }
 
 func newFFTW(shape []int, opt Options) (Transform, error) {
-	key := fmt.Sprint(shape, opt.Threads)
+	key := fmt.Sprint(shape, opt.Threads, opt.Planner)
 	plannerMu.Lock()
 	defer plannerMu.Unlock()
 	if f, ok := planCache[key]; ok {
@@ -58,7 +58,11 @@ func newFFTW(shape []int, opt Options) (Transform, error) {
 	buf := Aligned(f.n)
 	p := (*C.fftw_complex)(unsafe.Pointer(&buf[0]))
 	f.align = C.fftw_alignment_of((*C.double)(unsafe.Pointer(p)))
-	f.fwd, f.bwd = f.plan(p, C.FFTW_MEASURE)
+	flags := C.uint(C.FFTW_ESTIMATE)
+	if opt.Planner == PlanMeasure {
+		flags = C.FFTW_MEASURE
+	}
+	f.fwd, f.bwd = f.plan(p, flags)
 	if f.fwd == nil || f.bwd == nil {
 		return nil, fmt.Errorf("fft: FFTW could not plan shape %v", shape)
 	}

@@ -24,10 +24,22 @@ const (
 	Stripe        Phase = 3 // two momenta ±k₁, density modulated with period π/k₁
 	NotConverged  Phase = 4 // the solver did not converge; never classified
 	NoCoupling    Phase = 5 // the scheme gives no recoil here (k_t = 0): no spin–orbit coupling to classify
+	// UnderResolved: no grid within the limits of the automatic-grid rule
+	// (gpe.ResolveBox) resolves k_max = π/dx ≥ 4 k_R at this point; the
+	// state is not computed there and never classified.
+	UnderResolved Phase = 6
+	// Codes of the spin-1 (three-level) theory, after UnderResolved.
+	Stripe3           Phase = 7 // three momenta (three band minima), total density modulated
+	BrokenAxisymmetry Phase = 8 // three momenta, uniform total density, transverse magnetisation (Ω = 0 limit: Ho's broken-axisymmetry phase)
+	Antiferromagnetic Phase = 9 // two momenta, uniform total density (Ω = 0 limit: the ±1 mixture of an antiferromagnetic gas)
 )
 
+// Spin1Codes lists the codes only the three-level theory produces (kept out
+// of All so that the legends of pseudo-spin maps stay as they are).
+var Spin1Codes = []Phase{Stripe3, BrokenAxisymmetry, Antiferromagnetic}
+
 // All lists every code in order, for legends.
-var All = []Phase{NotComputed, SingleMinimum, PlaneWave, Stripe, NotConverged, NoCoupling}
+var All = []Phase{NotComputed, SingleMinimum, PlaneWave, Stripe, NotConverged, NoCoupling, UnderResolved}
 
 // String returns the phase name used in tables and JSON.
 func (p Phase) String() string {
@@ -44,13 +56,21 @@ func (p Phase) String() string {
 		return "not-converged"
 	case NoCoupling:
 		return "no-coupling"
+	case UnderResolved:
+		return "under-resolved"
+	case Stripe3:
+		return "stripe-3"
+	case BrokenAxisymmetry:
+		return "broken-axisymmetry"
+	case Antiferromagnetic:
+		return "antiferromagnetic"
 	}
 	return fmt.Sprintf("phase(%d)", int8(p))
 }
 
 // Parse is the inverse of String.
 func Parse(s string) (Phase, error) {
-	for _, p := range All {
+	for _, p := range append(All[:len(All):len(All)], Spin1Codes...) {
 		if p.String() == s {
 			return p, nil
 		}

@@ -1,0 +1,251 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"path/filepath"
+	"strconv"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"socmap/output"
+	"socmap/phases"
+)
+
+// defaultBraggDuration is the Bragg pulse duration (ħ/E_R) when
+// --bragg-duration is not given: 25 ħ/E_R (≈ 2 ms for 87Rb at 790 nm).
+const defaultBraggDuration = 25.0
+
+func newExcitationsCmd() *cobra.Command {
+	var mf modelFlags
+	var inf interFlags
+	var qText, axis, branch, braggQ, braggDur string
+	var bands, harmonics int
+	var outs []string
+	c := &cobra.Command{
+		Use:   "excitations",
+		Short: "Bogoliubov spectrum, roton, sound and Bragg response of the mean-field phase",
+		Long: `Computes the Bogoliubov–de Gennes spectrum of the uniform mean-field state
+(plane wave, single minimum, or the stripe solved with harmonics in a plane-wave
+basis of its reciprocal lattice) at the momenta --q along x (extended zones for a
+stripe) or y/z: both branches (the lowest --bands for a stripe), their density
+and spin weights, the sound velocities along +x, −x and y, the effective mass,
+the roton minimum, dynamical instabilities (complex frequencies), and with
+--bragg-q the Bragg spectrum S(q, ω) broadened by a rectangular pulse of
+--bragg-duration. Same model and interaction flags as ground (uniform box).`,
+		Example: `  socmap excitations --omega-er 2.6 --G1 1 --G2 0.1 --q=-3:3:241 --out pw.png
+  socmap excitations --omega-er 1 --G1 1 --G2 0.1 --bragg-q 1 --bragg-duration 40 --json
+  socmap excitations --plan socmap-demo/plan.toml --bragg-q "3 1/um" --bragg-duration "2 ms" --out exc.h5`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := checkOuts(outs, outTypes(".h5", ".json", ".csv")...); err != nil {
+				return err
+			}
+			lab, err := mf.lab()
+			if err != nil {
+				return err
+			}
+			if err := inf.apply(&lab, &mf.shake.atomFlags); err != nil {
+				return err
+			}
+			u, model, err := lab.Resolve()
+			if err != nil {
+				return usagef("%v", err)
+			}
+			p := phases.ExcitationProblem{Uniform: u}
+			if p.Branch, err = phases.ParseBranch(branch); err != nil {
+				return usagef("--branch %q: allowed: ground, plane-wave, stripe", branch)
+			}
+			switch axis {
+			case "x":
+				p.Axis = phases.QAlongX
+			case "y":
+				p.Axis = phases.QAlongY
+			case "z":
+				p.Axis = phases.QAlongZ
+			default:
+				return usagef("--q-axis %q: allowed: x, y, z", axis)
+			}
+			kR := math.Abs(model.KR)
+			if p.Q, err = parseQGrid(qText, kR); err != nil {
+				return err
+			}
+			if bands < 1 || bands > 64 {
+				return usagef("--bands %d: allowed 1 … 64", bands)
+			}
+			if harmonics < 0 || harmonics > 96 || harmonics%2 == 1 {
+				return usagef("--harmonics %d: an even number of plane waves 2 … 96, or 0 (from convergence)", harmonics)
+			}
+			if braggQ != "" {
+				q, err := parseMomentum("bragg-q", braggQ, kR)
+				if err != nil {
+					return err
+				}
+				tau := defaultBraggDuration
+				if braggDur != "" {
+					if tau, err = parseDuration(braggDur, model.TimeUnit(), model.ER > 0); err != nil {
+						return err
+					}
+				}
+				p.Bragg = &phases.BraggProblem{Q: q, Duration: tau}
+			} else if braggDur != "" {
+				return usagef("--bragg-duration %q: needs --bragg-q", braggDur)
+			}
+			res, err := phases.Excitations(p, &phases.ExcitationSettings{Bands: bands, Harmonics: harmonics})
+			switch {
+			case errors.Is(err, phases.ErrNotStripe):
+				return usagef("--branch stripe: no stripe state at Ω = %.4g E_R, δ = %.4g E_R, n g = (%.4g, %.4g, %.4g) E_R", u.Omega, u.Delta, u.Guu, u.Gdd, u.Gud)
+			case errors.Is(err, phases.ErrBadMomenta):
+				return usagef("--q %q: the momentum grid is empty or not finite", qText)
+			case err != nil:
+				return fmt.Errorf("excitations: %w", err)
+			}
+			r := &output.ExcitationsResult{Problem: p, Res: res, Model: model, Subtitle: excitationSubtitle(lab, u), Notes: excitationNotes(res, p)}
+			doc := r.JSON()
+			for _, o := range outs {
+				var err error
+				switch strings.ToLower(filepath.Ext(o)) {
+				case ".png", ".svg", ".pdf":
+					err = output.WriteFigure(o, g.force, r)
+				case ".csv":
+					err = output.WriteFileAtomic(o, g.force, r.WriteCSV)
+				default:
+					err = writeResult(cmd, o, "excitations", doc, r.WriteH5)
+				}
+				if err != nil {
+					return err
+				}
+			}
+			if g.json {
+				return writeJSON(cmd.OutOrStdout(), doc)
+			}
+			return r.Table().Write(cmd.OutOrStdout())
+		},
+	}
+	fs := c.Flags()
+	mf.add(fs)
+	inf.add(fs)
+	fs.StringVar(&qText, "q", "-3:3:241", `excitation momenta LO:HI:N, in k_R or with a unit ("-2 1/um:2 1/um:101")`)
+	fs.StringVar(&axis, "q-axis", "x", "direction of the momenta: x (along the coupling; extended zones for a stripe), y or z")
+	fs.StringVar(&branch, "branch", "ground", "state: ground (the lower of plane wave and stripe), plane-wave, stripe")
+	fs.StringVar(&braggQ, "bragg-q", "", `Bragg momentum along x, in k_R or with a unit ("3 1/um"): adds the Bragg spectrum`)
+	fs.StringVar(&braggDur, "bragg-duration", "", `rectangular Bragg pulse duration, in ħ/E_R or with a unit ("2 ms"); default 25 ħ/E_R`)
+	fs.IntVar(&bands, "bands", 6, "stripe bands reported per momentum")
+	fs.IntVar(&harmonics, "harmonics", 0, "plane waves of the stripe basis (even); 0: raised until the bands converge to 1e-9 E_R")
+	fs.StringSliceVar(&outs, "out", nil, "write FILE.h5, FILE.json, FILE.csv (modes per momentum), FILE.png, .svg or .pdf (spectrum; with --bragg-q also the Bragg spectrum) (repeatable)")
+	return c
+}
+
+// momentumUnits are the accepted spellings of an inverse length (factor to 1/m).
+var momentumUnits = map[string]float64{"1/m": 1, "1/cm": 1e2, "1/mm": 1e3, "1/um": 1e6, "1/µm": 1e6, "1/μm": 1e6, "1/nm": 1e9}
+
+// parseMomentum reads a momentum in k_R (plain number) or with a unit of
+// inverse length (needs k_R > 0).
+func parseMomentum(flag, s string, kR float64) (float64, error) {
+	t := strings.TrimSpace(s)
+	if v, err := strconv.ParseFloat(t, 64); err == nil {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return 0, usagef("--%s %q: not a finite number", flag, s)
+		}
+		return v, nil
+	}
+	for u, f := range momentumUnits {
+		if strings.HasSuffix(t, u) {
+			v, err := strconv.ParseFloat(strings.TrimSpace(strings.TrimSuffix(t, u)), 64)
+			if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+				return 0, usagef("--%s %q: not a finite number", flag, s)
+			}
+			if !(kR > 0) {
+				return 0, usagef("--%s %q: a momentum with a unit needs a scheme (k_R); with a direct model give it in k_R", flag, s)
+			}
+			return v * f / kR, nil
+		}
+	}
+	return 0, usagef("--%s %q: a number in k_R or a number with 1/m, 1/cm, 1/mm, 1/um, 1/nm", flag, s)
+}
+
+// parseQGrid reads LO:HI:N (N ≥ 1 points, LO ≤ HI).
+func parseQGrid(s string, kR float64) ([]float64, error) {
+	parts := strings.Split(s, ":")
+	if len(parts) != 3 {
+		return nil, usagef("--q %q: give LO:HI:N, e.g. -3:3:241", s)
+	}
+	lo, err := parseMomentum("q", parts[0], kR)
+	if err != nil {
+		return nil, err
+	}
+	hi, err := parseMomentum("q", parts[1], kR)
+	if err != nil {
+		return nil, err
+	}
+	n, err := strconv.Atoi(strings.TrimSpace(parts[2]))
+	if err != nil || n < 1 || n > 100000 {
+		return nil, usagef("--q %q: N must be an integer from 1 to 100000", s)
+	}
+	if hi < lo || (n == 1 && hi != lo) {
+		return nil, usagef("--q %q: need LO ≤ HI (and LO = HI for N = 1)", s)
+	}
+	q := make([]float64, n)
+	for i := range q {
+		if n == 1 {
+			q[i] = lo
+		} else {
+			q[i] = lo + (hi-lo)*float64(i)/float64(n-1)
+		}
+	}
+	return q, nil
+}
+
+// parseDuration reads a duration in ħ/E_R (plain number) or with a unit of
+// time (needs a scheme: E_R > 0).
+func parseDuration(s string, timeUnit float64, haveER bool) (float64, error) {
+	t := strings.TrimSpace(s)
+	v, err := strconv.ParseFloat(t, 64)
+	if err != nil {
+		if !haveER {
+			return 0, usagef("--bragg-duration %q: a duration with a unit needs a scheme (E_R); with a direct model give it in ħ/E_R", s)
+		}
+		si, err := parseQuantity(t, KindTime)
+		if err != nil {
+			return 0, usagef("--bragg-duration %q: %v", s, err)
+		}
+		v = si / timeUnit
+	}
+	if !(v > 0) || math.IsInf(v, 0) {
+		return 0, usagef("--bragg-duration %q: must be positive and finite", s)
+	}
+	return v, nil
+}
+
+func excitationSubtitle(l phases.Lab, u phases.Uniform) string {
+	where := "direct model"
+	if l.Scheme != nil {
+		where = l.Scheme.Title()
+	}
+	return fmt.Sprintf("%s: Ω = %.4g E_R, δ = %.4g E_R, n·g↑↑ = %.4g, n·g↓↓ = %.4g, n·g↑↓ = %.4g E_R", where, u.Omega, u.Delta, u.Guu, u.Gdd, u.Gud)
+}
+
+func excitationNotes(r phases.ExcitationResult, p phases.ExcitationProblem) []string {
+	var n []string
+	if r.Metastable {
+		n = append(n, fmt.Sprintf("note: the %s state is not the lowest here (plane wave %.8g E_R, stripe %.8g E_R per particle)", r.State.Phase, r.PlaneWaveEnergy, r.StripeEnergy))
+	}
+	if p.Branch == phases.BranchGround && r.Variational.Phase != r.State.Phase {
+		n = append(n, fmt.Sprintf("note: the two-wave variational ansatz gives %s; the stripe with harmonics is lower, so the mean-field ground state is %s", r.Variational.Phase, r.State.Phase))
+	}
+	switch r.Status {
+	case phases.DynamicallyUnstable:
+		n = append(n, fmt.Sprintf("warning: dynamically unstable: complex frequencies, largest growth rate %.4g E_R/ħ", r.MaxGrowth))
+	case phases.EnergeticallyUnstable:
+		n = append(n, "warning: energetically unstable: a mode of negative energy (the state is not a local energy minimum)")
+	case phases.HarmonicsNotConverged:
+		n = append(n, fmt.Sprintf("warning: the stripe basis did not converge (last change %.3g E_R); raise --harmonics", r.State.HarmonicChange))
+	}
+	if p.Bragg != nil {
+		n = append(n, "Bragg beams are lasers: follow your local laser-safety rules and your lab's safety officer; this calculation says nothing about beam powers.")
+	}
+	n = append(n, "uniform mean-field theory (Bogoliubov–de Gennes) at T = 0; a trap adds discrete modes and broadens the Bragg lines.")
+	return n
+}

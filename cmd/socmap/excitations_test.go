@@ -1,0 +1,77 @@
+package main
+
+import (
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// Bad input to excitations: one line naming the flag, exit 2, no file.
+func TestExcitationsBadInput(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "x.h5")
+	base := []string{"excitations", "--omega-er", "2.6", "--G1", "1", "--G2", "0.1", "--out", out}
+	for _, c := range []struct {
+		args []string
+		flag string
+	}{
+		{[]string{"--q=1:0:10"}, "--q"},
+		{[]string{"--q=0:1:0"}, "--q"},
+		{[]string{"--q=0:NaN:10"}, "--q"},
+		{[]string{"--q=0:1"}, "--q"},
+		{[]string{"--q=0 1/um:1 1/um:5"}, "--q"},
+		{[]string{"--branch", "roton"}, "--branch"},
+		{[]string{"--branch", "stripe", "--omega-er", "8"}, "--branch"},
+		{[]string{"--q-axis", "w"}, "--q-axis"},
+		{[]string{"--bragg-q", "1", "--bragg-duration", "-3"}, "--bragg-duration"},
+		{[]string{"--bragg-q", "1", "--bragg-duration", "2 ms"}, "--bragg-duration"},
+		{[]string{"--bragg-duration", "20"}, "--bragg-duration"},
+	} {
+		code, _, stderr := runArgs(t, append(append([]string{}, base...), c.args...)...)
+		if code != 2 || !strings.Contains(stderr, c.flag) || strings.Count(strings.TrimSpace(stderr), "\n") != 0 {
+			t.Errorf("%v: exit %d, stderr %q (want 2 and one line naming %s)", c.args, code, stderr, c.flag)
+		}
+		if _, err := os.Stat(out); err == nil {
+			t.Fatalf("%v: output file written", c.args)
+		}
+	}
+}
+
+// The JSON document has the keys the issue names, with the stripe's two
+// gapless branches, and the files appear.
+func TestExcitationsJSONAndFiles(t *testing.T) {
+	dir := t.TempDir()
+	outs := []string{"e.h5", "e.png", "e.csv", "e.json"}
+	args := []string{"excitations", "--omega-er", "1", "--G1", "1", "--G2", "0.1", "--q=-2:2:41", "--bragg-q", "1", "--json"}
+	for _, o := range outs {
+		args = append(args, "--out", filepath.Join(dir, o))
+	}
+	code, stdout, stderr := runArgs(t, args...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	var doc map[string]any
+	if err := json.Unmarshal([]byte(stdout), &doc); err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range []string{"q_over_kR", "omega_over_ER", "phase", "k1_over_kR", "c_plus_x_over_hbar_kR_per_m",
+		"c_minus_x_over_hbar_kR_per_m", "c_y_over_hbar_kR_per_m", "roton_q_over_kR", "roton_gap_over_ER", "unstable", "max_growth_over_ER", "bragg"} {
+		if _, ok := doc[k]; !ok {
+			t.Errorf("JSON lacks %q", k)
+		}
+	}
+	if doc["phase"] != "stripe" || doc["roton_gap_over_ER"] != nil || len(doc["gapless_branches"].([]any)) != 2 {
+		t.Errorf("phase %v roton %v gapless %v", doc["phase"], doc["roton_gap_over_ER"], doc["gapless_branches"])
+	}
+	om := doc["omega_over_ER"].([]any)
+	if len(om) != 41 || len(om[0].([]any)) != 6 {
+		t.Errorf("omega_over_ER: %d momenta × %d bands", len(om), len(om[0].([]any)))
+	}
+	for _, o := range outs {
+		if st, err := os.Stat(filepath.Join(dir, o)); err != nil || st.Size() == 0 {
+			t.Errorf("%s not written: %v", o, err)
+		}
+	}
+}

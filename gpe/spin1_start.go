@@ -1,0 +1,325 @@
+package gpe
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"math/cmplx"
+	"math/rand/v2"
+
+	"socmap/dispersion"
+	"socmap/phases/label"
+)
+
+// Spin1Guess is an initial three-component state: a superposition of
+// lowest-branch plane waves at momenta K (snapped to the grid) with
+// amplitudes Amp (nil: equal), or complex Gaussian noise (Random, Seed). In a
+// harmonic trap it is multiplied by a Gaussian envelope (widths: the larger
+// of the oscillator length and half the Thomas–Fermi radius of c0).
+type Spin1Guess struct {
+	Name   string
+	K      []float64
+	Amp    []complex128
+	Random bool
+	Seed   uint64
+}
+
+// Build makes the state on p's grid, normalised to p.Model.Norm; d supplies
+// the lowest-branch spinors.
+func (gs Spin1Guess) Build(p Spin1Problem, d dispersion.Spin1Model) (*Spin1State, error) {
+	g := p.Grid
+	st := NewSpin1State(g)
+	if gs.Random {
+		r := rand.New(rand.NewPCG(gs.Seed, 0x5917))
+		for c := 0; c < 3; c++ {
+			for i := range st.Psi[c] {
+				st.Psi[c][i] = complex(r.NormFloat64(), r.NormFloat64())
+			}
+		}
+	} else {
+		if len(gs.K) == 0 {
+			return nil, errors.New("gpe: spin-1 guess without momenta")
+		}
+		for w, k0 := range gs.K {
+			k := g.SnapK(k0)
+			_, v := d.Bands3(k)
+			a := complex(1, 0)
+			if w < len(gs.Amp) {
+				a = gs.Amp[w]
+			}
+			for idx := 0; idx < g.Size; idx++ {
+				i, _, _ := g.Coords(idx)
+				ph := a * cmplx.Exp(complex(0, k*g.X[0][i]))
+				for c := 0; c < 3; c++ {
+					st.Psi[c][idx] += ph * complex(v[0][c], 0)
+				}
+			}
+		}
+	}
+	if p.Model.Potential.Kind == Harmonic {
+		m2 := Model{Guu: p.Model.C0, Potential: p.Model.Potential, Norm: p.Model.Norm}
+		mu := ThomasFermiMu(g.Dim, m2)
+		var w [3]float64
+		for a := 0; a < g.Dim; a++ {
+			om := p.Model.Potential.AngularFreq[a]
+			w[a] = math.Max(OscillatorLength(om), math.Sqrt(math.Max(mu, 0))/om)
+		}
+		for idx := 0; idx < g.Size; idx++ {
+			i, j, l := g.Coords(idx)
+			x := [3]float64{g.X[0][i], g.X[1][j], g.X[2][l]}
+			s := 0.0
+			for a := 0; a < g.Dim; a++ {
+				s += x[a] * x[a] / (2 * w[a] * w[a])
+			}
+			f := complex(math.Exp(-s), 0)
+			for c := 0; c < 3; c++ {
+				st.Psi[c][idx] *= f
+			}
+		}
+	}
+	sum := 0.0
+	for c := 0; c < 3; c++ {
+		for _, v := range st.Psi[c] {
+			sum += abs2(v)
+		}
+	}
+	sum *= g.DV
+	if !(sum > 0) {
+		return nil, errors.New("gpe: spin-1 guess has zero norm (its waves cancel on this grid)")
+	}
+	f := complex(math.Sqrt(p.Model.Norm/sum), 0)
+	for c := 0; c < 3; c++ {
+		for i := range st.Psi[c] {
+			st.Psi[c][i] *= f
+		}
+	}
+	return st, nil
+}
+
+// DefaultSpin1Guesses: a plane wave at each minimum of the lowest branch of
+// d, an equal superposition of each pair of minima, all three minima with
+// relative phases 0 and π/2 when there are three, and a random state with
+// seed 1.
+func DefaultSpin1Guesses(d dispersion.Spin1Model) []Spin1Guess {
+	info, err := d.Analyze3()
+	var gs []Spin1Guess
+	if err == nil {
+		ks := make([]float64, len(info.Minima))
+		for i, m := range info.Minima {
+			ks[i] = m.K
+			gs = append(gs, Spin1Guess{Name: fmt.Sprintf("plane-wave k=%+.4f", m.K), K: []float64{m.K}})
+		}
+		for i := 0; i < len(ks); i++ {
+			for j := i + 1; j < len(ks); j++ {
+				gs = append(gs, Spin1Guess{Name: fmt.Sprintf("stripe k=%+.4f,%+.4f", ks[i], ks[j]), K: []float64{ks[i], ks[j]}})
+			}
+		}
+		if len(ks) == 3 {
+			gs = append(gs, Spin1Guess{Name: "three minima", K: ks})
+			gs = append(gs, Spin1Guess{Name: "three minima, phase π/2", K: ks, Amp: []complex128{1, 1, 1i}})
+		}
+	}
+	gs = append(gs, Spin1Guess{Name: "random seed=1", Random: true, Seed: 1})
+	return gs
+}
+
+// Spin1Observables of a state.
+type Spin1Observables struct {
+	Energies    Spin1Energies
+	Populations [3]float64 // fractions in m = +1, 0, −1
+	Fz          float64    // ∫F_z/N
+	// FPerp: √(∫|F_+|²/∫n²), the density-weighted rms transverse
+	// magnetisation per particle (|⟨F_x + iF_y⟩| for a uniform spinor; gauge
+	// independent for equally spaced K_m).
+	FPerp float64
+	// DensityRMS: √(⟨n²⟩/⟨n⟩² − 1) over the box (a measure of density
+	// modulation; meaningful as such only without a trap).
+	DensityRMS float64
+	// Kx, MomentumX[c]: fraction of atoms of component c at k_x = Kx[i]
+	// (ascending), summed over k_⊥.
+	Kx        []float64
+	MomentumX [3][]float64
+	// Peaks: the k_x of the local maxima of the total distribution with
+	// at least 1e-6 of the atoms, and their weights, largest first.
+	PeakK, PeakWeight []float64
+	Phase             label.Phase
+}
+
+// Spin1Observe computes the observables of st; the phase follows the rule
+// of phases.Spin1Variational on the momentum peaks: peaks of weight ≥
+// th.StripeMinority count (≥ 1e-6 when the density is uniform to 1 % rms in
+// a box); one is single-minimum when d has one minimum, else plane-wave; two
+// a stripe (antiferromagnetic if uniform); three stripe-3
+// (broken-axisymmetry if uniform). A state that did not converge is
+// NotConverged.
+func Spin1Observe(p Spin1Problem, r *Spin1Result, d dispersion.Spin1Model, th label.Thresholds) (*Spin1Observables, error) {
+	g := p.Grid
+	st := r.State
+	ob := &Spin1Observables{Energies: r.Energies, Populations: r.Energies.Populations}
+	var fz, fp2, n1, n2 float64
+	for i := 0; i < g.Size; i++ {
+		a, b, c := st.Psi[0][i], st.Psi[1][i], st.Psi[2][i]
+		na, nb, nc := abs2(a), abs2(b), abs2(c)
+		n := na + nb + nc
+		fz += na - nc
+		f := complex(math.Sqrt2, 0) * (cmplx.Conj(a)*b + cmplx.Conj(b)*c)
+		fp2 += abs2(f)
+		n1 += n
+		n2 += n * n
+	}
+	ob.Fz = fz / n1
+	if n2 > 0 {
+		ob.FPerp = math.Sqrt(fp2 / n2)
+		ob.DensityRMS = math.Sqrt(math.Max(0, n2*float64(g.Size)/(n1*n1)-1))
+	}
+	// momentum distribution along x
+	e, err := newSpin1Engine(g, p.Model, 0)
+	if err != nil {
+		return nil, err
+	}
+	defer e.close()
+	nx := g.N[0]
+	order := make([]int, nx)
+	for j := range order {
+		order[j] = (j + nx/2) % nx // ascending k: FFT index of the j-th smallest
+	}
+	ob.Kx = make([]float64, nx)
+	for j, o := range order {
+		ob.Kx[j] = g.K[0][o]
+	}
+	tot := make([]float64, nx)
+	all := 0.0
+	for c := 0; c < 3; c++ {
+		copy(e.tmp[c], st.Psi[c])
+		e.tr.Forward(e.tmp[c])
+		ob.MomentumX[c] = make([]float64, nx)
+		for idx, v := range e.tmp[c] {
+			i, _, _ := g.Coords(idx)
+			w := abs2(v)
+			all += w
+			j := (i - nx/2 + nx) % nx // inverse of order
+			ob.MomentumX[c][j] += w
+			tot[j] += w
+		}
+	}
+	for c := 0; c < 3; c++ {
+		for j := range ob.MomentumX[c] {
+			ob.MomentumX[c][j] /= all
+		}
+	}
+	for j := range tot {
+		tot[j] /= all
+	}
+	type pk struct{ k, w float64 }
+	var peaks []pk
+	for j := 0; j < nx; j++ {
+		l, rr := tot[(j+nx-1)%nx], tot[(j+1)%nx]
+		if tot[j] >= 1e-6 && tot[j] >= l && tot[j] > rr {
+			// a peak's weight: it and its two neighbours (finite boxes spread a momentum)
+			peaks = append(peaks, pk{ob.Kx[j], tot[j] + l + rr})
+		}
+	}
+	for i := 1; i < len(peaks); i++ {
+		for j := i; j > 0 && peaks[j].w > peaks[j-1].w; j-- {
+			peaks[j], peaks[j-1] = peaks[j-1], peaks[j]
+		}
+	}
+	for _, q := range peaks {
+		ob.PeakK = append(ob.PeakK, q.k)
+		ob.PeakWeight = append(ob.PeakWeight, q.w)
+	}
+	if r.Status != Converged {
+		ob.Phase = label.NotConverged
+		return ob, nil
+	}
+	uniform := p.Model.Potential.Kind == NoPotential && ob.DensityRMS < 0.01
+	floor := th.StripeMinority
+	if uniform {
+		floor = 1e-6
+	}
+	count := 0
+	for _, q := range peaks {
+		if q.w >= floor {
+			count++
+		}
+	}
+	nm := 1
+	if info, err := d.Analyze3(); err == nil {
+		nm = len(info.Minima)
+	}
+	switch {
+	case count <= 1 && nm == 1:
+		ob.Phase = label.SingleMinimum
+	case count <= 1:
+		ob.Phase = label.PlaneWave
+	case count == 2 && uniform:
+		ob.Phase = label.Antiferromagnetic
+	case count == 2:
+		ob.Phase = label.Stripe
+	case uniform:
+		ob.Phase = label.BrokenAxisymmetry
+	default:
+		ob.Phase = label.Stripe3
+	}
+	return ob, nil
+}
+
+// Spin1StartReport is the outcome of one start of Spin1MultiStart.
+type Spin1StartReport struct {
+	Name       string
+	Status     Status
+	Energy     float64
+	Residual   float64
+	SplitSteps int
+	Iterations int
+}
+
+// Spin1MultiResult is the outcome of Spin1MultiStart.
+type Spin1MultiResult struct {
+	Best      *Spin1Result // lowest converged start (lowest of all if none converged)
+	BestIndex int
+	Starts    []Spin1StartReport
+	Spread    float64 // highest − lowest converged energy per particle, E_R
+	Converged int
+}
+
+// Spin1MultiStart solves p from each guess (DefaultSpin1Guesses(d) when
+// guesses is empty) and keeps the lowest energy among the converged starts;
+// a tie within 1e-12 E_R keeps the earlier start. Every start is reported.
+func Spin1MultiStart(p Spin1Problem, d dispersion.Spin1Model, guesses []Spin1Guess, s *Settings) (*Spin1MultiResult, error) {
+	if len(guesses) == 0 {
+		guesses = DefaultSpin1Guesses(d)
+	}
+	mr := &Spin1MultiResult{BestIndex: -1}
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for i, gs := range guesses {
+		st, err := gs.Build(p, d)
+		if err != nil {
+			return nil, err
+		}
+		r, err := Spin1Solve(p, st, s)
+		if err != nil {
+			return nil, err
+		}
+		rep := Spin1StartReport{Name: gs.Name, Status: r.Status, Energy: r.Energies.Total, Residual: r.Residual,
+			SplitSteps: r.SplitSteps, Iterations: r.Iterations}
+		mr.Starts = append(mr.Starts, rep)
+		conv := r.Status == Converged
+		if conv {
+			mr.Converged++
+			lo, hi = math.Min(lo, rep.Energy), math.Max(hi, rep.Energy)
+		}
+		better := mr.Best == nil || (conv && mr.Best.Status != Converged) ||
+			(conv == (mr.Best.Status == Converged) && rep.Energy < mr.Best.Energies.Total-1e-12)
+		if better {
+			mr.Best, mr.BestIndex = r, i
+		}
+	}
+	if mr.Best == nil {
+		return nil, errors.New("gpe: no starts")
+	}
+	if mr.Converged >= 2 {
+		mr.Spread = hi - lo
+	}
+	return mr, nil
+}
