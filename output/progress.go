@@ -48,7 +48,9 @@ type ProgressOptions struct {
 	// Terminal forces the bar (true) or plain lines (false); nil: decided
 	// from the writer (a character device is a terminal).
 	Terminal *bool
-	// Every is the interval between plain lines. Default 10 s.
+	// Every is the interval between plain lines. Default: the environment
+	// variable SOCMAP_PROGRESS_INTERVAL (a Go duration such as "30s" or
+	// "1m", for logs that want more or fewer lines), else 10 s.
 	Every time.Duration
 	// Now is the clock (tests). Default time.Now.
 	Now func() time.Time
@@ -75,6 +77,9 @@ func NewProgress(w io.Writer, what string, total int, quiet bool, o *ProgressOpt
 	}
 	if opt.Every <= 0 {
 		opt.Every = 10 * time.Second
+		if d, err := time.ParseDuration(os.Getenv("SOCMAP_PROGRESS_INTERVAL")); err == nil && d > 0 {
+			opt.Every = d
+		}
 	}
 	if opt.Now == nil {
 		opt.Now = time.Now
