@@ -85,6 +85,7 @@ func completionOuts() map[string][]string {
 		"map": figs(".h5", ".json"), "merge": figs(".h5", ".json"),
 		"compare": {"json", "txt"}, "verify": figs(".h5", ".json"), "calibrate": figs(".h5", ".json"),
 		"excitations": figs(".h5", ".json", ".csv"), "sequence": {"h5", "png", "gif", "json"},
+		"design": {"h5", "png", "json"},
 	}
 }
 

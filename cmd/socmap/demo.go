@@ -6,6 +6,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -20,6 +21,9 @@ var demoPlan string
 //
 //go:embed plans/sequence.toml
 var demoSequence string
+
+//go:embed plans/design.toml
+var designPlan string
 
 // calibrateExample is synthetic Doppler-slope data of our own for the demo's
 // calibrate step (same content as testdata/calibrate_example.csv).
@@ -70,6 +74,12 @@ non-empty --dir is refused unless --force is given.`,
 			}); err != nil {
 				return err
 			}
+			if err := output.WriteFileAtomic(p("design.toml"), true, func(w io.Writer) error {
+				_, err := io.WriteString(w, designPlan)
+				return err
+			}); err != nil {
+				return err
+			}
 			steps := []demoStep{
 				{[]string{"scheme", "shake", "--out", p("shake.h5")}, "shake.txt", "effective parameters of the shaking scheme"},
 				{[]string{"scheme", "raman", "--out", p("raman.h5")}, "raman.txt", "the Raman scheme used for comparison"},
@@ -80,7 +90,8 @@ non-empty --dir is refused unless --force is given.`,
 				{[]string{"ground", "--dims", "1", "--atoms", "2e4", "--trap", "20,200,200", "--out", p("ground-trap.h5"), "--out", p("ground-trap.png")}, "ground-trap.txt", "GPE ground state of 2e4 atoms in an elongated trap"},
 				{[]string{"verify", "--out", p("verify.h5"), "--out", p("verify.png")}, "verify.txt", "shaken dynamics without the cycle average: measured k_t, Doppler slope, Rabi frequency"},
 				{[]string{"calibrate", "--data", p("calibrate-example.csv"), "--out", p("calibrate.png")}, "calibrate.txt", "recoil and phase lag fitted from (synthetic) Doppler slopes"},
-				{[]string{"sequence", "--out", p("sequence.h5"), "--out", p("sequence.png"), "--out", p("sequence.gif")}, "sequence.txt", "the coupling ramped on in real time, hold, release: can the stripes be seen?"},
+				{[]string{"sequence", "--out", p("sequence.h5"), "--out", p("sequence.png"), "--out", p("sequence.gif"), "--plan", p("sequence.toml")}, "sequence.txt", "the coupling ramped on in real time, hold, release: can the stripes be seen?"},
+				{[]string{"design", "--evaluations", "1500", "--out", p("design.h5"), "--out", p("design.png"), "--plan", p("design.toml")}, "design.txt", "inverse design: the most robust stripe within the example's hardware ranges"},
 			}
 			if err := output.WriteFileAtomic(p("sequence.toml"), true, func(w io.Writer) error {
 				_, err := io.WriteString(w, demoSequence)
@@ -91,11 +102,10 @@ non-empty --dir is refused unless --force is given.`,
 			var report strings.Builder
 			fmt.Fprintf(&report, "socmap %s demo — built-in example plan (invented setting, see plan.toml)\n\n", version)
 			for _, s := range steps {
-				plan := planPath
-				if s.args[0] == "sequence" {
-					plan = p("sequence.toml")
+				full := append(append([]string{}, s.args...), "--force")
+				if !slices.Contains(s.args, "--plan") {
+					full = append(full, "--plan", planPath)
 				}
-				full := append(append([]string{}, s.args...), "--plan", plan, "--force")
 				if !g.quiet {
 					fmt.Fprintf(os.Stderr, "demo: socmap %s\n", strings.Join(full, " "))
 				}
@@ -127,6 +137,8 @@ non-empty --dir is refused unless --force is given.`,
 				{"calibrate.png, .txt", "fit of k_t(θ) = k_max cos(θ − θ_lag) to those data"},
 				{"sequence.toml", "the example sequence (ramp, hold, time of flight)"},
 				{"sequence.png, .gif, .h5, .txt", "real-time sequence: overlap, Ω, energy against time, final image and verdict; density animation; snapshots"},
+				{"design.toml", "example design plan: the [design] table with free ranges, constraints, objective"},
+				{"design.png, .h5, .txt", "inverse design: best distinct candidates, margins, binding constraint, check; every evaluation; trade-off plot"},
 			}
 			for _, f := range files {
 				fmt.Fprintf(&report, "  %-32s %s\n", f.name, f.what)

@@ -64,8 +64,7 @@ states. Quantities take units as text: "40 G/cm", "3 kHz", "90 deg", "790 nm".`,
 	pf.BoolVar(&g.quiet, "quiet", false, "no progress output on stderr")
 	pf.BoolVar(&g.force, "force", false, "overwrite existing output files")
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error { return usageError{err.Error()} })
-	root.AddCommand(newSchemeCmd(), newBandsCmd(), newGroundCmd(), newMapCmd(), newCompareCmd(), newVerifyCmd(), newCalibrateCmd(), newMergeCmd(), newInspectCmd(), newDemoCmd(), newExcitationsCmd())
-	root.AddCommand(newSequenceCmd())
+	root.AddCommand(newSchemeCmd(), newBandsCmd(), newGroundCmd(), newMapCmd(), newCompareCmd(), newVerifyCmd(), newCalibrateCmd(), newDesignCmd(), newMergeCmd(), newInspectCmd(), newDemoCmd(), newExcitationsCmd(), newSequenceCmd())
 	registerCompletions(root) // complete.go
 	return root
 }

@@ -28,11 +28,27 @@ import (
 // command does not use is ignored (one plan serves every command). Flags given
 // on the command line override the plan.
 
+// planTables are top-level tables that are not a group of flags but hold
+// the settings of one command, which decodes them itself (e.g. [design]).
+// Every command checks their keys with the given function and otherwise
+// leaves them out of the flag settings.
+var planTables = map[string]func(map[string]any) error{}
+
 // planSettings flattens a decoded plan into key → text; an array is
 // joined with commas in out and kept element by element in lists (for
 // repeatable flags).
 func planSettings(data map[string]any, prefix string, out map[string]string, lists map[string][]string) error {
 	for k, v := range data {
+		if check, ok := planTables[k]; ok && prefix == "" {
+			t, isTable := v.(map[string]any)
+			if !isTable {
+				return fmt.Errorf("%q must be a table ([%s])", k, k)
+			}
+			if err := check(t); err != nil {
+				return fmt.Errorf("[%s]: %v", k, err)
+			}
+			continue
+		}
 		switch t := v.(type) {
 		case map[string]any:
 			if err := planSettings(t, k, out, lists); err != nil {
