@@ -4,7 +4,7 @@ PY      := /usr/bin/python3
 BIN     := bin/socmap
 export CGO_ENABLED := 1
 
-.PHONY: all deps build test test-cluster refs vet lint race h5check demo bench clean
+.PHONY: all deps build test test-cluster refs vet lint race fuzz h5check demo bench clean
 
 all: build
 
@@ -27,6 +27,21 @@ lint: vet
 # solver threads, FFTW plan cache, the HDF5 lock, verify workers).
 race: deps
 	$(GO) test -race -short -count=1 -timeout 30m ./phases/... ./gpe/... ./output/...
+
+# Fuzz tests, each for a bounded time (FUZZTIME, default 10s): the quantity
+# parser, axis specs, the plan reader, the calibration CSV reader, and
+# inspect/read/merge of damaged map files. Seeds are in the packages'
+# testdata/fuzz/ folders (go test runs them on every run as well).
+FUZZTIME ?= 10s
+FUZZ := ./dispersion:FuzzParseQuantity ./dispersion:FuzzCalibrationCSV ./phases:FuzzParseAxis \
+	./cmd/socmap:FuzzReadPlan ./output:FuzzDamagedMapFile
+fuzz: deps
+	@for t in $(FUZZ); do \
+		pkg=$${t%%:*}; name=$${t##*:}; \
+		echo "fuzz $$name ($$pkg, $(FUZZTIME))"; \
+		$(GO) test -run '^$$' -fuzz "^$$name\$$" -fuzztime $(FUZZTIME) $$pkg > /tmp/socmap-fuzz-$$$$.log 2>&1 || \
+			{ tail -30 /tmp/socmap-fuzz-$$$$.log; rm -f /tmp/socmap-fuzz-$$$$.log; exit 1; }; \
+	done; rm -f /tmp/socmap-fuzz-$$$$.log
 
 # Reference values from outside libraries (numpy/scipy), regenerated or
 # recomputed and compared on every run.
@@ -60,6 +75,7 @@ test: deps lint refs
 	CGO_ENABLED=0 $(GO) build ./gpe/... && CGO_ENABLED=0 $(GO) test -count=1 ./gpe/fft/
 	$(GO) test -count=1 -short -timeout 30m -tags purego ./gpe/...
 	$(MAKE) --no-print-directory race
+	$(MAKE) --no-print-directory fuzz
 	$(MAKE) --no-print-directory h5check
 	@echo "make test: all checks passed"
 

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strconv"
 	"strings"
 )
 
@@ -116,17 +117,31 @@ func (l Sublevel) String() string {
 	return fmt.Sprintf("|%d,%+d>", l.F, l.M)
 }
 
-// ParseSublevel reads "F,mF", e.g. "1,-1".
+// ParseSublevel reads "F,mF", e.g. "1,-1", or the ket "|1,-1>" that
+// Sublevel.String writes.
 func ParseSublevel(s string) (Sublevel, error) {
 	var l Sublevel
-	parts := strings.Split(strings.TrimSpace(s), ",")
+	// The ket notation of Sublevel.String ("|1,-1>", also "|1,-1⟩") is
+	// accepted as well as the bare "F,mF".
+	t := strings.TrimSpace(s)
+	if strings.HasPrefix(t, "|") {
+		if k, ok := strings.CutSuffix(t[1:], ">"); ok {
+			t = k
+		} else if k, ok := strings.CutSuffix(t[1:], "⟩"); ok {
+			t = k
+		} else {
+			return l, fmt.Errorf("%q: a ket |F,mF> needs its closing '>'", s)
+		}
+	}
+	parts := strings.Split(t, ",")
 	if len(parts) != 2 {
 		return l, fmt.Errorf("%q is not \"F,mF\" (e.g. \"1,-1\")", s)
 	}
-	if _, err := fmt.Sscanf(strings.TrimSpace(parts[0]), "%d", &l.F); err != nil {
+	var err error
+	if l.F, err = strconv.Atoi(strings.TrimSpace(parts[0])); err != nil {
 		return l, fmt.Errorf("%q: F is not an integer", s)
 	}
-	if _, err := fmt.Sscanf(strings.TrimSpace(strings.TrimPrefix(parts[1], "+")), "%d", &l.M); err != nil {
+	if l.M, err = strconv.Atoi(strings.TrimPrefix(strings.TrimSpace(parts[1]), "+")); err != nil {
 		return l, fmt.Errorf("%q: m_F is not an integer", s)
 	}
 	return l, nil

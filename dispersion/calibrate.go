@@ -1,6 +1,7 @@
 package dispersion
 
 import (
+	"bufio"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -208,12 +209,18 @@ func SlopesFromPoints(phase, detHz, velMMS []float64) (phases, slopes, errs []fl
 //	phase_deg, slope_hz_per_mm_s               (one Doppler slope per phase)
 //	phase_deg, detuning_hz, velocity_mm_s      (resonance positions; one slope per phase is fitted)
 //
-// (columns in any order, extra columns ignored, lines starting with # are
-// comments). It returns the phases (rad) and slopes (Hz per mm/s of the RF
-// resonance frequency against velocity). Non-numeric cells, NaN and
-// infinities are refused with the line and column named.
+// (columns in any order, lines starting with # are comments; a UTF-8
+// byte-order mark, as spreadsheets write it, is dropped). It returns the
+// phases (rad) and slopes (Hz per mm/s of the RF resonance frequency
+// against velocity). A column of neither form, a row with more or fewer
+// cells than the header, non-numeric cells, NaN and infinities are
+// refused with the line and column named.
 func ReadCalibrationCSV(r io.Reader) (theta, slopes []float64, err error) {
-	cr := csv.NewReader(r)
+	br := bufio.NewReader(r)
+	if b, e := br.Peek(3); e == nil && string(b) == "\uFEFF" {
+		br.Discard(3)
+	}
+	cr := csv.NewReader(br)
 	cr.Comment = '#'
 	cr.TrimLeadingSpace = true
 	cr.FieldsPerRecord = -1
@@ -245,8 +252,14 @@ func ReadCalibrationCSV(r io.Reader) (theta, slopes []float64, err error) {
 	default:
 		return nil, nil, badData("header %q: need columns phase_deg,slope_hz_per_mm_s or phase_deg,detuning_hz,velocity_mm_s", strings.Join(recs[0], ","))
 	}
+	if len(recs[0]) != len(names) || len(col) != len(names) {
+		return nil, nil, badData("header %q: extra or repeated column; want exactly %s (any order)", strings.Join(recs[0], ","), strings.Join(names, ","))
+	}
 	cols := make([][]float64, len(names))
 	for li, rec := range recs[1:] {
+		if len(rec) > len(names) {
+			return nil, nil, badData("data row %d: %d cells, the header has %d columns", li+1, len(rec), len(names))
+		}
 		for k, n := range names {
 			ci := col[n]
 			if ci >= len(rec) {

@@ -98,6 +98,10 @@ type VerifySettings struct {
 	Refine int
 	// MaxWindows refuses interrogations longer than this (default 4000).
 	MaxWindows int
+	// Progress, if set, is called after every simulation with the number
+	// done and the total (the coarse scans' and the fine scans' runs),
+	// from the simulating goroutines one at a time. Default nil.
+	Progress func(done, total int)
 }
 
 func (s *VerifySettings) defaults(d *ShakeDrive) error {
@@ -295,6 +299,7 @@ func Verify(p dispersion.Shake, s VerifySettings) (*VerifyResult, error) {
 		}
 	}
 	defer closeAll()
+	var progressDone, progressTotal int // guarded by mu
 	runAll := func(jobs []*verifyJob) {
 		ch := make(chan *verifyJob)
 		var wg sync.WaitGroup
@@ -304,6 +309,12 @@ func Verify(p dispersion.Shake, s VerifySettings) (*VerifyResult, error) {
 				defer wg.Done()
 				for j := range ch {
 					sim(j)
+					if s.Progress != nil {
+						mu.Lock()
+						progressDone++
+						s.Progress(progressDone, progressTotal)
+						mu.Unlock()
+					}
 				}
 			}()
 		}
@@ -331,6 +342,7 @@ func Verify(p dispersion.Shake, s VerifySettings) (*VerifyResult, error) {
 			jobs = append(jobs, j)
 		}
 	}
+	progressTotal = len(jobs) + nv*s.FinePoints
 	runAll(jobs)
 	fine := make([][]*verifyJob, nv)
 	jobs = jobs[:0]

@@ -1,6 +1,7 @@
 package output
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -69,8 +70,10 @@ type mapDatasets struct {
 	obs         []*h5.Dataset
 }
 
-// layoutMap creates /map in f with every dataset allocated (phase and done
-// 0, observables NaN) and the map's attributes.
+// layoutMap creates /map in f with every dataset allocated (not yet
+// written: the caller writes every element, ds.fill from memory or
+// ds.initialise with phase and done 0, observables NaN) and the map's
+// attributes.
 func layoutMap(f *h5.File, spec MapSpec) (*mapDatasets, error) {
 	sw := spec.Sweep
 	shape := spec.shape()
@@ -113,24 +116,75 @@ func layoutMap(f *h5.File, spec MapSpec) (*mapDatasets, error) {
 	var err error
 	ds.phase, err = f.CreateDataset("/map/phase", h5.Int8, shape,
 		h5.Meta{Units: "dimensionless", Description: "phase code per point, rows y, columns x",
-			Attrs: []h5.Attr{{Name: "codes", Value: label.Legend()}}}, nil)
+			Attrs: []h5.Attr{{Name: "codes", Value: label.Legend()}}}, &h5.DatasetOptions{NoFill: true})
 	if err != nil {
 		return nil, err
 	}
 	ds.done, err = f.CreateDataset("/map/done", h5.Int8, shape,
-		h5.Meta{Units: "dimensionless", Description: "1 where the point was computed (resume mask)"}, nil)
+		h5.Meta{Units: "dimensionless", Description: "1 where the point was computed (resume mask)"}, &h5.DatasetOptions{NoFill: true})
 	if err != nil {
 		return nil, err
 	}
 	for _, o := range sw.Observables {
 		d, err := f.CreateDataset("/map/"+o.Name, h5.Float64, shape,
-			h5.Meta{Units: o.Unit, Description: o.Description}, &h5.DatasetOptions{Fill: math.NaN()})
+			h5.Meta{Units: o.Unit, Description: o.Description}, &h5.DatasetOptions{Fill: math.NaN(), NoFill: true})
 		if err != nil {
 			return nil, err
 		}
 		ds.obs = append(ds.obs, d)
 	}
 	return ds, nil
+}
+
+// initBlockBytes is the size of one block of initialise's writes: small
+// enough that cancellation is seen within a few milliseconds, large enough
+// that the per-call cost of HDF5 does not matter.
+const initBlockBytes = 1 << 20
+
+// initialise writes the initial values of an empty map into laid-out
+// datasets (phase and done 0, observables NaN), in blocks of whole rows (of
+// whole points for a one-axis map) of about initBlockBytes, and stops with
+// ctx's error between two blocks once ctx is done. A map of n points and k
+// observables is n·(2 + 8k) bytes: a large map takes seconds to minutes to
+// write, and a signal must end it promptly.
+func (ds *mapDatasets) initialise(ctx context.Context, spec MapSpec) error {
+	shape := spec.shape()
+	nx, ny := spec.Sweep.Shape()
+	rows, perRow := ny, nx // blocks of whole rows
+	if len(shape) == 1 {
+		rows, perRow = nx, 1
+	}
+	step := max(1, initBlockBytes/(8*perRow))
+	nan := make([]float64, min(step, rows)*perRow)
+	for i := range nan {
+		nan[i] = math.NaN()
+	}
+	zero := make([]int8, len(nan))
+	for r := 0; r < rows; r += step {
+		if err := ctx.Err(); err != nil {
+			return context.Cause(ctx)
+		}
+		n := min(step, rows-r)
+		var at, count []int
+		if len(shape) == 2 {
+			at, count = []int{r, 0}, []int{n, nx}
+		} else {
+			at, count = []int{r}, []int{n}
+		}
+		m := n * perRow
+		if err := ds.phase.WriteAt(at, count, zero[:m]); err != nil {
+			return err
+		}
+		if err := ds.done.WriteAt(at, count, zero[:m]); err != nil {
+			return err
+		}
+		for _, o := range ds.obs {
+			if err := o.WriteAt(at, count, nan[:m]); err != nil {
+				return err
+			}
+		}
+	}
+	return nil
 }
 
 // fillMap writes the whole of d into laid-out datasets.

@@ -22,7 +22,11 @@ type MergeResult struct {
 // two inputs is refused (overlap), even with equal values. Errors about the
 // inputs wrap ErrMapInput. Points that no input holds are listed in
 // Missing; the caller decides whether an incomplete map is acceptable.
-func MergeMaps(inputs []string) (*MergeResult, error) {
+func MergeMaps(inputs []string) (*MergeResult, error) { return MergeMapsProgress(inputs, nil) }
+
+// MergeMapsProgress is MergeMaps that calls progress (if not nil) after
+// each input is read, with the number read and the number of inputs.
+func MergeMapsProgress(inputs []string, progress func(done, total int)) (*MergeResult, error) {
 	if len(inputs) == 0 {
 		return nil, inputErrorf("merge: no input files")
 	}
@@ -37,6 +41,9 @@ func MergeMaps(inputs []string) (*MergeResult, error) {
 		d, info, err := ReadMap(in)
 		if err != nil {
 			return nil, err
+		}
+		if progress != nil {
+			progress(i+1, len(inputs))
 		}
 		if i == 0 {
 			res.Info = info

@@ -1,6 +1,7 @@
 package output
 
 import (
+	"context"
 	"fmt"
 	"os"
 	"sort"
@@ -93,6 +94,16 @@ func (m *MapFile) SetFlushEvery(n int) {
 // refuses (error wrapping ErrExist) when final or its partial file exists;
 // with force a stale partial file is replaced now and final at Finish.
 func CreateMapFile(final string, force bool, info RunInfo, spec MapSpec) (*MapFile, error) {
+	return CreateMapFileContext(context.Background(), final, force, info, spec)
+}
+
+// CreateMapFileContext is CreateMapFile that can be interrupted: the
+// initial values are written in blocks (about a megabyte each) under the
+// temporary name, and when ctx is done between two blocks the temporary
+// file is removed and ctx's error returned (wrapped). No partial file then
+// exists: an interrupted allocation leaves nothing to resume and nothing
+// damaged.
+func CreateMapFileContext(ctx context.Context, final string, force bool, info RunInfo, spec MapSpec) (*MapFile, error) {
 	if err := checkSpec(spec); err != nil {
 		return nil, err
 	}
@@ -111,11 +122,18 @@ func CreateMapFile(final string, force bool, info RunInfo, spec MapSpec) (*MapFi
 	}
 	w := &Writer{F: f}
 	w.Root(info)
+	var ds *mapDatasets
 	if w.Err == nil {
-		_, w.Err = layoutMap(f, spec)
+		ds, w.Err = layoutMap(f, spec)
+	}
+	if w.Err == nil {
+		w.Err = ds.initialise(ctx, spec)
 	}
 	if w.Err != nil {
 		f.Abort()
+		if ctx.Err() != nil {
+			return nil, fmt.Errorf("laying out %s: %w (nothing written)", partial, w.Err)
+		}
 		return nil, w.Err
 	}
 	if err := f.Close(); err != nil {

@@ -208,20 +208,9 @@ func ParseAxis(s string) (Axis, error) {
 	if err != nil || n < 1 || n > 100000 {
 		return a, fmt.Errorf("N must be an integer from 1 to 100000")
 	}
-	hiText := strings.TrimSpace(parts[1])
-	loText := strings.TrimSpace(parts[0])
-	hi, err := dispersion.ParseQuantity(hiText, def.Kind)
+	lo, hi, err := dispersion.ParseBounds(parts[0], parts[1], def.Kind) // LO may borrow HI's unit
 	if err != nil {
-		return a, fmt.Errorf("HI: %v", err)
-	}
-	lo, err := dispersion.ParseQuantity(loText, def.Kind)
-	if err != nil && def.Kind != dispersion.KindNumber {
-		// borrow HI's unit
-		unit := strings.TrimLeft(hiText, "0123456789.+-eE ")
-		lo, err = dispersion.ParseQuantity(loText+" "+unit, def.Kind)
-	}
-	if err != nil {
-		return a, fmt.Errorf("LO: %v", err)
+		return a, err
 	}
 	if logSpaced {
 		if !(lo*hi > 0) {

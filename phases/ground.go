@@ -151,19 +151,38 @@ func (su *GroundSetup) Solve(s *GroundSettings) (*GroundResult, error) {
 	if s != nil {
 		set = *s
 	}
-	guesses := gpe.DefaultGuesses(su.Problem.Model)
-	for i := 2; i <= set.RandomStarts; i++ {
-		guesses = append(guesses, gpe.Guess{Name: fmt.Sprintf("random seed=%d", i), Kind: gpe.GuessRandom, Seed: uint64(i)})
-	}
-	if v := su.Variational; v != nil && v.Status == Converged && !su.Trapped {
-		guesses = append(guesses, gpe.Guess{Name: "variational optimum", Kind: gpe.GuessGiven, State: TwoWaveState(su.Problem.Grid, v.State)})
-	}
+	guesses := su.guesses(&set, true)
 	solver := set.Solver
 	mr, err := gpe.MultiStart(su.Problem, guesses, &solver, thresholds(set.Variational))
 	if err != nil {
 		return nil, fmt.Errorf("ground: %w", err)
 	}
 	return &GroundResult{GroundSetup: *su, Multi: mr, Status: mr.Best.Status}, nil
+}
+
+// Starts returns the number of starts Solve makes with the settings s.
+func (su *GroundSetup) Starts(s *GroundSettings) int {
+	var set GroundSettings
+	if s != nil {
+		set = *s
+	}
+	return len(su.guesses(&set, false))
+}
+
+// guesses are the starts of Solve (states built only when build is set).
+func (su *GroundSetup) guesses(set *GroundSettings, build bool) []gpe.Guess {
+	guesses := gpe.DefaultGuesses(su.Problem.Model)
+	for i := 2; i <= set.RandomStarts; i++ {
+		guesses = append(guesses, gpe.Guess{Name: fmt.Sprintf("random seed=%d", i), Kind: gpe.GuessRandom, Seed: uint64(i)})
+	}
+	if v := su.Variational; v != nil && v.Status == Converged && !su.Trapped {
+		gs := gpe.Guess{Name: "variational optimum", Kind: gpe.GuessGiven}
+		if build {
+			gs.State = TwoWaveState(su.Problem.Grid, v.State)
+		}
+		guesses = append(guesses, gs)
+	}
+	return guesses
 }
 
 func varRef(where string, r Result) *VariationalRef {

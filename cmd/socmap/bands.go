@@ -108,8 +108,13 @@ func modelSubtitle(mc modelChoice) string {
 	if mc.Model.ER == 0 {
 		return "effective model given directly"
 	}
-	return fmt.Sprintf("%s scheme, %s: k_R = %s 1/µm, E_R/h = %s Hz", mc.Scheme, mc.Atom.Name,
+	s := fmt.Sprintf("%s scheme, %s: k_R = %s 1/µm, E_R/h = %s Hz", mc.Scheme, mc.Atom.Name,
 		output.Num(mc.Model.KR*1e-6, 4), output.Num(mc.Model.ERHz(), 4))
+	if mc.CouplingSet {
+		// k_R and E_R are the scheme's, Ω is not.
+		s = fmt.Sprintf("k_R and E_R from the %s; Ω = %s E_R given by --omega-er, not the scheme's", s, output.Num(mc.Model.OmegaOverER, 4))
+	}
+	return s
 }
 
 func bandsJSON(mc modelChoice, b dispersion.Bands, info dispersion.BandInfo) map[string]any {
@@ -129,7 +134,9 @@ func bandsJSON(mc modelChoice, b dispersion.Bands, info dispersion.BandInfo) map
 func bandsTable(mc modelChoice, b dispersion.Bands, info dispersion.BandInfo) *output.Table {
 	N := output.Num
 	t := &output.Table{Title: fmt.Sprintf("Bands of h = (k − σz)² + (Ω/2)σx + (δ/2)σz  [E_R, k_R]:  Ω = %s, δ = %s", N(b.Omega, 4), N(b.Delta, 4))}
-	if mc.Model.ER > 0 {
+	if mc.Model.ER > 0 && mc.CouplingSet {
+		t.Text(modelSubtitle(mc))
+	} else if mc.Model.ER > 0 {
 		t.Text("from the " + modelSubtitle(mc))
 	}
 	t.Section("Lower-band minima")

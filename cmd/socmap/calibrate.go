@@ -32,7 +32,7 @@ Lines starting with # are comments.
 Sign convention: the nominal sine law is ħk_t = −(ΔF/ω) cos θ; k_max carries
 the sign of −ΔF/ω, and θ_lag > 0 means the gradient at the atoms lags the
 drive (b_eff sin(ωt − θ_lag)). k_t = 2π sgn(f0) × slope.`,
-		Example: `  socmap calibrate --plan cmd/socmap/plans/demo.toml --data testdata/calibrate_example.csv`,
+		Example: `  socmap calibrate --plan socmap-demo/plan.toml --data socmap-demo/calibrate-example.csv`,
 		Args:    cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			p, err := sf.build()

@@ -3,7 +3,9 @@ package main
 import (
 	"errors"
 	"fmt"
+	"io"
 	"math"
+	"path/filepath"
 	"strconv"
 	"strings"
 
@@ -53,6 +55,7 @@ func newCompareCmd() *cobra.Command {
 	var inf interFlags
 	var tf trapFlags
 	var lf levelFlags
+	var outs []string
 	var method string
 	c := &cobra.Command{
 		Use:   "compare",
@@ -74,6 +77,9 @@ check, with advice when they move an edge by more than 5 % of the window.`,
 		Example: `  socmap compare --plan socmap-demo/plan.toml --density "1e14 cm^-3"`,
 		Args:    cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := checkOuts(outs, ".json", ".txt"); err != nil {
+				return err
+			}
 			p, notes, err := comparison(&sf, &rf, &inf, &tf)
 			if err != nil {
 				return err
@@ -101,21 +107,37 @@ check, with advice when they move an edge by more than 5 % of the window.`,
 				return err
 			}
 			rep := &output.CompareReport{Problem: p, CompareResult: res, Notes: notes, Cautions: []string{output.CautionCoils, output.CautionLasers}}
-			if g.json {
-				doc := rep.JSON()
-				if s1 != nil {
-					doc["three_level"] = s1.JSON()
+			doc := rep.JSON()
+			if s1 != nil {
+				doc["three_level"] = s1.JSON()
+			}
+			writeTable := func(w io.Writer) error {
+				if err := rep.Table().Write(w); err != nil || s1 == nil {
+					return err
 				}
+				fmt.Fprintln(w)
+				return s1.Table().Write(w)
+			}
+			for _, o := range outs {
+				var err error
+				switch strings.ToLower(filepath.Ext(o)) {
+				case ".json":
+					err = output.WriteFileAtomic(o, g.force, func(w io.Writer) error { return writeJSON(w, doc) })
+				case ".txt":
+					err = output.WriteFileAtomic(o, g.force, writeTable)
+				}
+				if err != nil {
+					return err
+				}
+			}
+			if g.json {
 				return writeJSON(cmd.OutOrStdout(), doc)
 			}
-			if err := rep.Table().Write(cmd.OutOrStdout()); err != nil || s1 == nil {
-				return err
-			}
-			fmt.Fprintln(cmd.OutOrStdout())
-			return s1.Table().Write(cmd.OutOrStdout())
+			return writeTable(cmd.OutOrStdout())
 		},
 	}
 	fs := c.Flags()
+	fs.StringSliceVar(&outs, "out", nil, "write the comparison to FILE.json (SI values, unit in the key) or FILE.txt (the table, with the cautions) (repeatable)")
 	sf.add(fs)
 	rf.add(fs, false, "raman-")
 	inf.add(fs)

@@ -257,6 +257,8 @@ type modelChoice struct {
 	Scheme string
 	Model  dispersion.Model // Mass, KR, ER are zero for a direct model
 	Atom   *dispersion.Species
+	// CouplingSet: --omega-er replaced the scheme's coupling Ω.
+	CouplingSet bool
 }
 
 func (m *modelFlags) build() (modelChoice, error) {
@@ -265,7 +267,7 @@ func (m *modelFlags) build() (modelChoice, error) {
 	if err != nil {
 		return c, err
 	}
-	c.Scheme, c.Atom = l.Scheme.Name(), l.Scheme.Atom()
+	c.Scheme, c.Atom, c.CouplingSet = l.Scheme.Name(), l.Scheme.Atom(), l.CouplingSet
 	c.Model, err = l.Model()
 	if errors.Is(err, phases.ErrNoRecoil) {
 		return c, usagef("the shaking settings give no recoil (k_t = 0): no spin–orbit coupling to model")

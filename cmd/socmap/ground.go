@@ -2,6 +2,7 @@ package main
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"path/filepath"
 	"strconv"
@@ -99,7 +100,28 @@ fz, f_perp, phase, energy_per_particle_over_ER, residual_over_ER, …`,
 			if err != nil {
 				return err
 			}
-			pr, err := phases.Ground(p, &phases.GroundSettings{RandomStarts: starts, Solver: gpe.Settings{Tol: tol.v}})
+			set := &phases.GroundSettings{RandomStarts: starts, Solver: gpe.Settings{Tol: tol.v}}
+			su, err := p.Setup(set.Variational)
+			if errors.Is(err, phases.ErrInput) {
+				return usagef("%v", err)
+			}
+			if err != nil {
+				return err
+			}
+			if err := checkEstimate(cmd, su.Estimate(set), h5Out(outs)); err != nil {
+				return err
+			}
+			n := su.Starts(set)
+			bar := output.NewProgress(cmd.ErrOrStderr(), "ground", n, g.quiet, &output.ProgressOptions{Unit: "starts"})
+			if bar != nil {
+				set.Solver.Progress = func(pr gpe.Progress) {
+					bar.Set(pr.Start)
+					bar.Detail(solveStage(pr, n))
+				}
+			}
+			pr, err := su.Solve(set)
+			bar.Set(n)
+			bar.Finish()
 			if errors.Is(err, phases.ErrInput) {
 				return usagef("%v", err)
 			}
@@ -134,6 +156,7 @@ fz, f_perp, phase, energy_per_particle_over_ER, residual_over_ER, …`,
 	c.Flags().IntVar(&starts, "starts", 1, "random starts (seeds 1 … N) besides the plane waves, the stripe and the variational optimum")
 	tol = qflag(c.Flags(), "tol", KindNumber, "1e-8", "residual ‖Hψ − μψ‖ to converge to, in E_R")
 	c.Flags().StringSliceVar(&outs, "out", nil, "write FILE.h5 (state, observables, history), FILE.png, .svg or .pdf (densities, momentum distribution), FILE.json (repeatable)")
+	addSizeCheckFlag(c.Flags())
 	return c
 }
 
@@ -235,4 +258,14 @@ func errOr(err error, s string) string {
 		return err.Error()
 	}
 	return s
+}
+
+// solveStage describes a running solve for the progress display: "start
+// 2/5: split step 140 (Δτ 0.005), residual 3.1e-04" or "start 2/5:
+// finisher iteration 40, residual 2.0e-07".
+func solveStage(pr gpe.Progress, starts int) string {
+	if pr.Stage == "split" {
+		return fmt.Sprintf("start %d/%d: split step %d (Δτ %.3g), residual %.1e", pr.Start+1, starts, pr.Step, pr.Dtau, pr.Residual)
+	}
+	return fmt.Sprintf("start %d/%d: finisher iteration %d, residual %.1e", pr.Start+1, starts, pr.Step, pr.Residual)
 }

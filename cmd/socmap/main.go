@@ -31,6 +31,7 @@ func usagef(format string, a ...any) error { return usageError{fmt.Sprintf(forma
 // globals are the persistent flags shared by every command.
 type globals struct {
 	json, quiet, force bool
+	noSizeCheck        bool // --no-size-check (estimate.go)
 	plan               string
 	planText           string          // the plan file as read, for result files
 	fromPlan           map[string]bool // flags whose value came from the plan file
@@ -51,7 +52,10 @@ states. Quantities take units as text: "40 G/cm", "3 kHz", "90 deg", "790 nm".`,
 		SilenceUsage:  true,
 		SilenceErrors: true,
 		PersistentPreRunE: func(cmd *cobra.Command, args []string) error {
-			return applyPlan(cmd)
+			if err := applyPlan(cmd); err != nil {
+				return err
+			}
+			return checkEmptyOuts(cmd)
 		},
 	}
 	pf := root.PersistentFlags()
@@ -61,6 +65,7 @@ states. Quantities take units as text: "40 G/cm", "3 kHz", "90 deg", "790 nm".`,
 	pf.BoolVar(&g.force, "force", false, "overwrite existing output files")
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error { return usageError{err.Error()} })
 	root.AddCommand(newSchemeCmd(), newBandsCmd(), newGroundCmd(), newMapCmd(), newCompareCmd(), newVerifyCmd(), newCalibrateCmd(), newDesignCmd(), newMergeCmd(), newInspectCmd(), newDemoCmd(), newExcitationsCmd(), newSequenceCmd())
+	registerCompletions(root) // complete.go
 	return root
 }
 
@@ -69,7 +74,19 @@ func main() { os.Exit(run(os.Args[1:], os.Stdout, os.Stderr)) }
 // run executes one command line and returns the exit status: 0 on success,
 // 2 for bad input (one line on stderr naming the flag, the value and what is
 // allowed), 1 for any other failure.
-func run(args []string, stdout, stderr io.Writer) int {
+func run(args []string, stdout, stderr io.Writer) (code int) {
+	// A panic of the command's goroutine (a bug) is reported as one line
+	// instead of the runtime's stack dump; SOCMAP_TRACEBACK=1 keeps the
+	// dump for debugging. (The runtime's fatal errors, such as running out
+	// of memory, cannot be caught: the up-front estimates refuse such runs.)
+	if os.Getenv("SOCMAP_TRACEBACK") == "" {
+		defer func() {
+			if r := recover(); r != nil {
+				fmt.Fprintf(stderr, "socmap: internal error: %v (a bug in socmap: please report it with the command line; SOCMAP_TRACEBACK=1 shows where it happened)\n", strings.ReplaceAll(fmt.Sprint(r), "\n", " "))
+				code = 1
+			}
+		}()
+	}
 	g = globals{}
 	root := newRoot()
 	root.SetArgs(args)

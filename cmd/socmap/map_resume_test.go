@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bufio"
 	"bytes"
 	"encoding/json"
 	"errors"
@@ -8,7 +9,10 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"regexp"
+	"strconv"
 	"strings"
+	"sync"
 	"syscall"
 	"testing"
 	"time"
@@ -122,40 +126,66 @@ func TestMapResumeAfterKill(t *testing.T) {
 	t.Logf("reference run done at %s", time.Since(t0).Round(time.Millisecond))
 	final := filepath.Join(dir, "map.h5")
 	partial := final + ".partial"
-	args := append(bigMap, "--workers", "2", "--out", final)
+	// One worker: the map takes long enough (≈ 1.5 s of CPU) that the
+	// signals below always arrive before its end, on a fast machine too.
+	args := append(bigMap, "--workers", "1", "--out", final)
+	linePat := regexp.MustCompile(`^map: (\d+)/(\d+) points`)
 
-	// interrupt starts the binary, waits until it has been writing points
-	// into the partial file for a while (its modification time advances;
-	// the file is not opened here: libhdf5 locks files being written),
-	// sends sig and returns the process's stderr and exit error.
-	interrupt := func(sig syscall.Signal) (string, error) {
+	// interrupt starts the binary, waits until it has written at least
+	// `after` points beyond those it resumed, sends sig and returns the
+	// process's stderr and exit error. The count comes from the progress
+	// lines on stderr (plain lines, one every millisecond here:
+	// SOCMAP_PROGRESS_INTERVAL); the file is not opened (libhdf5 locks files
+	// being written). No wall-clock threshold: the test waits for events,
+	// whatever the machine's speed.
+	interrupt := func(sig syscall.Signal, after int) (string, error) {
 		var stderr bytes.Buffer
-		start := time.Now()
-		var mtime0 time.Time
-		if st, err := os.Stat(partial); err == nil {
-			mtime0 = st.ModTime()
-		}
+		var mu sync.Mutex
 		c := exec.Command(bin, args...)
-		c.Stderr = &stderr
+		c.Env = append(os.Environ(), "SOCMAP_PROGRESS_INTERVAL=1ms")
+		pipe, err := c.StderrPipe()
+		if err != nil {
+			t.Fatal(err)
+		}
 		if err := c.Start(); err != nil {
 			t.Fatal(err)
 		}
-		exited := make(chan error, 1)
-		go func() { exited <- c.Wait() }()
-		var writing time.Time // when the first new write was seen
-		for writing.IsZero() || time.Since(writing) < 400*time.Millisecond {
-			select {
-			case err := <-exited:
-				t.Fatalf("the run ended (%v) before it could be interrupted; stderr %q", err, stderr.String())
-			case <-time.After(10 * time.Millisecond):
+		counts := make(chan int, 1024)
+		scanned := make(chan struct{})
+		go func() {
+			defer close(scanned)
+			sc := bufio.NewScanner(pipe)
+			first := -1
+			for sc.Scan() {
+				mu.Lock()
+				stderr.WriteString(sc.Text() + "\n")
+				mu.Unlock()
+				if m := linePat.FindStringSubmatch(sc.Text()); m != nil {
+					n, _ := strconv.Atoi(m[1])
+					if first < 0 {
+						first = n // the points resumed (no point computed yet)
+					}
+					select {
+					case counts <- n - first:
+					default:
+					}
+				}
 			}
-			if time.Since(start) > 60*time.Second {
+		}()
+		exited := make(chan error, 1)
+		go func() { <-scanned; exited <- c.Wait() }()
+		deadline := time.After(120 * time.Second)
+		for written := 0; written < after; {
+			select {
+			case written = <-counts:
+			case err := <-exited:
+				mu.Lock()
+				defer mu.Unlock()
+				t.Fatalf("the run ended (%v) before it could be interrupted; stderr %q", err, stderr.String())
+			case <-deadline:
 				c.Process.Kill()
 				<-exited
-				t.Fatal("no write to the partial file within 60 s")
-			}
-			if st, err := os.Stat(partial); err == nil && writing.IsZero() && st.ModTime().After(mtime0) && st.ModTime().After(start) {
-				writing = time.Now()
+				t.Fatal("not enough points written within 120 s")
 			}
 		}
 		if sig == syscall.SIGINT {
@@ -170,12 +200,15 @@ func TestMapResumeAfterKill(t *testing.T) {
 		if err := c.Process.Signal(sig); err != nil {
 			t.Fatalf("signal: %v", err)
 		}
-		err := <-exited
+		err = <-exited
+		mu.Lock()
+		defer mu.Unlock()
 		return stderr.String(), err
 	}
 
-	// 1. SIGINT: clean stop, partial file kept, a hint how to resume.
-	stderr, err := interrupt(syscall.SIGINT)
+	// 1. SIGINT after one point: clean stop (the points written are
+	// committed), partial file kept, a hint how to resume.
+	stderr, err := interrupt(syscall.SIGINT, 1)
 	var ee *exec.ExitError
 	if !errors.As(err, &ee) || ee.ExitCode() != 1 || !strings.Contains(stderr, "run the same command again to resume") {
 		t.Fatalf("after SIGINT: %v, stderr %q", err, stderr)
@@ -189,7 +222,10 @@ func TestMapResumeAfterKill(t *testing.T) {
 	}
 
 	// 2. Resume and SIGKILL it: the file stays valid, with more points.
-	stderr, err = interrupt(syscall.SIGKILL)
+	// After 65 new points at least one batch (--flush-every 64) is
+	// committed: the batch is written when it fills, before Run reports the
+	// point that filled it.
+	stderr, err = interrupt(syscall.SIGKILL, 65)
 	if !errors.As(err, &ee) || !strings.Contains(stderr, "resuming") {
 		t.Fatalf("after SIGKILL: %v, stderr %q", err, stderr)
 	}

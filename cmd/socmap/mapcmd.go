@@ -5,7 +5,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"math"
 	"os"
 	"os/signal"
 	"path/filepath"
@@ -17,6 +16,7 @@ import (
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
+	"socmap/dispersion"
 	"socmap/gpe"
 	"socmap/output"
 	"socmap/phases"
@@ -61,8 +61,8 @@ func (o *mapOpts) addFlags(fs *pflag.FlagSet) {
 	o.mf.add(fs)
 	o.inf.add(fs)
 	o.lf.add(fs, true)
-	fs.StringVar(&o.xs, "x", "", "x axis NAME=LO:HI:N, or NAME=LO:HI:N:log (evenly spaced in log)")
-	fs.StringVar(&o.ys, "y", "", "y axis NAME=LO:HI:N or NAME=LO:HI:N:log (optional)")
+	fs.StringVarP(&o.xs, "x", "x", "", "x axis NAME=LO:HI:N, or NAME=LO:HI:N:log (evenly spaced in log)") // shorthand = name: cobra completes one-letter flags only through it
+	fs.StringVarP(&o.ys, "y", "y", "", "y axis NAME=LO:HI:N or NAME=LO:HI:N:log (optional)")
 	fs.StringVar(&o.holdDelta, "hold-delta", "", "hold the detuning at every point: balance (δ = δ_b = (n g↓↓ − n g↑↑)/2) or compensate (δ/2π as at the base setting: the RF follows the micromotion shift); default: the scheme's detuning")
 	fs.StringVar(&o.method, "method", "variational", "method: variational (two-plane-wave mean-field theory) or gpe (1D GPE ground state per point)")
 	fs.IntVar(&o.gpePoints, "points", 0, "gpe: grid points along x (0: per point, the automatic-grid rule: k_max = π/dx ≥ 4 k_R; a given count is kept and the box shortened to fewer wavelengths; points that cannot be resolved are labelled under-resolved)")
@@ -80,6 +80,7 @@ func (o *mapOpts) addFlags(fs *pflag.FlagSet) {
 	fs.IntVar(&o.tasks, "tasks", 4, "--sbatch: number of array tasks (shards)")
 	fs.IntVar(&o.cpus, "cpus-per-task", 1, "--sbatch: CPUs per array task (the map's --workers)")
 	fs.StringArrayVar(&o.sbatchOptions, "sbatch-option", nil, `--sbatch: extra "#SBATCH" option for both jobs, e.g. "--partition=short" (repeatable)`)
+	addSizeCheckFlag(fs)
 }
 
 // problem checks the settings and builds the map problem.
@@ -121,17 +122,6 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 		return nil, usagef("--dims %d: a grid dimension is for --method gpe", o.gpeDims)
 	}
 	var err error
-	if p.Lab, err = o.mf.lab(); err != nil {
-		return nil, err
-	}
-	trapped := o.tf.trap != "" || o.tf.atoms.text != "" || strings.HasPrefix(o.xs, "atoms=") || strings.HasPrefix(o.ys, "atoms=")
-	if trapped {
-		if err := o.trapLab(p); err != nil {
-			return nil, err
-		}
-	} else if err := o.inf.apply(&p.Lab, &o.mf.shake.atomFlags); err != nil {
-		return nil, err
-	}
 	if o.xs == "" {
 		return nil, usagef("--x is required (NAME=LO:HI:N)")
 	}
@@ -146,12 +136,40 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 			return nil, usagef("--y %q: same axis as --x", o.ys)
 		}
 	}
+	if p.Lab, err = o.lab(p.X.Name, p.Y.Name); err != nil {
+		return nil, err
+	}
+	trapped := o.tf.trap != "" || o.tf.atoms.text != "" || p.X.Name == phases.AxisAtoms || p.Y.Name == phases.AxisAtoms
+	if trapped {
+		if err := o.trapLab(p); err != nil {
+			return nil, err
+		}
+	} else if err := o.inf.apply(&p.Lab, &o.mf.shake.atomFlags); err != nil {
+		return nil, err
+	}
 	// The chain is validated at the corners before the run.
 	if err := p.Check(); err != nil {
 		return nil, usagef("map settings: %v", err)
 	}
 	o.check = spin1MapCheck(p)
 	return p, nil
+}
+
+// lab is the scheme part of the map's lab setting (modelFlags.lab), with
+// one rule of its own: without --scheme and --omega-er, an axis over omega
+// implies the direct model (the axis gives Ω at every point; --delta-er
+// the detuning), and an axis over delta asks for --omega-er only.
+func (o *mapOpts) lab(x, y string) (phases.Lab, error) {
+	if o.mf.scheme != "" || o.mf.omegaER.text != "" {
+		return o.mf.lab()
+	}
+	switch {
+	case x == phases.AxisCoupling || y == phases.AxisCoupling:
+		return phases.Lab{Scheme: dispersion.Direct{DetuningOverER: o.mf.deltaER.v}}, nil
+	case x == phases.AxisDetuning || y == phases.AxisDetuning:
+		return phases.Lab{}, usagef("--omega-er is required: a delta axis implies the direct model, which needs the coupling ħΩ/E_R (or give --scheme shake|raman)")
+	}
+	return o.mf.lab()
 }
 
 // trapLab sets up a trapped-cloud map: --trap (required), --atoms (unless
@@ -329,25 +347,52 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 	if v, err := strconv.Atoi(os.Getenv("SLURM_CPUS_PER_TASK")); workers == 0 && err == nil && v > 0 {
 		workers = v // inside a Slurm job: the CPUs it was given
 	}
-	rs := &phases.RunSettings{Workers: workers, Shard: shard, Shards: max(shards, 1), Progress: progressBar(cmd, "map")}
+	rs := &phases.RunSettings{Workers: workers, Shard: shard, Shards: max(shards, 1)}
+	// The estimate (and a refusal) before any file is made; a map that
+	// resumes its partial file needs no new disk.
+	diskOut := h5out
+	if _, err := os.Stat(output.PartialName(h5out)); h5out != "" && err == nil && !g.force {
+		diskOut = ""
+	}
+	est := p.Estimate(rs)
+	if err := checkEstimate(cmd, est, diskOut); err != nil {
+		return err
+	}
+	bar := output.NewProgress(cmd.ErrOrStderr(), "map", int(est.Points), g.quiet, &output.ProgressOptions{Unit: "points"})
+	defer bar.Finish()
+	started := false
+	rs.Progress = func(done, total int, _ time.Duration) {
+		if !started { // the first call counts the points resumed
+			started = true
+			bar.Start(done)
+			return
+		}
+		bar.Set(done)
+	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
 
 	r := &output.MapResult{Problem: p}
 	if h5out == "" {
 		r.Data = output.NewMapData(spec)
-		if r.Run, err = p.Run(ctx, r.Data, rs); err != nil {
+		r.Run, err = p.Run(ctx, r.Data, rs)
+		bar.Finish()
+		if err != nil {
 			if r.Run.Status == phases.RunCanceled {
 				return fmt.Errorf("map interrupted after %d of %d points (nothing written: use --out FILE.h5 to make a map resumable)", r.Run.Computed, r.Run.Total)
 			}
 			return fmt.Errorf("map: %w", err)
 		}
 	} else {
-		sink, err := o.openSink(cmd, h5out, spec)
+		sink, err := o.openSink(ctx, cmd, h5out, spec)
 		if err != nil {
+			if ctx.Err() != nil {
+				return fmt.Errorf("map interrupted while laying out %s: nothing written", output.PartialName(h5out))
+			}
 			return err
 		}
 		r.Run, err = p.Run(ctx, sink, rs)
+		bar.Finish()
 		stop()
 		if err != nil {
 			cerr := sink.Close()
@@ -392,7 +437,7 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 }
 
 // openSink creates the map file, or resumes its partial file (unless --force).
-func (o *mapOpts) openSink(cmd *cobra.Command, final string, spec output.MapSpec) (*output.MapFile, error) {
+func (o *mapOpts) openSink(ctx context.Context, cmd *cobra.Command, final string, spec output.MapSpec) (*output.MapFile, error) {
 	partial := output.PartialName(final)
 	var sink *output.MapFile
 	var err error
@@ -412,7 +457,7 @@ func (o *mapOpts) openSink(cmd *cobra.Command, final string, spec output.MapSpec
 			fmt.Fprintf(cmd.ErrOrStderr(), "map: resuming %s: %d of %d points done\n", partial, done, total)
 		}
 	} else {
-		sink, err = output.CreateMapFile(final, g.force, runInfo(cmd, "map"), spec)
+		sink, err = output.CreateMapFileContext(ctx, final, g.force, runInfo(cmd, "map"), spec)
 		if err != nil {
 			return nil, err
 		}
@@ -546,29 +591,4 @@ func checkOutTypes(outs []string, exts ...string) error {
 		}
 	}
 	return nil
-}
-
-// progressBar returns a progress callback that draws on stderr when it is a
-// terminal and --quiet is not set.
-func progressBar(cmd *cobra.Command, what string) func(done, total int, elapsed time.Duration) {
-	if g.quiet {
-		return nil
-	}
-	st, err := os.Stderr.Stat()
-	if err != nil || st.Mode()&os.ModeCharDevice == 0 {
-		return nil
-	}
-	last := time.Time{}
-	return func(done, total int, elapsed time.Duration) {
-		if time.Since(last) < 200*time.Millisecond && done < total {
-			return
-		}
-		last = time.Now()
-		rate := float64(done) / math.Max(elapsed.Seconds(), 1e-9)
-		left := time.Duration(float64(total-done) / math.Max(rate, 1e-9) * 1e9).Round(time.Second)
-		fmt.Fprintf(os.Stderr, "\r%s: %d/%d points, %.0f/s, %s left   ", what, done, total, rate, left)
-		if done == total {
-			fmt.Fprintln(os.Stderr)
-		}
-	}
 }

@@ -35,7 +35,12 @@ holds are an error (exit 2) listing how many and the first one; with
 --out also takes FILE.png (phase diagram) and FILE.json; --png FILE is the
 same as --out FILE.png.`,
 		Example: `  socmap merge --out map.h5 --png map.png map.shard-*-of-4.h5`,
-		Args:    cobra.MinimumNArgs(1),
+		Args: func(cmd *cobra.Command, args []string) error {
+			if len(args) == 0 {
+				return usagef("merge: no input files: give the map files to merge, e.g. socmap merge --out map.h5 map.shard-*-of-4.h5")
+			}
+			return nil
+		},
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if png != "" {
 				outs = append(outs, png)
@@ -63,7 +68,9 @@ same as --out FILE.png.`,
 					return usagef("--out %q: is also an input", h5out)
 				}
 			}
-			res, err := output.MergeMaps(args)
+			bar := output.NewProgress(cmd.ErrOrStderr(), "merge", len(args), g.quiet, &output.ProgressOptions{Unit: "files read"})
+			res, err := output.MergeMapsProgress(args, func(done, total int) { bar.Set(done) })
+			bar.Finish()
 			if errors.Is(err, output.ErrMapInput) {
 				return usagef("%v", err)
 			}
@@ -207,6 +214,10 @@ func (o *mapOpts) printSbatch(cmd *cobra.Command, p *phases.MapProblem, h5out st
 			vals = sv.GetSlice()
 		}
 		for _, v := range vals {
+			if f.Value.Type() == "bool" { // a bool flag takes no separate value
+				args = append(args, "--"+f.Name+"="+shellQuote(v))
+				continue
+			}
 			args = append(args, "--"+f.Name, shellQuote(v))
 		}
 	})

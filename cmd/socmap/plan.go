@@ -152,8 +152,8 @@ func effectivePlan(cmd *cobra.Command) string {
 	fmt.Fprintf(&b, "# socmap %s %s: effective settings\n", version, cmd.CommandPath())
 	cmd.Flags().VisitAll(func(f *pflag.Flag) {
 		switch f.Name {
-		case "plan", "json", "quiet", "force", "help", "version", "out":
-			return
+		case "plan", "json", "quiet", "force", "help", "version", "out", "no-size-check":
+			return // no-size-check: a replay on another machine checks again
 		}
 		if sv, ok := f.Value.(pflag.SliceValue); ok {
 			// Lists as TOML arrays; an empty list is left out (its text

@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -40,8 +39,8 @@ several mean velocities, their centres, the Doppler slope and hence k_t, the
 momentum transfer per flip and the effective Rabi frequency. Each is printed
 beside the effective model's value with the relative deviation.
 --x pulse-width=LO:HI:N or --x shake=LO:HI:N sweeps the deviation.`,
-		Example: `  socmap verify --plan cmd/socmap/plans/demo.toml
-  socmap verify --plan cmd/socmap/plans/demo.toml --x "pulse-width=10us:150us:5" --out sweep.png`,
+		Example: `  socmap verify --plan socmap-demo/plan.toml
+  socmap verify --plan socmap-demo/plan.toml --x "pulse-width=10us:150us:5" --out sweep.png`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error { return runVerify(cmd, &f) },
 	}
@@ -51,7 +50,7 @@ beside the effective model's value with the relative deviation.
 	f.cloud = qflag(fs, "cloud-rms", KindLength, "", `rms size of the atom cloud, centred on the null of the oscillating gradient (default: velocity spread 0.15/t_int in Doppler units)`)
 	fs.IntVar(&f.windows, "windows", 0, "interrogation time in shaking periods (default: π time of the cycle-averaged Rabi frequency)")
 	fs.StringVar(&f.method, "method", "auto", "solver: auto (delta pulses: exact; otherwise real-time), delta (exact, pulses taken as delta pulses), realtime")
-	fs.StringVar(&f.x, "x", "", `sweep the deviation: "pulse-width=LO:HI:N" or "shake=LO:HI:N", e.g. "pulse-width=10us:150us:5"`)
+	fs.StringVarP(&f.x, "x", "x", "", `sweep the deviation: "pulse-width=LO:HI:N" or "shake=LO:HI:N", e.g. "pulse-width=10us:150us:5"`)
 	fs.StringSliceVar(&f.outs, "out", nil, "write FILE.h5, FILE.json or FILE.png, .svg, .pdf (figure) (repeatable)")
 	return c
 }
@@ -76,14 +75,11 @@ func parseSweep(s string) (*sweepSpec, error) {
 	if axis == gpe.VerifyShakeFreq {
 		kind = KindFrequency
 	}
-	lo, err1 := parseQuantity(parts[0], kind)
-	hi, err2 := parseQuantity(parts[1], kind)
+	lo, hi, err1 := dispersion.ParseBounds(parts[0], parts[1], kind) // LO may borrow HI's unit, as in map
 	n, err3 := strconv.Atoi(strings.TrimSpace(parts[2]))
 	switch {
 	case err1 != nil:
-		return nil, usagef("--x %q: LO %q: %v", s, parts[0], err1)
-	case err2 != nil:
-		return nil, usagef("--x %q: HI %q: %v", s, parts[1], err2)
+		return nil, usagef("--x %q: %v", s, err1)
 	case err3 != nil || n < 2 || n > 200:
 		return nil, usagef("--x %q: N %q must be an integer from 2 to 200", s, parts[2])
 	case !(lo > 0) || !(hi > lo):
@@ -147,22 +143,25 @@ func runVerify(cmd *cobra.Command, f *verifyFlags) error {
 			return usagef("--x %q: a pulse-width sweep needs --pulse rect or gauss", f.x)
 		}
 	}
-	progress := !g.quiet && isTerminal(os.Stderr)
 	if sw == nil {
-		if progress {
-			fmt.Fprintln(os.Stderr, "verify: simulating flip spectra …")
-		}
+		bar := output.NewProgress(cmd.ErrOrStderr(), "verify", 0, g.quiet, &output.ProgressOptions{Unit: "simulations"})
+		s.Progress = verifyProgress(bar, nil)
 		r, err := gpe.Verify(p, s)
+		bar.Finish()
 		if err != nil {
 			return verifyErr(err)
 		}
 		return emitRendered(cmd, f.outs, "verify", &output.VerifyResult{Shake: p, Verify: r})
 	}
+	bar := output.NewProgress(cmd.ErrOrStderr(), "verify sweep", len(sw.vals), g.quiet, &output.ProgressOptions{Unit: sw.axis.Name() + " points"})
+	defer bar.Finish()
+	point := 0
 	var report func(i, n int)
-	if progress {
-		report = func(i, n int) {
-			fmt.Fprintf(os.Stderr, "verify: sweep %s point %d of %d …\n", sw.axis.Name(), i+1, n)
-		}
+	if bar != nil {
+		report = func(i, n int) { point = i; bar.Set(i) }
+		s.Progress = verifyProgress(bar, func(done, total int) string {
+			return fmt.Sprintf("point %d: simulation %d/%d", point+1, done, total)
+		})
 	}
 	pts, err := gpe.VerifySweep(p, s, sw.axis, sw.vals, report)
 	if err != nil {
@@ -171,16 +170,27 @@ func runVerify(cmd *cobra.Command, f *verifyFlags) error {
 	return emitRendered(cmd, f.outs, "verify", &output.VerifySweepResult{Shake: p, Axis: sw.axis, Points: pts})
 }
 
+// verifyProgress feeds gpe's per-simulation progress to bar: as its count
+// (detail nil), or as a detail line of a sweep's point.
+func verifyProgress(bar *output.Progress, detail func(done, total int) string) func(done, total int) {
+	if bar == nil {
+		return nil
+	}
+	return func(done, total int) {
+		if detail != nil {
+			bar.Detail(detail(done, total))
+			return
+		}
+		bar.SetTotal(total)
+		bar.Set(done)
+	}
+}
+
 func verifyErr(err error) error {
 	if err == nil {
 		return nil
 	}
 	return usagef("%v", err)
-}
-
-func isTerminal(f *os.File) bool {
-	st, err := f.Stat()
-	return err == nil && st.Mode()&os.ModeCharDevice != 0
 }
 
 // rendered is a result type of package output with its four renderings.

@@ -299,6 +299,19 @@ func readAttr(id C.hid_t, name string) (any, error) {
 		return nil, stackError()
 	}
 	n := int(np)
+	// A damaged file can declare more data than the attribute stores, and
+	// libhdf5 1.10 then reads past its own buffer (found by
+	// FuzzDamagedMapFile): check the stored size of fixed-size data first.
+	// A variable-length element is stored as its length and a global-heap
+	// ID (4 + address size + 4 bytes, at least 12).
+	stored := uint64(C.H5Aget_storage_size(a))
+	if C.H5Tis_variable_str(ftype) > 0 {
+		if want := uint64(n) * 12; stored < want {
+			return nil, fmt.Errorf("%w: attribute %q stores %d bytes, %d strings need at least %d", ErrFormat, name, stored, n, want)
+		}
+	} else if want := uint64(n) * uint64(C.H5Tget_size(ftype)); stored != want {
+		return nil, fmt.Errorf("%w: attribute %q stores %d bytes, its type and shape need %d", ErrFormat, name, stored, want)
+	}
 	switch C.H5Tget_class(ftype) {
 	case C.H5T_STRING:
 		strs, err := readStrings(a, ftype, n)

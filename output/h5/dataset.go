@@ -96,6 +96,13 @@ type DatasetOptions struct {
 	// Fill is the value of elements never written: a float64, int8, int32 or
 	// complex128 matching the dataset type (e.g. math.NaN()). Nil: zero.
 	Fill any
+	// NoFill allocates the contiguous storage at creation without writing
+	// it (HDF5's fill time "never"; Fill is still recorded as the dataset's
+	// fill value): creation is then instant whatever the size, and the
+	// caller must write every element itself before the data are read, in
+	// blocks it can interrupt (a map file's layout does so, checking for
+	// cancellation between blocks). Ignored for compressed datasets.
+	NoFill bool
 }
 
 // Dataset is an open dataset, for hyperslab writes and reads. Close it when
@@ -315,7 +322,7 @@ func makeSpace(shape []int) C.hid_t {
 // createLocked creates the dataset at absolute path p with its attributes
 // and returns its identifier. fill points to a value of the memory type (or
 // is nil for zero).
-func (f *File) createLocked(op, p string, dt DType, shape []int, m Meta, chunk []int, compress bool, fill unsafe.Pointer) (C.hid_t, error) {
+func (f *File) createLocked(op, p string, dt DType, shape []int, m Meta, chunk []int, compress bool, fill unsafe.Pointer, noFill bool) (C.hid_t, error) {
 	if err := f.checkWritable(op, p); err != nil {
 		return -1, err
 	}
@@ -381,7 +388,11 @@ func (f *File) createLocked(op, p string, dt DType, shape []int, m Meta, chunk [
 	if fill == nil {
 		fill = unsafe.Pointer(&zero[0])
 	}
-	if C.H5Pset_fill_value(dcpl, mtype, fill) < 0 || C.H5Pset_fill_time(dcpl, C.H5D_FILL_TIME_ALLOC) < 0 {
+	fillTime := C.H5D_fill_time_t(C.H5D_FILL_TIME_ALLOC)
+	if noFill && !compress {
+		fillTime = C.H5D_FILL_TIME_NEVER
+	}
+	if C.H5Pset_fill_value(dcpl, mtype, fill) < 0 || C.H5Pset_fill_time(dcpl, fillTime) < 0 {
 		return -1, f.err(op, p, stackError())
 	}
 	lcpl := C.sm_lcpl()
@@ -391,9 +402,9 @@ func (f *File) createLocked(op, p string, dt DType, shape []int, m Meta, chunk [
 	defer C.H5Pclose(lcpl)
 	cs := cstr(p)
 	defer cfree(cs)
-	id := C.H5Dcreate2(f.id, cs, ftype, space, lcpl, dcpl, C.H5P_DEFAULT)
+	id, cerr := C.H5Dcreate2(f.id, cs, ftype, space, lcpl, dcpl, C.H5P_DEFAULT)
 	if id < 0 {
-		return -1, f.err(op, p, stackError())
+		return -1, f.err(op, p, stackErrno(cerr))
 	}
 	attrs := append([]Attr{{"units", m.Units}, {"description", m.Description}}, m.Attrs...)
 	for _, a := range attrs {
@@ -440,7 +451,7 @@ func (f *File) CreateDataset(p string, dt DType, shape []int, m Meta, opt *Datas
 		}
 		fill = ptr
 	}
-	id, err := f.createLocked(op, p, dt, shape, m, opt.Chunk, opt.Compress, fill)
+	id, err := f.createLocked(op, p, dt, shape, m, opt.Chunk, opt.Compress, fill, opt.NoFill)
 	if err != nil {
 		return nil, err
 	}
@@ -601,8 +612,8 @@ func (d *Dataset) WriteAt(offset, count []int, data any) error {
 	if own {
 		defer C.H5Tclose(mtype)
 	}
-	if C.H5Dwrite(d.id, mtype, mspace, fspace, C.H5P_DEFAULT, ptr) < 0 {
-		return d.f.err(op, d.path, stackError())
+	if r, cerr := C.H5Dwrite(d.id, mtype, mspace, fspace, C.H5P_DEFAULT, ptr); r < 0 {
+		return d.f.err(op, d.path, stackErrno(cerr))
 	}
 	return nil
 }
@@ -693,7 +704,7 @@ func (f *File) writeWhole(p string, data any, shape []int, m Meta) error {
 		return f.err(op, p, fmt.Errorf("%d values do not fill shape %v", n, shape))
 	}
 	compress := n*dt.size() >= ChunkThreshold && len(shape) > 0
-	id, err := f.createLocked(op, p, dt, shape, m, nil, compress, nil)
+	id, err := f.createLocked(op, p, dt, shape, m, nil, compress, nil, false)
 	if err != nil {
 		return err
 	}
@@ -708,8 +719,8 @@ func (f *File) writeWhole(p string, data any, shape []int, m Meta) error {
 	if own {
 		defer C.H5Tclose(mtype)
 	}
-	if C.H5Dwrite(id, mtype, C.H5S_ALL, C.H5S_ALL, C.H5P_DEFAULT, ptr) < 0 {
-		return f.err(op, p, stackError())
+	if r, cerr := C.H5Dwrite(id, mtype, C.H5S_ALL, C.H5S_ALL, C.H5P_DEFAULT, ptr); r < 0 {
+		return f.err(op, p, stackErrno(cerr))
 	}
 	return nil
 }

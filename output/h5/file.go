@@ -123,6 +123,9 @@ func open(name string, rw bool) (*File, error) {
 		return nil, fail(fmt.Errorf("%w: is a directory", ErrFormat))
 	}
 
+	if err := checkGlobalHeaps(name); err != nil {
+		return nil, fail(err)
+	}
 	lock()
 	defer unlock()
 	cs := cstr(name)
@@ -162,8 +165,8 @@ func (f *File) closeLocked() error {
 		d.closeLocked()
 	}
 	var err error
-	if C.H5Fclose(f.id) < 0 {
-		err = stackError()
+	if r, cerr := C.H5Fclose(f.id); r < 0 {
+		err = stackErrno(cerr)
 	}
 	f.id = -1
 	return err
@@ -241,8 +244,8 @@ func (f *File) flushLocked() error {
 	if f.mode == modeRead {
 		return nil
 	}
-	if C.H5Fflush(f.id, C.H5F_SCOPE_GLOBAL) < 0 {
-		return f.err("flush", "", stackError())
+	if r, cerr := C.H5Fflush(f.id, C.H5F_SCOPE_GLOBAL); r < 0 {
+		return f.err("flush", "", stackErrno(cerr))
 	}
 	return nil
 }

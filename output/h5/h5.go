@@ -79,6 +79,7 @@ import (
 	"fmt"
 	"runtime"
 	"sync"
+	"syscall"
 	"unsafe"
 
 	"socmap/output/internal/atomicfile"
@@ -187,6 +188,10 @@ var (
 	// opens; another process has it open for writing, or the file is open
 	// for reading elsewhere and this open asks to write).
 	ErrLocked = errors.New("file is locked by another process (HDF5 file lock)")
+	// ErrWrite: writing to the file failed in the operating system (a full
+	// disk, a quota, an I/O error); the error also wraps the errno when
+	// known (errors.Is(err, syscall.ENOSPC)).
+	ErrWrite = errors.New("writing the file failed")
 )
 
 // ErrExist is returned (wrapped) when Create would replace an existing file
@@ -216,12 +221,27 @@ func (e *Error) Unwrap() error { return e.Err }
 // The caller holds the lock, so the stack belongs to the failed call.
 // An error stack that holds HDF5's "unable to lock file" entry (minor
 // error H5E_CANTLOCKFILE) gives an error wrapping ErrLocked.
-func stackError() error {
+func stackError() error { return stackErrno(nil) }
+
+// stackErrno is stackError for a call that writes to the file; cerr is the
+// errno cgo returned with the call. When the stack says that a write to the
+// file itself failed, the error wraps ErrWrite and the operating system's
+// cause (syscall.ENOSPC for a full disk, EDQUOT, EFBIG, EIO, …), so that it
+// reads "writing the file failed: no space left on device" instead of
+// HDF5's description of the failed call.
+func stackErrno(cerr error) error {
 	var buf [600]C.char
-	locked := C.sm_errmsg(&buf[0], C.size_t(len(buf))) != 0
+	flags := C.sm_errmsg(&buf[0], C.size_t(len(buf)))
 	err := errors.New("hdf5: " + C.GoString(&buf[0]))
-	if locked {
+	if flags&1 != 0 {
 		return fmt.Errorf("%w: %v", ErrLocked, err)
+	}
+	if flags&2 != 0 {
+		var en syscall.Errno
+		if errors.As(cerr, &en) && en != 0 {
+			return fmt.Errorf("%w: %w", ErrWrite, en)
+		}
+		return fmt.Errorf("%w (%v)", ErrWrite, err)
 	}
 	return err
 }

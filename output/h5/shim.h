@@ -27,9 +27,11 @@ hid_t sm_type(int code);
 herr_t sm_quiet(void);
 
 // sm_errmsg writes a one-line summary of the calling thread's error stack
-// into buf (outermost and innermost descriptions) and clears the stack. It
-// returns 1 when an entry of the stack is HDF5's "unable to lock file"
-// (minor error H5E_CANTLOCKFILE), else 0.
+// into buf (the first clause of the outermost and innermost descriptions)
+// and clears the stack. It returns a bit set: 1 when an entry of the stack
+// is HDF5's "unable to lock file" (minor error H5E_CANTLOCKFILE), 2 when an
+// entry is a failed write, seek or truncation of the file itself (major
+// H5E_IO, minor H5E_WRITEERROR, H5E_SEEKERROR or H5E_TRUNCATED).
 int sm_errmsg(char *buf, size_t n);
 
 hid_t sm_fcreate(const char *name);
