@@ -81,6 +81,11 @@ type Settings struct {
 	MaxSplitSteps int
 	// MaxIter: budget of finisher iterations. Default 3000.
 	MaxIter int
+	// ContinueIter (MultiStart only): further finisher iterations given to a
+	// start that ended unconverged with an energy below the kept converged
+	// start (see MultiStart). Default 2·MaxIter; negative: no continuation
+	// (the result then only warns).
+	ContinueIter int
 
 	// Threads: goroutines for pointwise passes and FFT pairs on grids of at
 	// least ParallelMin points. Default GOMAXPROCS (at most 8).
@@ -145,6 +150,9 @@ func (s Settings) withDefaults() Settings {
 	}
 	if s.MaxIter == 0 {
 		s.MaxIter = 3000
+	}
+	if s.ContinueIter == 0 {
+		s.ContinueIter = 2 * s.MaxIter
 	}
 	return s
 }
