@@ -17,10 +17,12 @@ type StartReport struct {
 	Mu         float64 // E_R
 	Residual   float64 // E_R
 	SplitSteps int
-	Iterations int
-	Phase      label.Phase // NotConverged unless Status == Converged
-	K1         float64     // dominant |k_x|, k_R
-	Sz         float64     // ⟨σ_z⟩ per particle (the tie-break of degenerate starts)
+	Iterations int // finisher iterations on the problem's grid (with continuation)
+	// CoarseIterations: finisher iterations on coarse grids (Settings.Coarsen)
+	CoarseIterations int
+	Phase            label.Phase // NotConverged unless Status == Converged
+	K1               float64     // dominant |k_x|, k_R
+	Sz               float64     // ⟨σ_z⟩ per particle (the tie-break of degenerate starts)
 }
 
 // Degenerate starts. Ground states of SOC condensates are degenerate (the
@@ -130,7 +132,8 @@ func MultiStart(p Problem, guesses []Guess, s *Settings, th label.Thresholds) (*
 			return nil, err
 		}
 		rep := StartReport{Name: gs.Name, Status: r.Status, Energy: r.Energies.Total, Mu: r.Energies.Mu,
-			Residual: r.Residual, SplitSteps: r.SplitSteps, Iterations: r.Iterations, Phase: ob.Phase, K1: ob.K1, Sz: ob.Sz}
+			Residual: r.Residual, SplitSteps: r.SplitSteps, Iterations: r.Iterations, CoarseIterations: r.CoarseIterations,
+			Phase: ob.Phase, K1: ob.K1, Sz: ob.Sz}
 		if rep.Name == "" {
 			rep.Name = guessName(gs)
 		}
@@ -176,6 +179,7 @@ func MultiStart(p Problem, guesses []Guess, s *Settings, th label.Thresholds) (*
 		rep.Iterations += r.Iterations
 		rep.Phase, rep.K1, rep.Sz = ob.Phase, ob.K1, ob.Sz
 		r.SplitSteps, r.Iterations = results[j].SplitSteps, rep.Iterations
+		r.CoarseIterations, r.CoarseShape = results[j].CoarseIterations, results[j].CoarseShape
 		r.EnergyHistory = append(results[j].EnergyHistory, r.EnergyHistory...)
 		r.ResidualHistory = append(results[j].ResidualHistory, r.ResidualHistory...)
 		results[j], observed[j] = r, ob

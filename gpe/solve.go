@@ -161,7 +161,7 @@ func (s Settings) withDefaults() Settings {
 		s.MaxIter = 3000
 	}
 	if s.ContinueIter == 0 {
-		s.ContinueIter = 2 * s.MaxIter
+		s.ContinueIter = 3 * s.MaxIter
 	}
 	return s
 }
