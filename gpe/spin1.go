@@ -111,19 +111,31 @@ func (s *Spin1State) check(g *Grid) error {
 type Spin1Problem struct {
 	Grid  *Grid
 	Model Spin1Model
+	// FixMagnetization: hold ⟨F_z⟩ = ∫F_z/∫n at Magnetization (−1 < M < 1)
+	// besides the norm (the collisions conserve F_z; experiments prepare
+	// it). Default false: ⟨F_z⟩ is free.
+	FixMagnetization bool
+	// Magnetization: M, the fixed ⟨F_z⟩ per particle when FixMagnetization.
+	Magnetization float64
 }
 
 // Spin1Energies of a state, per particle (divided by Norm), E_R.
 type Spin1Energies struct {
-	Kinetic     float64    // ⟨(k_x − K_m)² + k_⊥²⟩
-	Potential   float64    // ⟨V⟩
-	Zeeman      float64    // ⟨E_m⟩ (detunings, quadratic Zeeman, micromotion)
-	Coupling    float64    // ⟨(Ω/√2)F_x⟩
-	Density     float64    // (c0/2)∫n²/N
-	Spin        float64    // (c2/2)∫|F|²/N, spin-changing term included
-	Total       float64    // E/N
-	Mu          float64    // ⟨ψ,Hψ⟩/⟨ψ,ψ⟩
-	Residual    float64    // ‖Hψ − μψ‖, E_R
+	Kinetic   float64 // ⟨(k_x − K_m)² + k_⊥²⟩
+	Potential float64 // ⟨V⟩
+	Zeeman    float64 // ⟨E_m⟩ (detunings, quadratic Zeeman, micromotion)
+	Coupling  float64 // ⟨(Ω/√2)F_x⟩
+	Density   float64 // (c0/2)∫n²/N
+	Spin      float64 // (c2/2)∫|F|²/N, spin-changing term included
+	Total     float64 // E/N
+	// Mu: ⟨ψ,Hψ⟩/⟨ψ,ψ⟩; at fixed magnetisation the multiplier of the norm
+	// in Hψ ≈ μψ + λF_zψ (least squares), E_R.
+	Mu float64
+	// Lambda: at fixed magnetisation the multiplier λ of F_z (an effective
+	// linear Zeeman shift, E_R: the state is stationary for E − λ∫F_z at
+	// fixed norm); 0 when ⟨F_z⟩ is free.
+	Lambda      float64
+	Residual    float64    // ‖Hψ − μψ − λF_zψ‖, E_R
 	Norm        float64    // ∫n dV
 	Populations [3]float64 // ∫|ψ_m|²/∫n
 }
@@ -156,6 +168,10 @@ type spin1Engine struct {
 
 	psi, hpsi, tmp, q, p, gr, gOld, r [3][]complex128
 	alpha                             float64
+
+	// fixM: hold ∫F_z = mag·Norm (Spin1Problem.FixMagnetization).
+	fixM bool
+	mag  float64
 }
 
 func newSpin1Engine(g *Grid, m Spin1Model, b fft.Backend) (*spin1Engine, error) {
@@ -325,6 +341,9 @@ func (e *spin1Engine) norm(x *[3][]complex128) float64 {
 }
 
 func (e *spin1Engine) normalize() error {
+	if e.fixM {
+		return e.project()
+	}
 	s := e.norm(&e.psi)
 	if !(s > 0) || math.IsInf(s, 0) {
 		return fmt.Errorf("gpe: spin-1 state has norm %g", s)
@@ -336,6 +355,71 @@ func (e *spin1Engine) normalize() error {
 		}
 	}
 	return nil
+}
+
+// pops returns the populations ∫|x_m|² dV of the three components.
+func (e *spin1Engine) pops(x *[3][]complex128) [3]float64 {
+	var p [3]float64
+	for c := 0; c < 3; c++ {
+		for _, v := range x[c] {
+			p[c] += abs2(v)
+		}
+		p[c] *= e.dV
+	}
+	return p
+}
+
+// project scales the components by σ_m = a·b^m so that ∫n = Norm and
+// ∫F_z = M·Norm: the normalisation of the gradient flow with two Lagrange
+// multipliers, e^{−τ(H − μ − λF_z)} after a step of e^{−τH}, whose factors
+// e^{τ(μ+λm)} have exactly this form (W. Bao and F. Y. Lim, SIAM J. Sci.
+// Comput. 30, 1925 (2008), their continuous normalised gradient flow for
+// spin-1, from memory; the algebra derived here). With n_m = N_m/Norm and
+// x = b²: a²(x n₊ + n₀ + n₋/x) = 1 and a²(x n₊ − n₋/x) = M give
+// (1 − M) n₊ x² − M n₀ x − (1 + M) n₋ = 0, whose positive root is
+// x = [M n₀ + √(M²n₀² + 4(1 − M²) n₊n₋)] / (2(1 − M) n₊).
+// The root exists when n₊ > 0 and n₋ > 0 (Solve seeds empty components).
+func (e *spin1Engine) project() error {
+	P := e.pops(&e.psi)
+	N, M := e.m.Norm, e.mag
+	np, n0, nm := P[0]/N, P[1]/N, P[2]/N
+	if np == 0 && nm == 0 && M == 0 && n0 > 0 { // a polar state holds M = 0
+		f := complex(math.Sqrt(1/n0), 0)
+		for i := range e.psi[1] {
+			e.psi[1][i] *= f
+		}
+		return nil
+	}
+	if !(np > 0) || !(nm > 0) || math.IsInf(np+n0+nm, 0) {
+		return fmt.Errorf("gpe: spin-1 state cannot hold ⟨F_z⟩ = %g (populations %g, %g, %g)", M, np, n0, nm)
+	}
+	x := (M*n0 + math.Sqrt(M*M*n0*n0+4*(1-M*M)*np*nm)) / (2 * (1 - M) * np)
+	a2 := 1 / (x*np + n0 + nm/x)
+	f := [3]complex128{complex(math.Sqrt(a2*x), 0), complex(math.Sqrt(a2), 0), complex(math.Sqrt(a2/x), 0)}
+	for c := 0; c < 3; c++ {
+		for i := range e.psi[c] {
+			e.psi[c][i] *= f[c]
+		}
+	}
+	return nil
+}
+
+// seedEmpty gives a component with less than 1e-8 of the atoms the
+// amplitude 1e-4·√n(x) (real), so that project can reach any M in (−1, 1);
+// then projects. A documented, deterministic choice.
+func (e *spin1Engine) seedEmpty() error {
+	P := e.pops(&e.psi)
+	tot := P[0] + P[1] + P[2]
+	for c := 0; c < 3; c++ {
+		if P[c] >= 1e-8*tot {
+			continue
+		}
+		for i := 0; i < e.n; i++ {
+			n := abs2(e.psi[0][i]) + abs2(e.psi[1][i]) + abs2(e.psi[2][i])
+			e.psi[c][i] += complex(1e-4*math.Sqrt(n), 0)
+		}
+	}
+	return e.project()
 }
 
 // splitSteps takes n Strang steps exp(−τL/2) exp(−τK) exp(−τL/2) with
@@ -449,10 +533,26 @@ func (e *spin1Engine) evaluate() Spin1Energies {
 		en.Populations[c] = pops[c] / nrm
 	}
 	en.Mu = hh / nrm
+	if e.fixM {
+		// least squares Hψ ≈ μψ + λF_zψ: the Gram system of ψ and F_zψ
+		// (⟨ψ,ψ⟩ = N, ⟨ψ,F_zψ⟩ = N₊ − N₋, ⟨F_zψ,F_zψ⟩ = N₊ + N₋)
+		hz := 0.0
+		for i := range e.psi[0] {
+			hz += real(cmplx.Conj(e.psi[0][i])*e.hpsi[0][i]) - real(cmplx.Conj(e.psi[2][i])*e.hpsi[2][i])
+		}
+		hz *= e.dV
+		a, b, d := nrm, pops[0]-pops[2], pops[0]+pops[2]
+		if det := a*d - b*b; det > 1e-12*a*a {
+			en.Mu = (d*hh - b*hz) / det
+			en.Lambda = (a*hz - b*hh) / det
+		}
+	}
 	rr := 0.0
+	zf := [3]float64{1, 0, -1}
 	for c := 0; c < 3; c++ {
+		sh := complex(en.Mu+en.Lambda*zf[c], 0)
 		for i, v := range e.psi[c] {
-			d := e.hpsi[c][i] - complex(en.Mu, 0)*v
+			d := e.hpsi[c][i] - sh*v
 			e.r[c][i] = d
 			rr += abs2(d)
 		}
@@ -509,10 +609,26 @@ func (e *spin1Engine) cg(set Settings, hist func(Spin1Energies)) (int, Status) {
 		// g = P r − β P ψ
 		e.applyK(&e.gr, &e.r, pre)
 		e.applyK(&e.tmp, &e.psi, pre)
-		beta := reDot(&e.psi, &e.gr) / reDot(&e.psi, &e.tmp)
-		for c := 0; c < 3; c++ {
-			for i := range e.gr[c] {
-				e.gr[c][i] -= complex(beta, 0) * e.tmp[c][i]
+		if e.fixM {
+			// g ⊥ ψ and ⊥ F_zψ: g = P r − βPψ − γF_zPψ (P and F_z commute)
+			a, b, d := reDot(&e.psi, &e.tmp), reDotZ(&e.psi, &e.tmp), reDotZZ(&e.psi, &e.tmp)
+			u, v := reDot(&e.psi, &e.gr), reDotZ(&e.psi, &e.gr)
+			beta, gamma := u/a, 0.0
+			if det := a*d - b*b; det > 1e-12*a*a {
+				beta, gamma = (d*u-b*v)/det, (a*v-b*u)/det
+			}
+			for c := 0; c < 3; c++ {
+				f := complex(beta+gamma*spin1Fz[c], 0)
+				for i := range e.gr[c] {
+					e.gr[c][i] -= f * e.tmp[c][i]
+				}
+			}
+		} else {
+			beta := reDot(&e.psi, &e.gr) / reDot(&e.psi, &e.tmp)
+			for c := 0; c < 3; c++ {
+				for i := range e.gr[c] {
+					e.gr[c][i] -= complex(beta, 0) * e.tmp[c][i]
+				}
 			}
 		}
 		rg := reDot(&e.r, &e.gr)
@@ -544,6 +660,9 @@ func (e *spin1Engine) cg(set Settings, hist func(Spin1Energies)) (int, Status) {
 				e.q[c][i] = e.p[c][i] - complex(pp, 0)*e.psi[c][i]
 			}
 		}
+		if e.fixM {
+			e.tangentZ(&e.q) // also ⊥ F_zψ: ∫F_z changes at second order only
+		}
 		qn := e.norm(&e.q)
 		if !(qn > 0) {
 			return it - 1, spin1StatusAt(en, set)
@@ -554,7 +673,7 @@ func (e *spin1Engine) cg(set Settings, hist func(Spin1Energies)) (int, Status) {
 				e.q[c][i] *= f
 			}
 		}
-		th, dE := e.lineSearch()
+		th, dE := e.lineSearch(en.Lambda)
 		if !(dE < 0) {
 			if b == 0 {
 				return it - 1, spin1StatusAt(en, set)
@@ -582,6 +701,51 @@ func (e *spin1Engine) cg(set Settings, hist func(Spin1Energies)) (int, Status) {
 	return set.MaxIter, MaxIterations
 }
 
+// spin1Fz is F_z on the components m = +1, 0, −1.
+var spin1Fz = [3]float64{1, 0, -1}
+
+// reDotZ is Re⟨a, F_z b⟩ (sum over points, no dV).
+func reDotZ(a, b *[3][]complex128) float64 {
+	s := 0.0
+	for _, c := range []int{0, 2} {
+		t := 0.0
+		for i := range a[c] {
+			t += real(a[c][i])*real(b[c][i]) + imag(a[c][i])*imag(b[c][i])
+		}
+		s += spin1Fz[c] * t
+	}
+	return s
+}
+
+// reDotZZ is Re⟨F_z a, F_z b⟩ (sum over points, no dV).
+func reDotZZ(a, b *[3][]complex128) float64 {
+	s := 0.0
+	for _, c := range []int{0, 2} {
+		for i := range a[c] {
+			s += real(a[c][i])*real(b[c][i]) + imag(a[c][i])*imag(b[c][i])
+		}
+	}
+	return s
+}
+
+// tangentZ removes from x (already ⊥ ψ) its part along ψ and F_zψ together
+// (the Gram system of the two), so that x is tangent to both constraints.
+func (e *spin1Engine) tangentZ(x *[3][]complex128) {
+	a, b, d := reDot(&e.psi, &e.psi), reDotZ(&e.psi, &e.psi), reDotZZ(&e.psi, &e.psi)
+	u, v := reDot(&e.psi, x), reDotZ(&e.psi, x)
+	det := a*d - b*b
+	if !(det > 1e-12*a*a) {
+		return
+	}
+	al, be := (d*u-b*v)/det, (a*v-b*u)/det
+	for c := 0; c < 3; c++ {
+		f := complex(al+be*spin1Fz[c], 0)
+		for i := range x[c] {
+			x[c][i] -= f * e.psi[c][i]
+		}
+	}
+}
+
 func spin1StatusAt(en Spin1Energies, set Settings) Status {
 	if en.Residual <= set.Tol {
 		return Converged
@@ -590,13 +754,16 @@ func spin1StatusAt(en Spin1Energies, set Settings) Status {
 }
 
 // lineSearch returns the θ ∈ (0, π/2] of lowest E(cos θ ψ + sin θ q) and
-// ΔE(θ) = E(θ) − E(0) (not per particle). ΔE is computed without
+// ΔE(θ) = E(θ) − E(0) (not per particle); with λ ≠ 0 (fixed
+// magnetisation) it minimises the Lagrangian ΔE − λΔ∫F_z instead: the
+// projection back onto ∫F_z = M·Norm that follows the step moves ψ within
+// span{ψ, F_zψ} and changes E by −λΔ∫F_z to first order. ΔE is computed without
 // cancellation: every bilinear X of the state changes by
 // ΔX = −s²X_ψψ + cs X_ψq + s²X_qq (c = cos θ, s = sin θ) and every square by
 // ΔX(2X + ΔX), so that descents far below the rounding of E itself are seen
 // (the finisher works at residuals ~1e-8, where ΔE ~ 1e-16 E). The kinetic
 // part is ΔT = −s²T_ψψ + 2cs T_ψq + s²T_qq from three transforms.
-func (e *spin1Engine) lineSearch() (float64, float64) {
+func (e *spin1Engine) lineSearch(lambda float64) (float64, float64) {
 	tpp := e.kinEnergy(&e.psi)
 	tqq := e.kinEnergy(&e.q)
 	var sum [3][]complex128
@@ -612,7 +779,7 @@ func (e *spin1Engine) lineSearch() (float64, float64) {
 	dE := func(th float64) float64 {
 		c, s := math.Cos(th), math.Sin(th)
 		cs, s2 := c*s, s*s
-		var lin, den, spin float64
+		var lin, den, spin, mz float64
 		for i := 0; i < e.n; i++ {
 			var n0, dn [3]float64
 			var pv [3]complex128
@@ -636,8 +803,9 @@ func (e *spin1Engine) lineSearch() (float64, float64) {
 			den += dnt * (2*nt + dnt)
 			fz, dfz := n0[0]-n0[2], dn[0]-dn[2]
 			spin += dfz*(2*fz+dfz) + 2*(real(f0)*real(df)+imag(f0)*imag(df)) + abs2(df)
+			mz += dfz
 		}
-		return -s2*tpp + 2*cs*tpq + s2*tqq + (lin+m.C0/2*den+m.C2/2*spin)*e.dV
+		return -s2*tpp + 2*cs*tpq + s2*tqq + (lin+m.C0/2*den+m.C2/2*spin-lambda*mz)*e.dV
 	}
 	const nscan = 60
 	const q = 0.7071067811865476
@@ -688,6 +856,13 @@ func (e *spin1Engine) lineSearch() (float64, float64) {
 // local split step is the exact exponential of the 3×3 local operator
 // (expHerm3), spin-mixing term included. Settings.Threads, FFTMode and
 // Progress are not used (one goroutine).
+//
+// With p.FixMagnetization the flow holds ∫F_z = M·Norm too: every
+// renormalisation is the two-multiplier projection (see project; components
+// with less than 1e-8 of the atoms are seeded first), the finisher's
+// gradient and search directions are tangent to both constraints, its line
+// search minimises E − λ∫F_z, and each step ends on the projection; the
+// residual is that of Hψ = μψ + λF_zψ.
 func Spin1Solve(p Spin1Problem, init *Spin1State, s *Settings) (*Spin1Result, error) {
 	var set Settings
 	if s != nil {
@@ -703,15 +878,24 @@ func Spin1Solve(p Spin1Problem, init *Spin1State, s *Settings) (*Spin1Result, er
 	if err := init.check(p.Grid); err != nil {
 		return nil, err
 	}
+	if err := p.checkMagnetization(); err != nil {
+		return nil, err
+	}
 	e, err := newSpin1Engine(p.Grid, p.Model, set.Backend)
 	if err != nil {
 		return nil, err
 	}
 	defer e.close()
+	e.fixM, e.mag = p.FixMagnetization, p.Magnetization
 	for c := 0; c < 3; c++ {
 		copy(e.psi[c], init.Psi[c])
 	}
-	if err := e.normalize(); err != nil {
+	if e.fixM {
+		err = e.seedEmpty()
+	} else {
+		err = e.normalize()
+	}
+	if err != nil {
 		return nil, err
 	}
 	res := &Spin1Result{Status: MaxIterations}
@@ -766,7 +950,16 @@ func Spin1Solve(p Spin1Problem, init *Spin1State, s *Settings) (*Spin1Result, er
 	return res, nil
 }
 
-// Spin1Evaluate returns the energies of st for p.
+func (p Spin1Problem) checkMagnetization() error {
+	if p.FixMagnetization && !(p.Magnetization > -1 && p.Magnetization < 1) {
+		return fmt.Errorf("gpe: magnetisation %g: a fixed ⟨F_z⟩ must lie in (−1, 1)", p.Magnetization)
+	}
+	return nil
+}
+
+// Spin1Evaluate returns the energies of st for p (with p.FixMagnetization
+// the multipliers μ, λ and the residual of the constrained problem; st is
+// not projected).
 func Spin1Evaluate(p Spin1Problem, st *Spin1State, b fft.Backend) (Spin1Energies, error) {
 	if err := p.Model.Validate(p.Grid); err != nil {
 		return Spin1Energies{}, err
@@ -779,6 +972,7 @@ func Spin1Evaluate(p Spin1Problem, st *Spin1State, b fft.Backend) (Spin1Energies
 		return Spin1Energies{}, err
 	}
 	defer e.close()
+	e.fixM, e.mag = p.FixMagnetization, p.Magnetization
 	for c := 0; c < 3; c++ {
 		copy(e.psi[c], st.Psi[c])
 	}

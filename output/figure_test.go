@@ -511,7 +511,8 @@ func dist(a, b color.Color) float64 {
 // Every phase code has its own colour, visible on white and distinct from
 // the others.
 func TestPhaseColors(t *testing.T) {
-	for i, p := range label.All {
+	all := mapPhases // label.All and the spin-1 codes
+	for i, p := range all {
 		c, ok := phaseColors[p]
 		if !ok {
 			t.Errorf("phase code %d (%s) has no entry in output.phaseColors: add one", int8(p), p)
@@ -520,7 +521,7 @@ func TestPhaseColors(t *testing.T) {
 		if dist(c, color.White) < 40 {
 			t.Errorf("%s: colour %v too close to the white background", p, c)
 		}
-		for _, q := range label.All[i+1:] {
+		for _, q := range all[i+1:] {
 			if d, ok := phaseColors[q]; ok && dist(c, d) < 40 {
 				t.Errorf("%s and %s: colours %v and %v too close", p, q, c, d)
 			}

@@ -30,7 +30,14 @@ var phaseColors = map[label.Phase]color.Color{
 	label.NotConverged:  color.RGBA{80, 80, 80, 255},    // dark grey
 	label.NoCoupling:    color.RGBA{105, 180, 140, 255}, // green
 	label.UnderResolved: color.RGBA{110, 70, 30, 255},   // dark brown
+	// the three-level (spin-1) phases
+	label.Stripe3:           color.RGBA{120, 30, 80, 255},   // dark magenta
+	label.BrokenAxisymmetry: color.RGBA{60, 120, 200, 255},  // teal blue
+	label.Antiferromagnetic: color.RGBA{160, 120, 210, 255}, // violet
 }
+
+// mapPhases are the codes a map can hold: label.All and the spin-1 codes.
+var mapPhases = append(label.All[:len(label.All):len(label.All)], label.Spin1Codes...)
 
 // spareColor is drawn for a code without an entry in phaseColors, so that
 // it is never invisible.
@@ -119,7 +126,7 @@ func (mp MapPlot) Figure() (*Figure, error) {
 	if err := mp.regionNames(p, xv, yv); err != nil {
 		return nil, err
 	}
-	for _, ph := range label.All {
+	for _, ph := range mapPhases {
 		if counts[ph] > 0 {
 			p.Legend.Add(ph.String(), Swatch{PhaseColor(ph)})
 		}
@@ -196,7 +203,7 @@ func (mp MapPlot) Figure() (*Figure, error) {
 }
 
 func knownPhase(p label.Phase) bool {
-	for _, q := range label.All {
+	for _, q := range mapPhases {
 		if q == p {
 			return true
 		}
@@ -241,7 +248,7 @@ func (mp MapPlot) regionNames(p *plot.Plot, xv, yv []float64) error {
 	var names []string
 	var xa []draw.XAlignment
 	var ya []draw.YAlignment
-	for _, ph := range label.All {
+	for _, ph := range mapPhases {
 		if ph == label.NotComputed {
 			continue
 		}

@@ -82,6 +82,9 @@ func (r *MapResult) Plot() MapPlot {
 		}
 		title = fmt.Sprintf("Phase diagram from %dD %s, %s", dims, what, r.subtitle())
 	}
+	if d.Spec.Method == string(phases.MethodSpin1) {
+		title = fmt.Sprintf("Spin-1 (F = 1) variational phase diagram, %s", r.subtitle())
+	}
 	mp := MapPlot{Data: d, Title: r.titleWith(title)}
 	if r.Problem != nil {
 		xs, ys := axisScale(d.Spec.Sweep.X), axisScale(d.Spec.Sweep.Y)
@@ -107,7 +110,11 @@ func (r *MapResult) titleWith(title string) string {
 			except = append(except, def.Overrides...)
 		}
 	}
-	return titleWith(title, SettingParts(r.Problem.Lab, except), 110)
+	parts := SettingParts(r.Problem.Lab, except)
+	if r.Problem.Method == phases.MethodSpin1 {
+		parts = spin1SettingParts(r.Problem, parts)
+	}
+	return titleWith(title, parts, 110)
 }
 
 func axisScale(a phases.Axis) float64 {
@@ -214,6 +221,11 @@ func (r *MapResult) Table() *Table {
 	t.Section("Points per phase")
 	for _, p := range label.All[1:] {
 		t.Row(p.String(), strconv.Itoa(counts[p]), "")
+	}
+	for _, p := range label.Spin1Codes { // the three-level phases, when present
+		if counts[p] > 0 {
+			t.Row(p.String(), strconv.Itoa(counts[p]), "")
+		}
 	}
 	sw := d.Spec.Sweep
 	if d.NY == 1 {

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"strings"
 
 	"socmap/dispersion"
 	"socmap/output/h5"
@@ -134,7 +135,7 @@ func (r Spin1Ground) JSON() map[string]any {
 	for _, s := range r.Multi.Starts {
 		starts = append(starts, map[string]any{"name": s.Name, "status": s.Status.String(), "energy_per_particle_over_ER": s.Energy, "residual_over_ER": s.Residual})
 	}
-	return map[string]any{
+	doc := map[string]any{
 		"levels":                              3,
 		"status":                              r.Status.String(),
 		"phase":                               ob.Phase.String(),
@@ -156,7 +157,54 @@ func (r Spin1Ground) JSON() map[string]any {
 		"two_level_phase":                     r.PairPhase,
 		"two_level_minus_three_level_over_ER": r.PairEnergyDiff,
 		"warnings":                            r.Warnings,
+		"notes":                               r.Notes,
+		"geometry":                            r.geometry(),
+		"variational_where":                   r.VariationalWhere,
+		"variational_nc0_over_ER":             r.VarG0,
+		"variational_nc2_over_ER":             r.VarG2,
+		"magnetization_fixed":                 r.Problem.FixMagnetization,
 	}
+	if r.Problem.FixMagnetization {
+		doc["magnetization"] = r.Problem.Magnetization
+		doc["lambda_over_ER"] = b.Energies.Lambda
+	}
+	if r.Trapped {
+		doc["atoms"] = r.Problem.Model.Norm
+		doc["trap_angular_freq_over_ER"] = r.Problem.Model.Potential.AngularFreq[:g.Dim]
+		doc["peak_density_kR_d"] = r.PeakDensity
+		if r.Units != nil {
+			doc["trap_hz"] = trapHz(r)
+			doc["box_length_m"] = siLengths(r)
+			doc["peak_density_per_m_d"] = r.PeakDensity * math.Pow(r.Units.KR, float64(g.Dim))
+		}
+	}
+	return doc
+}
+
+func (r Spin1Ground) geometry() string {
+	if r.Trapped {
+		return "harmonic trap"
+	}
+	return "uniform box"
+}
+
+// trapHz: the trap frequencies of the grid's axes in Hz.
+func trapHz(r Spin1Ground) []float64 {
+	g := r.Problem.Grid
+	var f []float64
+	for a := 0; a < g.Dim; a++ {
+		f = append(f, r.Units.EnergyHz(r.Problem.Model.Potential.AngularFreq[a]))
+	}
+	return f
+}
+
+func siLengths(r Spin1Ground) []float64 {
+	g := r.Problem.Grid
+	var l []float64
+	for a := 0; a < g.Dim; a++ {
+		l = append(l, g.L[a]/r.Units.KR)
+	}
+	return l
 }
 
 // Table renders the result.
@@ -164,15 +212,30 @@ func (r Spin1Ground) Table() *Table {
 	N := Num
 	b := r.Multi.Best
 	ob := r.Observed
-	t := &Table{Title: fmt.Sprintf("Spin-1 ground state (uniform box, %dD): %s", r.Problem.Grid.Dim, ob.Phase)}
+	t := &Table{Title: fmt.Sprintf("Spin-1 ground state (%s, %dD): %s", r.geometry(), r.Problem.Grid.Dim, ob.Phase)}
 	t.Row("status", b.Status.String(), "")
+	if r.Trapped {
+		t.Row("atoms", N(r.Problem.Model.Norm, 6), "")
+		if r.Units != nil {
+			t.Row("trap frequencies", fmtList(trapHz(r), 5), "Hz")
+		}
+		t.Row("Thomas–Fermi peak density", N(r.PeakDensity, 6), "k_R^d")
+	}
+	t.Row("grid points", fmt.Sprint(r.Problem.Grid.Shape()), "")
+	t.Row("box length", fmtList(r.Problem.Grid.L[:r.Problem.Grid.Dim], 5), "1/k_R")
 	t.Row("energy per particle", N(b.Energies.Total, 10), "E_R")
 	t.Row("chemical potential", N(b.Energies.Mu, 8), "E_R")
-	t.Row("residual ‖Hψ − μψ‖", N(b.Residual, 3), "E_R")
+	if r.Problem.FixMagnetization {
+		t.RowNote("magnetisation fixed at", N(r.Problem.Magnetization, 6), "", "⟨F_z⟩ per particle")
+		t.RowNote("multiplier λ of F_z", N(b.Energies.Lambda, 8), "E_R", "effective linear Zeeman shift that holds M")
+		t.Row("residual ‖Hψ − μψ − λF_zψ‖", N(b.Residual, 3), "E_R")
+	} else {
+		t.Row("residual ‖Hψ − μψ‖", N(b.Residual, 3), "E_R")
+	}
 	t.Row("populations m = +1, 0, −1", fmt.Sprintf("%s, %s, %s", N(ob.Populations[0], 6), N(ob.Populations[1], 6), N(ob.Populations[2], 6)), "")
 	t.Row("⟨F_z⟩ per particle", N(ob.Fz, 6), "")
 	t.Row("f_perp (rms |F_x + iF_y|)", N(ob.FPerp, 6), "")
-	t.Section("Variational theory")
+	t.Section("Variational theory (" + r.VariationalWhere + ")")
 	t.RowNote("phase", r.Variational.Phase.String(), "", r.Variational.Name)
 	t.Row("energy per particle", N(r.Variational.Energy, 10), "E_R")
 	t.Section("Two-level model of the reference pair")
@@ -181,10 +244,21 @@ func (r Spin1Ground) Table() *Table {
 	if math.Abs(r.PairEnergyDiff) > 1e-3 {
 		t.Text("the third level matters here: keep --levels 3")
 	}
+	for _, n := range r.Notes {
+		t.Text(n)
+	}
 	for _, w := range r.Warnings {
 		t.Text("warning: " + w)
 	}
 	return t
+}
+
+func fmtList(v []float64, digits int) string {
+	s := make([]string, len(v))
+	for i, x := range v {
+		s[i] = Num(x, digits)
+	}
+	return strings.Join(s, " × ")
 }
 
 // WriteH5 writes the three complex components, their densities and their
@@ -193,20 +267,36 @@ func (r Spin1Ground) WriteH5(w *Writer) {
 	g := r.Problem.Grid
 	st := r.Multi.Best.State
 	shape := g.Shape()
+	normText, densText := "box volume", "mean total density 1"
+	if r.Trapped {
+		normText, densText = "N (atoms)", "atoms per (1/k_R)^d"
+	}
 	for c := 0; c < 3; c++ {
 		if w.Err == nil {
 			w.Err = w.F.WriteComplex128s(fmt.Sprintf("/state/psi_m%s", mName[c]), st.Psi[c], shape,
-				h5.Meta{Units: "(k_R)^(d/2)", Description: fmt.Sprintf("ψ of m = %s on the grid, row-major (x slowest), ∫Σ|ψ_m|² = box volume", mName[c])})
+				h5.Meta{Units: "(k_R)^(d/2)", Description: fmt.Sprintf("ψ of m = %s on the grid, row-major (x slowest), ∫Σ|ψ_m|² = %s", mName[c], normText)})
 		}
 		d := make([]float64, g.Size)
 		for i, v := range st.Psi[c] {
 			d[i] = real(v)*real(v) + imag(v)*imag(v)
 		}
-		w.Array(fmt.Sprintf("/state/density_m%s", mName[c]), d, shape, "(k_R)^d", fmt.Sprintf("|ψ|² of m = %s (mean total density 1)", mName[c]))
+		w.Array(fmt.Sprintf("/state/density_m%s", mName[c]), d, shape, "(k_R)^d", fmt.Sprintf("|ψ|² of m = %s (%s)", mName[c], densText))
 		w.Array(fmt.Sprintf("/momentum/m%s", mName[c]), r.Observed.MomentumX[c], nil, "dimensionless", fmt.Sprintf("fraction of atoms of m = %s at k_x (summed over k_⊥)", mName[c]))
 	}
 	w.Array("/momentum/kx", r.Observed.Kx, nil, "k_R", "k_x of the momentum distributions (ascending)")
-	w.Array("/grid/x", g.X[0], nil, "1/k_R", "x coordinates")
+	for a, name := range []string{"x", "y", "z"}[:g.Dim] {
+		w.Array("/grid/"+name, g.X[a], nil, "1/k_R", name+" coordinates")
+	}
+	if r.Trapped {
+		w.Array("/model/trap_angular_freq", append([]float64(nil), r.Problem.Model.Potential.AngularFreq[:g.Dim]...), nil, "E_R/ħ", "harmonic trap angular frequencies per grid axis")
+		w.Scalar("/model/atoms", r.Problem.Model.Norm, "dimensionless", "atom number N")
+	}
+	w.Scalar("/model/c0", r.Problem.Model.C0, "E_R (1/k_R)^d", "density coupling c0 in the grid's dimension (per ψ normalised to the norm)")
+	w.Scalar("/model/c2", r.Problem.Model.C2, "E_R (1/k_R)^d", "spin coupling c2 in the grid's dimension")
+	if r.Problem.FixMagnetization {
+		w.Scalar("/observables/lambda", r.Multi.Best.Energies.Lambda, "E_R", "multiplier λ of F_z that holds the fixed magnetisation")
+		w.Attr("/observables", "magnetization_fixed", fmt.Sprint(r.Problem.Magnetization))
+	}
 	ob := r.Observed
 	w.Array("/observables/populations", append([]float64(nil), ob.Populations[:]...), nil, "dimensionless", "fractions in m = +1, 0, −1")
 	w.Scalar("/observables/fz", ob.Fz, "dimensionless", "⟨F_z⟩ per particle")

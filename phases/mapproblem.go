@@ -39,6 +39,8 @@ type MapProblem struct {
 	// Variational configures the variational theory (nil: defaults); with
 	// MethodGPE it is GPE.Variational's default.
 	Variational *Settings
+	// Spin1 configures MethodSpin1 (spin1map.go).
+	Spin1 Spin1MapSettings
 	// HoldDelta holds the detuning while the axes change the lab setting
 	// (sweeps of gradient, shaking frequency, bias, density, …), as a lab
 	// retunes the RF at every setting:
@@ -82,6 +84,9 @@ func (p *MapProblem) method() Method {
 // Sweep returns the map's axes and the method's observables, followed by
 // LabObservables when the lab's scheme has an atom (HasLabUnits).
 func (p *MapProblem) Sweep() Sweep {
+	if p.method() == MethodSpin1 {
+		return Sweep{X: p.X, Y: p.Y, Observables: Spin1Observables}
+	}
 	obs := VariationalObservables
 	if p.method() == MethodGPE {
 		obs = GPEObservables
@@ -133,8 +138,8 @@ func labValues(u Uniform, m dispersion.Model, r PointResult) []float64 {
 // last point (a point without recoil, ErrNoRecoil, is allowed: it is
 // labelled label.NoCoupling).
 func (p *MapProblem) Check() error {
-	if m := p.method(); m != MethodVariational && m != MethodGPE {
-		return fmt.Errorf("method %q: allowed: variational, gpe", p.Method)
+	if m := p.method(); m != MethodVariational && m != MethodGPE && m != MethodSpin1 {
+		return fmt.Errorf("method %q: allowed: variational, gpe, %s", p.Method, MethodSpin1)
 	}
 	if p.X.Len() == 0 {
 		return errors.New("the x axis has no points")
@@ -149,6 +154,9 @@ func (p *MapProblem) Check() error {
 	}
 	if p.Y.Len() > 0 && p.Y.Name == p.X.Name {
 		return fmt.Errorf("the y axis is the x axis (%s)", p.X.Name)
+	}
+	if p.method() == MethodSpin1 {
+		return p.checkSpin1()
 	}
 	switch p.HoldDelta {
 	case HoldOff, HoldToBalance, HoldCompensate:
@@ -235,6 +243,9 @@ func (p *MapProblem) Uniform(ix, iy int) (Uniform, error) {
 // With lab units (HasLabUnits) each point's model is resolved once and
 // LabObservables follow the method's values.
 func (p *MapProblem) Points() PointFunc {
+	if p.method() == MethodSpin1 {
+		return p.Spin1Points()
+	}
 	if p.Trap != nil && p.method() == MethodGPE {
 		return p.trapPoints()
 	}
@@ -326,6 +337,9 @@ func (p *MapProblem) Identity() Identity {
 			f := p.Trap.FreqHz
 			add("trap", fmt.Sprintf("%s,%s,%s Hz", num(f[0]), num(f[1]), num(f[2])))
 		}
+	}
+	if p.method() == MethodSpin1 {
+		id = append(id, p.spin1Identity()...)
 	}
 	th := thresholds(p.Variational)
 	add("threshold-single-minimum-k", num(th.SingleMinimumK))

@@ -46,45 +46,90 @@ func Spin1FromScheme(s dispersion.Scheme, epsilon float64) (dispersion.Spin1Mode
 	return dispersion.Spin1Model{}, nil, fmt.Errorf("%w: scheme %q has no three-level model", dispersion.ErrBadInput, s.Name())
 }
 
-// Spin1GroundProblem is the ground state of a uniform spin-1 gas in a
-// periodic box (the uniform-box part of `ground --levels 3`).
+// Spin1GroundProblem is the ground state of a spin-1 gas: uniform in a
+// periodic box (n·c0, n·c2 given) or N atoms in a harmonic trap
+// (interactions from the F = 1 scattering lengths). The `ground --levels 3`
+// problem.
 type Spin1GroundProblem struct {
-	Model  dispersion.Spin1Model
-	G0, G2 float64 // n c0, n c2 in E_R
+	// Model: the three-level single-particle model (Spin1FromScheme). A
+	// trap needs its k_R and E_R (a scheme, not a direct model). Required.
+	Model dispersion.Spin1Model
+	// G0, G2: n c0, n c2 in E_R of the uniform box; not used with a Trap.
+	G0, G2 float64
+	// Trap: nil for the uniform periodic box; otherwise N atoms in a
+	// harmonic trap. Default nil.
+	Trap *Spin1Trap
 	// Dims: 1, 2 or 3 (default 1).
 	Dims int
-	// Lengths (1/k_R) per axis; nil: automatic, L_x = the shortest of
+	// Lengths (1/k_R) per axis; nil: automatic. Box: L_x = the shortest of
 	// j·gpe.AutoLength(k) (j = 1 … 8, k the largest wave momentum of the
 	// variational winner through gpe.BoxMomentum) that admits every wave
 	// momentum of the winner (else j = 1, with a warning); transverse axes
-	// gpe.AutoTransverse.
+	// gpe.AutoTransverse. Trap: as the two-level GroundProblem, 2.6 × the
+	// larger of the Thomas–Fermi radius (of c0 + max(c2, 0), the widest
+	// cloud) and four oscillator lengths per axis.
 	Lengths []float64
 	// Points per axis; nil: the smallest power of two from
 	// gpe.AutoPointsMin[dim] with k_max = πn/L ≥ 4 + max|K_m| (the offsets
 	// K_m shift the parabolas), at most gpe.AutoPointsMax[dim].
 	Points []int
-	// Variational: settings of the variational step (nil: defaults).
+	// FixMagnetization, Magnetization: hold ⟨F_z⟩ = M (−1 < M < 1) in the
+	// variational theory and the GPE (gpe.Spin1Problem). Default: free.
+	FixMagnetization bool
+	Magnetization    float64
+	// Variational: settings of the variational step (nil: defaults; its
+	// magnetisation fields are overridden by the two above).
 	Variational *Spin1Settings
+}
+
+// Spin1Trap is N atoms of an F = 1 gas in a harmonic trap.
+type Spin1Trap struct {
+	// Atoms: the atom number N (≥ 1).
+	Atoms float64
+	// FreqHz: trap frequencies f_x, f_y, f_z in Hz (all > 0). Axes beyond
+	// the grid's dimension are frozen out (reduced couplings of
+	// gpe.Trapped: g_1D = g/(2π a⊥²), g_2D = g/(√(2π) a_z)).
+	FreqHz [3]float64
+	// Couplings: the F = 1 scattering lengths A0, A2 (m) are used:
+	// c0 ∝ (a0 + 2a2)/3, c2 ∝ (a2 − a0)/3.
+	Couplings dispersion.Spin1Couplings
 }
 
 // Spin1GroundResult is the solution of a Spin1GroundProblem.
 type Spin1GroundResult struct {
-	Problem     gpe.Spin1Problem
+	Problem gpe.Spin1Problem
+	// Trapped: a harmonic trap (else the uniform box).
+	Trapped bool
+	// Units: k_R and E_R in SI (nil for a direct model).
+	Units *gpe.Units
+	// Where the variational answer applies: "uniform box" or "uniform gas
+	// at the Thomas–Fermi peak density"; VarG0, VarG2: its n c0, n c2 (E_R).
+	VariationalWhere string
+	VarG0, VarG2     float64
+	// PeakDensity: the Thomas–Fermi peak density n₀ of a trap in k_R^d
+	// (0 for a box).
+	PeakDensity float64
 	Variational Spin1Result
 	Multi       *gpe.Spin1MultiResult
 	Observed    *gpe.Spin1Observables
 	Status      gpe.Status
-	// PairDelta: the two-level comparison: the variational energy of the
-	// pseudo-spin model of the pair (Ω, δ_pair, g↑↑, g↓↓, g↑↓ from c0, c2)
-	// minus the three-level one (E_R); > 0 when the third level lowers it.
+	// PairEnergyDiff: the two-level comparison: the variational energy of
+	// the pseudo-spin model of the pair (Ω, δ_pair, g↑↑, g↓↓, g↑↓ from c0,
+	// c2) minus the three-level one (E_R, at the variational densities);
+	// > 0 when the third level lowers it. With a fixed magnetisation the
+	// two-level energy is that of the free pair (its ⟨σ_z⟩ is not M).
 	PairEnergyDiff float64
 	PairPhase      string
-	Warnings       []string
+	// Notes: what was chosen (box, reduced couplings), one line each.
+	Notes    []string
+	Warnings []string
 }
 
-// Spin1Ground solves p: the variational theory first (its winner sizes the
+// Spin1Ground solves p: the variational theory first (its winner sizes a
 // box and is one of the starts), then gpe.Spin1MultiStart from the default
-// guesses plus the variational winner. Settings s are passed to the solver.
+// guesses plus the variational winner (in a trap under the Gaussian
+// envelope of gpe.Spin1Guess). Settings s are passed to the solver.
+// Errors of p's settings wrap dispersion.ErrBadInput.
 func Spin1Ground(p Spin1GroundProblem, s *gpe.Settings) (*Spin1GroundResult, error) {
 	dims := p.Dims
 	if dims == 0 {
@@ -93,21 +138,91 @@ func Spin1Ground(p Spin1GroundProblem, s *gpe.Settings) (*Spin1GroundResult, err
 	if dims < 1 || dims > 3 {
 		return nil, fmt.Errorf("%w: dimension %d, allowed 1, 2, 3", dispersion.ErrBadInput, dims)
 	}
-	u := Spin1Uniform{Model: p.Model, G0: p.G0, G2: p.G2}
-	vr, err := Spin1Variational(u, p.Variational)
+	if p.Lengths != nil && len(p.Lengths) != dims {
+		return nil, fmt.Errorf("%w: %d lengths for %d dimensions", dispersion.ErrBadInput, len(p.Lengths), dims)
+	}
+	if p.Points != nil && len(p.Points) != dims {
+		return nil, fmt.Errorf("%w: %d point counts for %d dimensions", dispersion.ErrBadInput, len(p.Points), dims)
+	}
+	if p.FixMagnetization && !(p.Magnetization > -1 && p.Magnetization < 1) {
+		return nil, fmt.Errorf("%w: magnetisation %g: allowed −1 < M < 1", dispersion.ErrBadInput, p.Magnetization)
+	}
+	var vs Spin1Settings
+	if p.Variational != nil {
+		vs = *p.Variational
+	}
+	vs.FixMagnetization, vs.Magnetization = p.FixMagnetization, p.Magnetization
+	res := &Spin1GroundResult{Trapped: p.Trap != nil}
+	if p.Model.ER > 0 && p.Model.KR != 0 {
+		if un, err := gpe.NewUnits(math.Abs(p.Model.KR), p.Model.ER); err == nil {
+			res.Units = &un
+		}
+	}
+	var prob gpe.Spin1Problem
+	var err error
+	if p.Trap != nil {
+		prob, err = p.setupTrap(res, dims, &vs)
+	} else {
+		prob, err = p.setupBox(res, dims, &vs)
+	}
 	if err != nil {
 		return nil, err
 	}
-	res := &Spin1GroundResult{Variational: vr}
+	if w := prob.Grid.ResolutionWarning(); w != "" {
+		res.Warnings = append(res.Warnings, w)
+	}
+	prob.FixMagnetization, prob.Magnetization = p.FixMagnetization, p.Magnetization
+	if err := prob.Model.Validate(prob.Grid); err != nil {
+		return nil, fmt.Errorf("%w: %v", dispersion.ErrBadInput, err)
+	}
+	res.Problem = prob
+	vr := res.Variational
+	guesses := gpe.DefaultSpin1Guesses(p.Model)
+	vg := gpe.Spin1Guess{Name: "variational " + vr.Phase.String()}
+	for _, w := range vr.State.Waves {
+		vg.K = append(vg.K, w.K)
+		vg.Amp = append(vg.Amp, w.Amp)
+	}
+	if len(vg.K) > 0 {
+		guesses = append([]gpe.Spin1Guess{vg}, guesses...)
+	}
+	mr, err := gpe.Spin1MultiStart(prob, p.Model, guesses, s)
+	if err != nil {
+		return nil, err
+	}
+	res.Multi = mr
+	res.Status = mr.Best.Status
+	ob, err := gpe.Spin1Observe(prob, mr.Best, p.Model, vs.withDefaults().Thresholds)
+	if err != nil {
+		return nil, err
+	}
+	res.Observed = ob
+	// two-level comparison at the variational densities
+	pm := p.Model.PairModel()
+	gg := spin1PairCouplings(p.Model.Up, p.Model.Down, res.VarG0, res.VarG2)
+	r2, err := Variational(Uniform{Omega: pm.Omega, Delta: pm.Delta, Guu: gg[0], Gdd: gg[1], Gud: gg[2]}, nil)
+	if err == nil && vr.Status == Converged {
+		res.PairEnergyDiff = r2.Energy - vr.Energy
+		res.PairPhase = r2.Phase.String()
+	}
+	return res, nil
+}
+
+// setupBox: the variational winner of the uniform gas sizes the box.
+func (p Spin1GroundProblem) setupBox(res *Spin1GroundResult, dims int, vs *Spin1Settings) (gpe.Spin1Problem, error) {
+	u := Spin1Uniform{Model: p.Model, G0: p.G0, G2: p.G2}
+	vr, err := Spin1Variational(u, vs)
+	if err != nil {
+		return gpe.Spin1Problem{}, err
+	}
+	res.Variational, res.VariationalWhere, res.VarG0, res.VarG2 = vr, "uniform box", p.G0, p.G2
 	L := p.Lengths
 	if L == nil {
-		var ks []float64
 		kmax := 0.0
 		for _, w := range vr.State.Waves {
 			kmax = math.Max(kmax, math.Abs(w.K))
 		}
-		ks = append(ks, kmax)
-		l0 := gpe.AutoLength(gpe.BoxMomentum(ks...))
+		l0 := gpe.AutoLength(gpe.BoxMomentum(kmax))
 		lx := l0
 		fits := false
 		for j := 1; j <= 8 && !fits; j++ { // the shortest multiple that holds every wave
@@ -129,61 +244,115 @@ func Spin1Ground(p Spin1GroundProblem, s *gpe.Settings) (*Spin1GroundResult, err
 			L = append(L, gpe.AutoTransverse(lx))
 		}
 	}
-	if len(L) != dims {
-		return nil, fmt.Errorf("%w: %d lengths for %d dimensions", dispersion.ErrBadInput, len(L), dims)
+	g, err := gpe.NewGrid(p.points(L, dims), L)
+	if err != nil {
+		return gpe.Spin1Problem{}, fmt.Errorf("%w: %v", dispersion.ErrBadInput, err)
 	}
-	pts := p.Points
-	if pts == nil {
-		kk := 0.0
-		for _, k := range p.Model.K {
-			kk = math.Max(kk, math.Abs(k))
+	return gpe.Spin1Problem{Grid: g, Model: gpe.Spin1UniformBox(g, p.Model, p.G0, p.G2)}, nil
+}
+
+// points: the given points or the automatic rule of Spin1GroundProblem.Points.
+func (p Spin1GroundProblem) points(L []float64, dims int) []int {
+	if p.Points != nil {
+		return p.Points
+	}
+	kk := 0.0
+	for _, k := range p.Model.K {
+		kk = math.Max(kk, math.Abs(k))
+	}
+	var pts []int
+	for _, l := range L {
+		n, max := gpe.AutoPointsMin[dims], gpe.AutoPointsMax[dims]
+		for math.Pi*float64(n)/l < 4+kk && 2*n <= max {
+			n *= 2
 		}
-		for _, l := range L {
-			n, max := gpe.AutoPointsMin[dims], gpe.AutoPointsMax[dims]
-			for math.Pi*float64(n)/l < 4+kk && 2*n <= max {
-				n *= 2
-			}
-			pts = append(pts, n)
+		pts = append(pts, n)
+	}
+	return pts
+}
+
+// setupTrap sizes the grid from the Thomas–Fermi cloud as the two-level
+// GroundProblem does (gpe.Trapped for the trap and the reduced couplings,
+// gpe.ThomasFermiMuG, gpe.ThomasFermiRadii): c0 and c2 are the couplings of
+// the effective lengths (a0 + 2a2)/3 and (a2 − a0)/3, which gpe.Trapped
+// reduces like any other (the reduction is linear in g). The variational
+// answer is that of the uniform gas at the Thomas–Fermi peak density
+// n₀ = μ/c0 (μ of the coupling c0: the density–density part, which the
+// spin term changes by |c2|/c0 ≈ 0.5 % for ⁸⁷Rb).
+func (p Spin1GroundProblem) setupTrap(res *Spin1GroundResult, dims int, vs *Spin1Settings) (gpe.Spin1Problem, error) {
+	t := p.Trap
+	fail := func(f string, a ...any) (gpe.Spin1Problem, error) {
+		return gpe.Spin1Problem{}, fmt.Errorf("%w: "+f, append([]any{dispersion.ErrBadInput}, a...)...)
+	}
+	if res.Units == nil {
+		return fail("a trapped spin-1 cloud needs a scheme (shake or raman) to set k_R and E_R")
+	}
+	if !(t.Atoms >= 1) || math.IsInf(t.Atoms, 0) {
+		return fail("atom number %g: must be ≥ 1", t.Atoms)
+	}
+	a0, a2 := t.Couplings.A0, t.Couplings.A2
+	if math.IsNaN(a0) || math.IsNaN(a2) || !((a0+2*a2)/3 > 0) {
+		return fail("the F = 1 scattering lengths a0 = %g m, a2 = %g m must be finite with a0 + 2a2 > 0", a0, a2)
+	}
+	ts := gpe.TrapSpec{Units: *res.Units, Atoms: t.Atoms, FreqHz: t.FreqHz, Auu: (a0 + 2*a2) / 3, Add: (a2 - a0) / 3, Aud: (a0 + 2*a2) / 3}
+	tmp := gpe.MustGrid(intsOf(dims, 16), floatsOf(dims, 1))
+	m0, err := gpe.Trapped(tmp, ts, 0, 0)
+	if err != nil {
+		return fail("%v", err)
+	}
+	c0, c2 := m0.Guu, m0.Gdd
+	lengths := make([]float64, dims)
+	if p.Lengths != nil {
+		copy(lengths, p.Lengths)
+	}
+	muWide := gpe.ThomasFermiMuG(dims, m0, c0+math.Max(c2, 0))
+	radii := gpe.ThomasFermiRadii(dims, m0, muWide)
+	for a := 0; a < dims; a++ {
+		if !(lengths[a] >= 0) || math.IsInf(lengths[a], 0) {
+			return fail("box length %g: must be positive and finite (0: automatic)", lengths[a])
+		}
+		if lengths[a] == 0 {
+			lengths[a] = 2.6 * math.Max(radii[a], 4*gpe.OscillatorLength(m0.Potential.AngularFreq[a]))
 		}
 	}
-	g, err := gpe.NewGrid(pts, L)
+	grid, err := gpe.NewGrid(p.points(lengths, dims), lengths)
 	if err != nil {
-		return nil, fmt.Errorf("%w: %v", dispersion.ErrBadInput, err)
+		return fail("%v", err)
 	}
-	if w := g.ResolutionWarning(); w != "" {
-		res.Warnings = append(res.Warnings, w)
-	}
-	prob := gpe.Spin1Problem{Grid: g, Model: gpe.Spin1UniformBox(g, p.Model, p.G0, p.G2)}
-	res.Problem = prob
-	guesses := gpe.DefaultSpin1Guesses(p.Model)
-	vg := gpe.Spin1Guess{Name: "variational " + vr.Phase.String()}
-	for _, w := range vr.State.Waves {
-		vg.K = append(vg.K, w.K)
-		vg.Amp = append(vg.Amp, w.Amp)
-	}
-	if len(vg.K) > 0 {
-		guesses = append([]gpe.Spin1Guess{vg}, guesses...)
-	}
-	mr, err := gpe.Spin1MultiStart(prob, p.Model, guesses, s)
+	m, err := gpe.Trapped(grid, ts, 0, 0)
 	if err != nil {
-		return nil, err
+		return fail("%v", err)
 	}
-	res.Multi = mr
-	res.Status = mr.Best.Status
-	ob, err := gpe.Spin1Observe(prob, mr.Best, p.Model, (&Settings{}).withDefaults().Thresholds)
+	gm := gpe.Spin1FromDispersion(p.Model)
+	gm.C0, gm.C2, gm.Potential, gm.Norm = m.Guu, m.Gdd, m.Potential, m.Norm
+	res.Notes = append(res.Notes, fmt.Sprintf("box %s/k_R: 2.6 × max(Thomas–Fermi radius, 4 oscillator lengths) per axis", fmtLengths(lengths)))
+	if dims < 3 {
+		form := "g_1D = g/(2π a⊥²)"
+		if dims == 2 {
+			form = "g_2D = g/(√(2π) a_z)"
+		}
+		res.Notes = append(res.Notes, fmt.Sprintf("reduced %dD couplings for tight transverse confinement (%s)", dims, form))
+	}
+	n0 := gpe.ThomasFermiMuG(dims, m, gm.C0) / gm.C0
+	res.PeakDensity = n0
+	res.VariationalWhere, res.VarG0, res.VarG2 = "uniform gas at the Thomas–Fermi peak density", n0*gm.C0, n0*gm.C2
+	vr, err := Spin1Variational(Spin1Uniform{Model: p.Model, G0: res.VarG0, G2: res.VarG2}, vs)
 	if err != nil {
-		return nil, err
+		return gpe.Spin1Problem{}, err
 	}
-	res.Observed = ob
-	// two-level comparison
-	pm := p.Model.PairModel()
-	gg := spin1PairCouplings(p.Model.Up, p.Model.Down, p.G0, p.G2)
-	r2, err := Variational(Uniform{Omega: pm.Omega, Delta: pm.Delta, Guu: gg[0], Gdd: gg[1], Gud: gg[2]}, nil)
-	if err == nil {
-		res.PairEnergyDiff = r2.Energy - vr.Energy
-		res.PairPhase = r2.Phase.String()
+	res.Variational = vr
+	return gpe.Spin1Problem{Grid: grid, Model: gm}, nil
+}
+
+func fmtLengths(l []float64) string {
+	s := ""
+	for i, v := range l {
+		if i > 0 {
+			s += " × "
+		}
+		s += fmt.Sprintf("%.4g", v)
 	}
-	return res, nil
+	return s
 }
 
 // spin1PairCouplings returns n·g↑↑, n·g↓↓, n·g↑↓ of the pair (up, down) from

@@ -40,7 +40,7 @@ h = (k − 2F_z)² + δF_z + εF_z² + (Ω/√2)F_x with --epsilon-er.`,
 				return err
 			}
 			if lf.levels == 3 {
-				if err := checkOuts(outs, ".png", ".csv", ".h5", ".json"); err != nil {
+				if err := checkOuts(outs, outTypes(".csv", ".h5", ".json")...); err != nil {
 					return err
 				}
 				if !(kmax.v > 0) {

@@ -52,6 +52,7 @@ func newCompareCmd() *cobra.Command {
 	var rf ramanFlags
 	var inf interFlags
 	var tf trapFlags
+	var lf levelFlags
 	var method string
 	c := &cobra.Command{
 		Use:   "compare",
@@ -62,12 +63,22 @@ scheme: k_R, E_R, the interaction parameters in E_R, the coupling window in
 which a stripe is predicted (in Ω/E_R and in each scheme's own Rabi frequency)
 at the detuning that balances the two spin states, the stripe period and
 contrast in the middle of the window, what limits each scheme, and whether the
-planned couplings give a stripe.`,
+planned couplings give a stripe.
+
+--levels 3 adds the answer of the full F = 1 model (both schemes: the stripe
+window in each scheme's Rabi frequency, the shift of its edges, the phase at
+the planned point; n c0, n c2 from the atom's a0, a2; the Raman ε from
+--epsilon-er or q at the shaking scheme's bias field; the Raman detuning is
+that of the pair). For an F = 1 pair with --levels 2 the same numbers are a
+check, with advice when they move an edge by more than 5 % of the window.`,
 		Example: `  socmap compare --plan socmap-demo/plan.toml --density "1e14 cm^-3"`,
 		Args:    cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			p, notes, err := comparison(&sf, &rf, &inf, &tf)
 			if err != nil {
+				return err
+			}
+			if err := lf.check(); err != nil {
 				return err
 			}
 			var set phases.CompareSettings
@@ -85,11 +96,23 @@ planned couplings give a stripe.`,
 			if err != nil {
 				return err
 			}
+			s1, err := spin1CompareCheck(&lf, p, res)
+			if err != nil {
+				return err
+			}
 			rep := &output.CompareReport{Problem: p, CompareResult: res, Notes: notes, Cautions: []string{output.CautionCoils, output.CautionLasers}}
 			if g.json {
-				return writeJSON(cmd.OutOrStdout(), rep.JSON())
+				doc := rep.JSON()
+				if s1 != nil {
+					doc["three_level"] = s1.JSON()
+				}
+				return writeJSON(cmd.OutOrStdout(), doc)
 			}
-			return rep.Table().Write(cmd.OutOrStdout())
+			if err := rep.Table().Write(cmd.OutOrStdout()); err != nil || s1 == nil {
+				return err
+			}
+			fmt.Fprintln(cmd.OutOrStdout())
+			return s1.Table().Write(cmd.OutOrStdout())
 		},
 	}
 	fs := c.Flags()
@@ -97,6 +120,8 @@ planned couplings give a stripe.`,
 	rf.add(fs, false, "raman-")
 	inf.add(fs)
 	tf.add(fs)
+	lf.add(fs, false)
+	lf.addLengths(fs)
 	fs.StringVar(&method, "method", "variational", "variational, or gpe: also the upper stripe edge from 1D GPE ground states (bisection, each branch in a box of its own momentum; ~10 s per scheme)")
 	return c
 }
@@ -134,7 +159,7 @@ func comparisonProblem(sf *shakeFlags, rf *ramanFlags, inf *interFlags, tf *trap
 	if p.Shake, err = sf.build(); err != nil {
 		return p, err
 	}
-	if p.Raman, err = rf.build(sf.atom); err != nil {
+	if p.Raman, err = rf.build(&sf.atomFlags, sf.bias, true); err != nil {
 		return p, err
 	}
 	if p.Couplings, err = inf.couplings(&sf.atomFlags); err != nil {

@@ -24,6 +24,7 @@ func newExcitationsCmd() *cobra.Command {
 	var qText, axis, branch, braggQ, braggDur string
 	var bands, harmonics int
 	var outs []string
+	var levels int
 	c := &cobra.Command{
 		Use:   "excitations",
 		Short: "Bogoliubov spectrum, roton, sound and Bragg response of the mean-field phase",
@@ -40,6 +41,13 @@ the roton minimum, dynamical instabilities (complex frequencies), and with
   socmap excitations --plan socmap-demo/plan.toml --bragg-q "3 1/um" --bragg-duration "2 ms" --out exc.h5`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
+			switch levels {
+			case 2:
+			case 3:
+				return usagef("--levels 3 is not available for excitations yet")
+			default:
+				return usagef("--levels %d: allowed 2 (pseudo-spin pair)", levels)
+			}
 			if err := checkOuts(outs, outTypes(".h5", ".json", ".csv")...); err != nil {
 				return err
 			}
@@ -127,6 +135,7 @@ the roton minimum, dynamical instabilities (complex frequencies), and with
 	fs := c.Flags()
 	mf.add(fs)
 	inf.add(fs)
+	fs.IntVar(&levels, "levels", 2, "2: the pseudo-spin pair (3, the F = 1 model, is not available for excitations yet)")
 	fs.StringVar(&qText, "q", "-3:3:241", `excitation momenta LO:HI:N, in k_R or with a unit ("-2 1/um:2 1/um:101")`)
 	fs.StringVar(&axis, "q-axis", "x", "direction of the momenta: x (along the coupling; extended zones for a stripe), y or z")
 	fs.StringVar(&branch, "branch", "ground", "state: ground (the lower of plane wave and stripe), plane-wave, stripe")

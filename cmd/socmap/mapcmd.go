@@ -51,12 +51,16 @@ type mapOpts struct {
 	gpeDims              int
 	gpePoints, gpeStarts int
 	gpeLength, gpeTol    *quantity
+	// --levels (spin1.go)
+	lf    levelFlags
+	check *output.Spin1PointReport
 }
 
 // addFlags registers the map flags.
 func (o *mapOpts) addFlags(fs *pflag.FlagSet) {
 	o.mf.add(fs)
 	o.inf.add(fs)
+	o.lf.add(fs, true)
 	fs.StringVar(&o.xs, "x", "", "x axis NAME=LO:HI:N, or NAME=LO:HI:N:log (evenly spaced in log)")
 	fs.StringVar(&o.ys, "y", "", "y axis NAME=LO:HI:N or NAME=LO:HI:N:log (optional)")
 	fs.StringVar(&o.holdDelta, "hold-delta", "", "hold the detuning at every point: balance (δ = δ_b = (n g↓↓ − n g↑↑)/2) or compensate (δ/2π as at the base setting: the RF follows the micromotion shift); default: the scheme's detuning")
@@ -82,6 +86,12 @@ func (o *mapOpts) addFlags(fs *pflag.FlagSet) {
 func (o *mapOpts) problem() (*phases.MapProblem, error) {
 	if o.method != "variational" && o.method != "gpe" {
 		return nil, usagef("--method %q: allowed: variational, gpe", o.method)
+	}
+	if err := o.lf.check(); err != nil {
+		return nil, err
+	}
+	if o.lf.levels == 3 {
+		return o.spin1Problem()
 	}
 	switch o.holdDelta {
 	case "", "balance", "compensate":
@@ -140,6 +150,7 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 	if err := p.Check(); err != nil {
 		return nil, usagef("map settings: %v", err)
 	}
+	o.check = spin1MapCheck(p)
 	return p, nil
 }
 
@@ -369,9 +380,15 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 	if g.json {
 		doc := r.JSON()
 		doc["points_computed"], doc["points_resumed"] = r.Run.Computed, r.Run.Skipped
+		if o.check != nil {
+			doc["three_level_check"] = o.check.JSON()
+		}
 		return writeJSON(cmd.OutOrStdout(), doc)
 	}
-	return r.Table().Write(cmd.OutOrStdout())
+	if err := r.Table().Write(cmd.OutOrStdout()); err != nil || o.check == nil {
+		return err
+	}
+	return o.check.Table().Write(cmd.OutOrStdout())
 }
 
 // openSink creates the map file, or resumes its partial file (unless --force).

@@ -22,6 +22,7 @@ type levelFlags struct {
 	epsER          *quantity
 	nc0, nc2       *quantity
 	a0, a2         *quantity
+	magnetization  *quantity
 	withInteracton bool
 }
 
@@ -34,7 +35,15 @@ func (f *levelFlags) add(fs *pflag.FlagSet, interactions bool) {
 		f.nc2 = qflag(fs, "nc2-er", KindNumber, "", "--levels 3: n·c2 in E_R (spin coupling; < 0 ferromagnetic)")
 		f.a0 = qflag(fs, "a0", KindNumber, "", "--levels 3 with --density: F = 1 scattering length a0 in Bohr radii (overrides the built-in value)")
 		f.a2 = qflag(fs, "a2", KindNumber, "", "--levels 3 with --density: F = 1 scattering length a2 in Bohr radii")
+		f.magnetization = qflag(fs, "magnetization", KindNumber, "", "--levels 3: fix the longitudinal magnetisation ⟨F_z⟩ per particle at M, −1 < M < 1 (conserved in experiments; default: free)")
 	}
+}
+
+// addLengths registers only --a0/--a2 (commands without the other
+// interaction flags, e.g. compare).
+func (f *levelFlags) addLengths(fs *pflag.FlagSet) {
+	f.a0 = qflag(fs, "a0", KindNumber, "", "--levels 3: F = 1 scattering length a0 in Bohr radii (overrides the built-in value)")
+	f.a2 = qflag(fs, "a2", KindNumber, "", "--levels 3: F = 1 scattering length a2 in Bohr radii")
 }
 
 // check refuses --levels values and three-level flags without --levels 3.
@@ -46,13 +55,24 @@ func (f *levelFlags) check() error {
 		for _, q := range []struct {
 			q    *quantity
 			name string
-		}{{f.epsER, "epsilon-er"}, {f.nc0, "nc0-er"}, {f.nc2, "nc2-er"}, {f.a0, "a0"}, {f.a2, "a2"}} {
+		}{{f.epsER, "epsilon-er"}, {f.nc0, "nc0-er"}, {f.nc2, "nc2-er"}, {f.a0, "a0"}, {f.a2, "a2"}, {f.magnetization, "magnetization"}} {
 			if q.q != nil && q.q.text != "" {
 				return usagef("--%s %q: only with --levels 3", q.name, q.q.text)
 			}
 		}
 	}
+	if f.magnetization != nil && f.magnetization.text != "" && !(f.magnetization.v > -1 && f.magnetization.v < 1) {
+		return usagef("--magnetization %q: allowed −1 < M < 1 (⟨F_z⟩ per particle)", f.magnetization.text)
+	}
 	return nil
+}
+
+// fixedM returns whether --magnetization is given, and its value.
+func (f *levelFlags) fixedM() (bool, float64) {
+	if f.magnetization == nil || f.magnetization.text == "" {
+		return false, 0
+	}
+	return true, f.magnetization.v
 }
 
 // model builds the three-level model from the scheme flags.
@@ -96,30 +116,35 @@ func (f *levelFlags) interactions(inf *interFlags, m dispersion.Spin1Model, atom
 	if m.ER == 0 || atom == nil {
 		return 0, 0, usagef("--density %q: needs a scheme with an atom (--scheme shake|raman) for --levels 3", inf.density.text)
 	}
+	c, err := f.couplings(atom)
+	if err != nil {
+		return 0, 0, err
+	}
+	n := inf.density.v
+	return n * c.C0 / m.ER, n * c.C2 / m.ER, nil
+}
+
+// couplings returns the F = 1 couplings of atom: from --a0/--a2 or the
+// built-in scattering lengths; missing ones are a usage error.
+func (f *levelFlags) couplings(atom *dispersion.Species) (dispersion.Spin1Couplings, error) {
 	var c dispersion.Spin1Couplings
 	var err error
 	switch {
 	case f.a0.text != "" && f.a2.text != "":
 		c, err = dispersion.Spin1CouplingsFromLengths(atom.Mass, f.a0.v, f.a2.v)
 	case f.a0.text != "" || f.a2.text != "":
-		return 0, 0, usagef("--levels 3: give both --a0 and --a2")
+		return c, usagef("--levels 3: give both --a0 and --a2")
 	default:
 		c, err = atom.Spin1Couplings()
 	}
 	if err != nil {
-		return 0, 0, usagef("--levels 3: %v (use --a0 and --a2 in Bohr radii)", strings.TrimPrefix(err.Error(), "bad input: "))
+		return c, usagef("--levels 3: %v (use --a0 and --a2 in Bohr radii)", strings.TrimPrefix(err.Error(), "bad input: "))
 	}
-	n := inf.density.v
-	return n * c.C0 / m.ER, n * c.C2 / m.ER, nil
+	return c, nil
 }
 
 // runBands3 is `bands --levels 3`.
 func runBands3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, outs []string, kmax float64, samples int) error {
-	for _, o := range outs {
-		if output.IsFigure(o) {
-			return usagef("--out %q: --levels 3 writes .csv, .h5 and .json; the three-branch PNG is not implemented yet", o)
-		}
-	}
 	m, scheme, _, err := lf.model(mf)
 	if err != nil {
 		return err
@@ -134,8 +159,10 @@ func runBands3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, outs []string
 	doc := res.JSON()
 	for _, o := range outs {
 		var err error
-		switch strings.ToLower(filepath.Ext(o)) {
-		case ".csv":
+		switch {
+		case output.IsFigure(o):
+			err = output.WriteFigure(o, g.force, res)
+		case strings.ToLower(filepath.Ext(o)) == ".csv":
 			err = output.WriteFileAtomic(o, g.force, res.WriteCSV)
 		default:
 			err = writeResult(cmd, o, "bands", doc, res.WriteH5)
@@ -150,16 +177,10 @@ func runBands3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, outs []string
 	return res.Table().Write(cmd.OutOrStdout())
 }
 
-// runGround3 is `ground --levels 3`: a uniform periodic box only.
+// runGround3 is `ground --levels 3`: a uniform periodic box (n·c0, n·c2)
+// or N atoms in a harmonic trap (--atoms, --trap; the atom's F = 1
+// scattering lengths or --a0/--a2).
 func runGround3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *interFlags, tf *trapFlags, gf *gridFlags, outs []string, tol float64) error {
-	if tf.trap != "" || tf.atoms.text != "" {
-		return usagef("--levels 3: only a uniform periodic box is wired yet (no --trap/--atoms)")
-	}
-	for _, o := range outs {
-		if output.IsFigure(o) {
-			return usagef("--out %q: --levels 3 writes .h5 and .json; the three-component PNG is not implemented yet", o)
-		}
-	}
 	m, _, ws, err := lf.model(mf)
 	if err != nil {
 		return err
@@ -168,14 +189,37 @@ func runGround3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *interFl
 	if l, err := mf.lab(); err == nil {
 		atom = l.Scheme.Atom()
 	}
-	nc0, nc2, err := lf.interactions(inf, m, atom)
-	if err != nil {
-		return err
-	}
 	if gf.dims < 1 || gf.dims > 3 {
 		return usagef("--dims %d: allowed 1, 2, 3", gf.dims)
 	}
-	p := phases.Spin1GroundProblem{Model: m, G0: nc0, G2: nc2, Dims: gf.dims}
+	p := phases.Spin1GroundProblem{Model: m, Dims: gf.dims}
+	p.FixMagnetization, p.Magnetization = lf.fixedM()
+	trapped := tf.trap != "" || tf.atoms.text != ""
+	if trapped {
+		if tf.trap == "" || tf.atoms.text == "" {
+			return usagef("--levels 3 in a trap: give both --atoms and --trap")
+		}
+		if inf.density.text != "" || lf.nc0.text != "" || lf.nc2.text != "" {
+			return usagef("--levels 3 in a trap: the interactions follow from --atoms and the scattering lengths; drop --density/--nc0-er/--nc2-er")
+		}
+		if atom == nil || m.ER == 0 {
+			return usagef("--trap %q: a trapped cloud needs a scheme with an atom (--scheme shake|raman)", tf.trap)
+		}
+		f, err := tf.frequencies()
+		if err != nil {
+			return err
+		}
+		c, err := lf.couplings(atom)
+		if err != nil {
+			return err
+		}
+		p.Trap = &phases.Spin1Trap{Atoms: tf.atoms.v, FreqHz: f, Couplings: c}
+	} else {
+		p.G0, p.G2, err = lf.interactions(inf, m, atom)
+		if err != nil {
+			return err
+		}
+	}
 	if gf.lengthKR != "" {
 		parts, err := perAxis("length-kr", gf.lengthKR, gf.dims)
 		if err != nil {
@@ -203,7 +247,23 @@ func runGround3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *interFl
 		}
 	}
 	if gf.lengths != "" {
-		return usagef("--length %q: --levels 3 takes the box in 1/k_R (--length-kr)", gf.lengths)
+		if gf.lengthKR != "" {
+			return usagef("--length %q: give --length or --length-kr, not both", gf.lengths)
+		}
+		if m.KR == 0 {
+			return usagef("--length %q: lengths in SI need a scheme (k_R); with a direct model use --length-kr", gf.lengths)
+		}
+		parts, err := perAxis("length", gf.lengths, gf.dims)
+		if err != nil {
+			return err
+		}
+		for _, s := range parts {
+			q, err := parseQuantity(s, KindLength)
+			if err != nil || !(q > 0) {
+				return usagef("--length %q: positive lengths, e.g. \"40 um\"", gf.lengths)
+			}
+			p.Lengths = append(p.Lengths, q*math.Abs(m.KR))
+		}
 	}
 	r, err := phases.Spin1Ground(p, &gpe.Settings{Tol: tol})
 	if errors.Is(err, dispersion.ErrBadInput) {
@@ -218,7 +278,13 @@ func runGround3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *interFl
 	res := output.Spin1Ground{Spin1GroundResult: r}
 	doc := res.JSON()
 	for _, o := range outs {
-		if err := writeResult(cmd, o, "ground", doc, res.WriteH5); err != nil {
+		var err error
+		if output.IsFigure(o) {
+			err = output.WriteFigure(o, g.force, res)
+		} else {
+			err = writeResult(cmd, o, "ground", doc, res.WriteH5)
+		}
+		if err != nil {
 			return err
 		}
 	}
@@ -226,4 +292,170 @@ func runGround3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *interFl
 		return writeJSON(cmd.OutOrStdout(), doc)
 	}
 	return res.Table().Write(cmd.OutOrStdout())
+}
+
+// spin1CompareCheck is the three-level part of `compare`: the answer with
+// --levels 3, a check with --levels 2 when the pair lies in F = 1 and the
+// atom has a0, a2 (nil otherwise). With --levels 3 a pair outside one
+// F = 1 manifold or missing a0/a2 is a usage error.
+func spin1CompareCheck(lf *levelFlags, p phases.Comparison, res *phases.CompareResult) (*output.Spin1CompareReport, error) {
+	sh := p.Shake
+	f1 := sh.Up.F == 1 && sh.Down.F == 1
+	if lf.levels == 2 {
+		if !f1 {
+			return nil, nil
+		}
+		if _, err := sh.Species.Spin1Couplings(); err != nil && lf.a0.text == "" {
+			return nil, nil
+		}
+	}
+	set := &phases.Spin1CompareSettings{RamanEpsilonOverER: math.NaN()}
+	if lf.epsER.text != "" {
+		set.RamanEpsilonOverER = lf.epsER.v
+	}
+	if lf.levels == 3 || lf.a0.text != "" || lf.a2.text != "" {
+		c, err := lf.couplings(&sh.Species)
+		if err != nil {
+			return nil, err
+		}
+		set.Couplings = &c
+	}
+	c, err := phases.Spin1Compare(p, res, set)
+	if errors.Is(err, dispersion.ErrBadInput) {
+		if lf.levels == 2 {
+			return nil, nil
+		}
+		return nil, usagef("--levels 3: %v", strings.TrimPrefix(err.Error(), "bad input: "))
+	}
+	if err != nil {
+		return nil, err
+	}
+	return &output.Spin1CompareReport{Spin1Comparison: c, Levels: lf.levels}, nil
+}
+
+// spin1SchemeCheck adds the single-particle three-level check to `scheme
+// shake` (doc key three_level, a table section): with --levels 3 always
+// (a pair outside one F = 1 manifold is a usage error), with --levels 2 for
+// an F = 1 pair.
+func spin1SchemeCheck(levels int, p dispersion.Shake, doc map[string]any, tab *output.Table) error {
+	if levels != 2 && levels != 3 {
+		return usagef("--levels %d: allowed 2 (pseudo-spin pair) or 3 (F = 1)", levels)
+	}
+	if levels == 2 && (p.Up.F != 1 || p.Down.F != 1) {
+		return nil
+	}
+	c, err := phases.CheckShakeSpin1(p)
+	if errors.Is(err, dispersion.ErrBadInput) {
+		if levels == 2 {
+			return nil
+		}
+		return usagef("--levels 3: %v", strings.TrimPrefix(err.Error(), "bad input: "))
+	}
+	if err != nil {
+		return err
+	}
+	r := &output.Spin1SchemeReport{Spin1SchemeCheck: c, Levels: levels}
+	doc["three_level"] = r.JSON()
+	output.AppendTable(tab, r.Table())
+	return nil
+}
+
+// spin1Problem builds `map --levels 3`: the spin-1 variational theory per
+// point (phases.MethodSpin1).
+func (o *mapOpts) spin1Problem() (*phases.MapProblem, error) {
+	if o.method != "variational" {
+		return nil, usagef("--method %q: --levels 3 maps use the variational theory only", o.method)
+	}
+	p := &phases.MapProblem{Method: phases.MethodSpin1}
+	var err error
+	if p.Lab, err = o.mf.lab(); err != nil {
+		return nil, err
+	}
+	lf := &o.lf
+	s := phases.Spin1MapSettings{Epsilon: math.NaN()}
+	if lf.epsER.text != "" {
+		s.Epsilon = lf.epsER.v
+	}
+	s.FixMagnetization, s.Magnetization = lf.fixedM()
+	if _, _, err := phases.Spin1FromScheme(p.Lab.Scheme, s.Epsilon); err != nil {
+		if errors.Is(err, dispersion.ErrBadInput) {
+			return nil, usagef("--levels 3: %v", strings.TrimPrefix(err.Error(), "bad input: "))
+		}
+		return nil, err
+	}
+	switch {
+	case lf.nc0.text != "" || lf.nc2.text != "":
+		if lf.nc0.text == "" || lf.nc2.text == "" {
+			return nil, usagef("--levels 3: give both --nc0-er and --nc2-er")
+		}
+		s.G0, s.G2 = lf.nc0.v, lf.nc2.v
+	case o.inf.density.text != "":
+		atom := p.Lab.Scheme.Atom()
+		if atom == nil {
+			return nil, usagef("--density %q: needs a scheme with an atom (--scheme shake|raman) for --levels 3", o.inf.density.text)
+		}
+		if s.Couplings, err = lf.couplings(atom); err != nil {
+			return nil, err
+		}
+		s.HaveSI, s.Density = true, o.inf.density.v
+		p.Lab.HaveSI, p.Lab.Density = true, o.inf.density.v
+	default:
+		return nil, usagef("--levels 3: give --nc0-er and --nc2-er, or --density with an atom")
+	}
+	p.Spin1 = s
+	if o.xs == "" {
+		return nil, usagef("--x is required (NAME=LO:HI:N)")
+	}
+	if p.X, err = parseAxis("x", o.xs); err != nil {
+		return nil, err
+	}
+	if o.ys != "" {
+		if p.Y, err = parseAxis("y", o.ys); err != nil {
+			return nil, err
+		}
+		if p.Y.Name == p.X.Name {
+			return nil, usagef("--y %q: same axis as --x", o.ys)
+		}
+	}
+	if err := p.Check(); err != nil {
+		return nil, usagef("map settings: %v", err)
+	}
+	return p, nil
+}
+
+// spin1MapCheck is the three-level answer at the planned point of a
+// pseudo-spin map (the lab before the axes change it) when the pair is an
+// F = 1 pair of the shaking scheme and the atom has a0, a2 and a density is
+// given (the Raman scheme's ε is a --levels 3 setting); nil otherwise.
+func spin1MapCheck(p *phases.MapProblem) *output.Spin1PointReport {
+	sh, ok := p.Lab.Scheme.(dispersion.Shake)
+	if !ok || sh.Up.F != 1 || sh.Down.F != 1 || !p.Lab.HaveSI || !(p.Lab.Density > 0) {
+		return nil
+	}
+	cp, err := sh.Species.Spin1Couplings()
+	if err != nil {
+		return nil
+	}
+	m, _, err := phases.Spin1FromScheme(sh, math.NaN())
+	if err != nil {
+		return nil
+	}
+	u, _, err := p.Lab.Resolve()
+	if err != nil {
+		return nil
+	}
+	if p.Lab.CouplingSet {
+		m.Omega = p.Lab.CouplingOverER
+	}
+	m = phases.WithPairDetuning(m, u.Delta)
+	two, err := phases.Variational(u, p.Variational)
+	if err != nil {
+		return nil
+	}
+	n := p.Lab.Density
+	c, err := phases.Spin1CheckPoint(m, n*cp.C0/m.ER, n*cp.C2/m.ER, two)
+	if err != nil {
+		return nil
+	}
+	return &output.Spin1PointReport{Spin1PointCheck: c, Where: "the plan's settings before the axes change them"}
 }
