@@ -60,18 +60,21 @@ func TestResampleBandLimited(t *testing.T) {
 	}
 }
 
-// The coarse grid halves only the axes that stay resolved.
+// The coarse grid halves the axes that stay well resolved (k_max ≥
+// CoarseKMax), and only when there are none those that keep CoarseKMin.
 func TestCoarseGrid(t *testing.T) {
 	g := MustGrid([]int{64, 64, 64}, []float64{45, 22.5, 15})
-	c := coarseGrid(g)
-	if c == nil || c.N != [3]int{32, 32, 32} {
-		t.Fatalf("coarse of 64³ over 45×22.5×15: %v", c)
+	want := [][3]int{{64, 32, 32}, {64, 32, 16}, {32, 16, 16}}
+	for i, w := range want {
+		g = coarseGrid(g)
+		if g == nil || g.N != w {
+			t.Fatalf("level %d: %v, want %v", i+1, g, w)
+		}
 	}
-	c2 := coarseGrid(c)
-	if c2 == nil || c2.N != [3]int{32, 16, 16} {
-		t.Fatalf("second level: %v", c2)
+	if c := coarseGrid(g); c != nil {
+		t.Errorf("level 4: %v, want none", c.N)
 	}
-	if c3 := coarseGrid(c2); c3 != nil {
-		t.Errorf("third level %v, want none (k_max = π·16/22.5 < %g)", c3.N, CoarseKMax)
+	if c := coarseGrid(MustGrid([]int{256}, []float64{169.4})); c == nil || c.N[0] != 128 {
+		t.Errorf("1D 256 points over 169.4: %v, want 128 (k_max 2.37 ≥ %g)", c, CoarseKMin)
 	}
 }
