@@ -62,3 +62,49 @@ func TestSolveReproducible(t *testing.T) {
 		}
 	}
 }
+
+// demoCloud3e5 is the 1D cloud of the demo plan (our own invented setting:
+// 87Rb |1,0⟩/|1,−1⟩, N = 3e5, trap 20, 200, 200 Hz, couplings matched to the
+// 3D Thomas–Fermi μ) as phases.GroundProblem sets it up, in E_R and k_R.
+func demoCloud3e5() Problem {
+	g := MustGrid([]int{256}, []float64{115.93614009831313})
+	m := Model{Omega: 0.25191231460801078, Delta: -0.023278889782511129,
+		Guu: 0.006273390841720539, Gdd: 0.0062443665615539538, Gud: 0.0062443665615539538,
+		Potential: Potential{Kind: Harmonic, AngularFreq: [3]float64{0.25191231460801078}}, Norm: 3e5}
+	return Problem{Grid: g, Model: m}
+}
+
+// A converged start is never kept silently above an unconverged one: in the
+// demo cloud the +k₁ plane-wave start converges to a state 2.8e-5 E_R above
+// the one the −k₁ start is still approaching when its budget ends (the
+// finisher only descends, so its energy bounds its limit from above).
+// (On the full grid only, Coarsen −1: the coarse-to-fine start converges
+// both.) Without continuation the result names the lower start; with the
+// default continuation the lower start converges and is kept.
+func TestMultiStartLowerUnconverged(t *testing.T) {
+	p := demoCloud3e5()
+	k := BandMinima(p.Model.Omega, p.Model.Delta)
+	starts := []Guess{{Kind: GuessPlaneWave, K: k[0]}, {Kind: GuessPlaneWave, K: k[1]}}
+	mr, err := MultiStart(p, starts, &Settings{MaxIter: 2700, ContinueIter: -1, Coarsen: -1}, label.Thresholds{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := mr.Starts
+	if s[0].Status != MaxIterations || s[1].Status != Converged || !(s[0].Energy < s[1].Energy-1e-6) {
+		t.Fatalf("starts %+v: want −k₁ unconverged below the converged +k₁", s)
+	}
+	if mr.BestIndex != 1 || mr.LowerUnconverged != 0 || mr.Warning == "" || len(mr.Continued) != 0 {
+		t.Errorf("without continuation: kept %d, lower %d, warning %q, continued %v", mr.BestIndex, mr.LowerUnconverged, mr.Warning, mr.Continued)
+	}
+	mr, err = MultiStart(p, starts, &Settings{MaxIter: 2700, Coarsen: -1}, label.Thresholds{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	s = mr.Starts
+	if mr.BestIndex != 0 || s[0].Status != Converged || mr.LowerUnconverged != -1 || mr.Warning != "" || len(mr.Continued) != 1 || mr.Continued[0] != 0 {
+		t.Fatalf("with continuation: kept %d, starts %+v, lower %d, warning %q, continued %v", mr.BestIndex, s, mr.LowerUnconverged, mr.Warning, mr.Continued)
+	}
+	if s[0].Iterations <= 2700 || mr.Best.Iterations != s[0].Iterations || mr.Best.Residual > 1e-8 || !(s[0].Energy < s[1].Energy-1e-6) {
+		t.Errorf("continued start: %+v (best %d iterations, residual %g)", s[0], mr.Best.Iterations, mr.Best.Residual)
+	}
+}

@@ -81,6 +81,19 @@ type Settings struct {
 	MaxSplitSteps int
 	// MaxIter: budget of finisher iterations. Default 3000.
 	MaxIter int
+	// ContinueIter (MultiStart only): further finisher iterations given to a
+	// start that ended unconverged with an energy below the kept converged
+	// start (see MultiStart). Default 2·MaxIter; negative: no continuation
+	// (the result then only warns).
+	ContinueIter int
+
+	// Coarsen: coarse-to-fine start (gpe/coarse.go). 0 (default): a
+	// SplitThenCG solve in a harmonic trap first solves the problem on a grid
+	// with half the points along every axis that keeps k_max ≥ CoarseKMax
+	// (recursively), then runs the finisher on the full grid from that state
+	// zero-padded in k; boxes and walls are solved on their grid only.
+	// Negative: never.
+	Coarsen int
 
 	// Threads: goroutines for pointwise passes and FFT pairs on grids of at
 	// least ParallelMin points. Default GOMAXPROCS (at most 8).
@@ -110,6 +123,7 @@ type Progress struct {
 	Energy   float64 // energy per particle, E_R
 	Residual float64 // E_R
 	Dtau     float64 // current split step (0 in the finisher)
+	Coarse   bool    // a stage on a coarse grid (Settings.Coarsen)
 }
 
 func (s Settings) withDefaults() Settings {
@@ -146,6 +160,9 @@ func (s Settings) withDefaults() Settings {
 	if s.MaxIter == 0 {
 		s.MaxIter = 3000
 	}
+	if s.ContinueIter == 0 {
+		s.ContinueIter = 3 * s.MaxIter
+	}
 	return s
 }
 
@@ -170,12 +187,18 @@ type Result struct {
 	Status     Status
 	State      *State
 	Energies   Energies // of the returned state, evaluated afresh
-	SplitSteps int      // split-step imaginary-time steps taken
-	Iterations int      // finisher iterations taken
-	Dtau       float64  // last split-step Δτ
-	Residual   float64  // = Energies.Residual
+	SplitSteps int      // split-step imaginary-time steps taken (on the coarsest grid with Settings.Coarsen)
+	Iterations int      // finisher iterations taken on the problem's grid
+	// CoarseIterations: finisher iterations on the coarse grids
+	// (Settings.Coarsen); CoarseShape: the points of the first coarse grid,
+	// nil without a coarse stage.
+	CoarseIterations int
+	CoarseShape      []int
+	Dtau             float64 // last split-step Δτ
+	Residual         float64 // = Energies.Residual
 	// EnergyHistory: energy per particle at every split-step check and
-	// every finisher iteration; ResidualHistory alongside.
+	// every finisher iteration (coarse stages first); ResidualHistory
+	// alongside.
 	EnergyHistory   []float64
 	ResidualHistory []float64
 }
@@ -196,6 +219,11 @@ func Solve(p Problem, init *State, s *Settings) (*Result, error) {
 	}
 	if err := init.check(p.Grid); err != nil {
 		return nil, err
+	}
+	if set.Method == SplitThenCG && set.Coarsen >= 0 && p.Model.Potential.Kind == Harmonic {
+		if cg := coarseGrid(p.Grid); cg != nil {
+			return solveCoarseToFine(p, cg, init, set)
+		}
 	}
 	e, err := newEngine(p.Grid, p.Model, perf{threads: set.Threads, backend: set.Backend, fftMode: set.FFTMode})
 	if err != nil {
@@ -270,6 +298,46 @@ func Solve(p Problem, init *State, s *Settings) (*Result, error) {
 		res.Status = MaxIterations
 	}
 	return res, nil
+}
+
+// solveCoarseToFine solves p on the coarse grid cg from init (spectrally
+// truncated onto it; that solve may coarsen again), then runs the finisher
+// on p's grid from the coarse state zero-padded in k. A diverged coarse
+// stage falls back to the full grid from init.
+func solveCoarseToFine(p Problem, cg *Grid, init *State, set Settings) (*Result, error) {
+	ci, err := resample(init, cg, set.Backend)
+	if err != nil {
+		return nil, err
+	}
+	cs := set
+	cs.MaxIter = 2 * set.MaxIter // an iteration there costs at most half
+	if pr := set.Progress; pr != nil {
+		cs.Progress = func(q Progress) { q.Coarse = true; pr(q) }
+	}
+	cr, err := Solve(Problem{Grid: cg, Model: p.Model}, ci, &cs)
+	if err != nil {
+		return nil, err
+	}
+	fs := set
+	fs.Coarsen = -1
+	if cr.Status == Diverged {
+		return Solve(p, init, &fs)
+	}
+	fi, err := resample(cr.State, p.Grid, set.Backend)
+	if err != nil {
+		return nil, err
+	}
+	fs.Method = CGOnly
+	r, err := Solve(p, fi, &fs)
+	if err != nil {
+		return nil, err
+	}
+	r.SplitSteps, r.Dtau = cr.SplitSteps, cr.Dtau
+	r.CoarseIterations = cr.Iterations + cr.CoarseIterations
+	r.CoarseShape = cg.Shape()
+	r.EnergyHistory = append(append([]float64(nil), cr.EnergyHistory...), r.EnergyHistory...)
+	r.ResidualHistory = append(append([]float64(nil), cr.ResidualHistory...), r.ResidualHistory...)
+	return r, nil
 }
 
 func bad(en Energies) bool {

@@ -28,7 +28,7 @@ func (r *GroundResult) Table() *Table {
 		g.Dim, g.Shape(), lengths(g), m.Potential.Kind)}
 	t.Section("Result")
 	t.Row("phase", o.Phase.String(), "")
-	t.RowNote("status", b.Status.String(), "", fmt.Sprintf("(%d split steps, %d finisher iterations)", b.SplitSteps, b.Iterations))
+	t.RowNote("status", b.Status.String(), "", iterationNote(b))
 	t.Row("residual ‖Hψ − μψ‖", N(b.Residual, 3), "E_R")
 	t.Row("energy per particle", N(o.Energies.Total, 8), "E_R")
 	t.Row("chemical potential μ", N(o.Energies.Mu, 8), "E_R")
@@ -102,7 +102,7 @@ func (r *GroundResult) JSON() map[string]any {
 		"mu_over_ER": n(o.Energies.Mu), "sz": n(o.Sz), "sx": n(o.Sx), "k1_over_kR": n(o.K1), "contrast": n(o.Contrast),
 		"contrast_definition": o.ContrastDef,
 		"fourier_2k1":         n(o.Fourier2K1), "stripe_period_over_inv_kR": n(o.StripePeriod),
-		"iterations": b.Iterations, "split_steps": b.SplitSteps, "residual_over_ER": n(b.Residual),
+		"iterations": b.Iterations, "split_steps": b.SplitSteps, "coarse_iterations": b.CoarseIterations, "residual_over_ER": n(b.Residual),
 		"energy_parts_over_ER": map[string]any{"kinetic": n(o.Energies.Kinetic), "potential": n(o.Energies.Potential),
 			"rabi": n(o.Energies.Rabi), "detuning": n(o.Energies.Detuning), "interaction": n(o.Energies.Interaction)},
 		"frac_up": n(o.FracUp), "frac_down": n(o.FracDown),
@@ -228,9 +228,10 @@ func (r *GroundResult) WriteH5(w *Writer) {
 	w.Attr("/observables", "status", b.Status.String())
 	w.Attr("/observables", "iterations", int64(b.Iterations))
 	w.Attr("/observables", "split_steps", int64(b.SplitSteps))
+	w.Attr("/observables", "coarse_iterations", int64(b.CoarseIterations))
 	w.Attr("/observables", "threshold_single_minimum_k", o.Thresholds.SingleMinimumK)
 	w.Attr("/observables", "threshold_stripe_minority", o.Thresholds.StripeMinority)
-	w.Array("/convergence/energy", b.EnergyHistory, nil, "E_R", "energy per particle at every check (split steps, then finisher iterations)")
+	w.Array("/convergence/energy", b.EnergyHistory, nil, "E_R", "energy per particle at every check (split steps, then finisher iterations; coarse-grid stages first)")
 	w.Array("/convergence/residual", b.ResidualHistory, nil, "E_R", "residual at every check")
 	ns := len(r.Multi.Starts)
 	e, res := make([]float64, ns), make([]float64, ns)
@@ -252,4 +253,13 @@ func (r *GroundResult) WritePNG(w io.Writer) error {
 		return err
 	}
 	return f.WritePNG(w)
+}
+
+// iterationNote: the split steps and finisher iterations of a solve, with
+// its coarse-to-fine stages (gpe Settings.Coarsen) when it had them.
+func iterationNote(b *gpe.Result) string {
+	if b.CoarseShape == nil {
+		return fmt.Sprintf("(%d split steps, %d finisher iterations)", b.SplitSteps, b.Iterations)
+	}
+	return fmt.Sprintf("(%d split steps and %d finisher iterations on coarse grids from %v points, then %d finisher iterations)", b.SplitSteps, b.CoarseIterations, b.CoarseShape, b.Iterations)
 }

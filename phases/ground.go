@@ -131,7 +131,9 @@ type GroundResult struct {
 }
 
 // Ground sets up p and finds its ground state: gpe.MultiStart from the
-// starts of GroundSettings plus, for a box, the variational optimum.
+// starts of GroundSettings plus, for a box, the variational optimum. When a
+// start ends unconverged below the kept state even after MultiStart's
+// continuation, a warning note says so (gpe.MultiResult.Warning).
 // Errors caused by p's settings match ErrInput.
 func Ground(p GroundProblem, s *GroundSettings) (*GroundResult, error) {
 	var set GroundSettings
@@ -157,7 +159,12 @@ func (su *GroundSetup) Solve(s *GroundSettings) (*GroundResult, error) {
 	if err != nil {
 		return nil, fmt.Errorf("ground: %w", err)
 	}
-	return &GroundResult{GroundSetup: *su, Multi: mr, Status: mr.Best.Status}, nil
+	res := &GroundResult{GroundSetup: *su, Multi: mr, Status: mr.Best.Status}
+	if mr.Warning != "" {
+		// a lower unconverged start exists: the kept state is metastable
+		res.Notes = append(append([]string(nil), su.Notes...), "warning: "+mr.Warning)
+	}
+	return res, nil
 }
 
 // Starts returns the number of starts Solve makes with the settings s.
