@@ -162,6 +162,12 @@ func (p *MapProblem) Check() error {
 			}
 		}
 	}
+	if sb := p.GPE.StripeBox; sb != "" && sb != StripeBoxOptimise && sb != StripeBoxFixed {
+		return fmt.Errorf("stripe-box %q: allowed: optimise, fixed", sb)
+	}
+	if !(p.GPE.StripeKTol >= 0) {
+		return fmt.Errorf("stripe momentum tolerance %g: must be ≥ 0 (0: the default %g k_R)", p.GPE.StripeKTol, DefaultStripeKTol)
+	}
 	if d := p.GPE.Dims; d != 0 && d != 1 && d != 2 || d == 2 && p.method() != MethodGPE {
 		return fmt.Errorf("dims %d: allowed 1, or 2 with the gpe method", d)
 	}
@@ -288,8 +294,8 @@ func (p *MapProblem) Run(ctx context.Context, sink PointSink, s *RunSettings) (R
 // Identity returns the settings that determine the map's values, by value
 // (see Identity): the lab's settings without those an axis replaces at
 // every point, the axes (x, y as "name=lo:hi:n" in the stored unit), the
-// method's settings (GPE: points, length-kr, starts, tol; 0 means the
-// default rule) and the classifier thresholds.
+// method's settings (GPE: points, length-kr, starts, tol, stripe-box; 0
+// means the default rule) and the classifier thresholds.
 func (p *MapProblem) Identity() Identity {
 	skip := map[string]bool{}
 	for _, a := range []Axis{p.X, p.Y} {
@@ -325,6 +331,8 @@ func (p *MapProblem) Identity() Identity {
 		if p.Trap != nil {
 			f := p.Trap.FreqHz
 			add("trap", fmt.Sprintf("%s,%s,%s Hz", num(f[0]), num(f[1]), num(f[2])))
+		} else if p.GPE.Length == 0 {
+			add("stripe-box", string(p.GPE.stripeBox()))
 		}
 	}
 	th := thresholds(p.Variational)

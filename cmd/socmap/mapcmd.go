@@ -51,6 +51,7 @@ type mapOpts struct {
 	gpeDims              int
 	gpePoints, gpeStarts int
 	gpeLength, gpeTol    *quantity
+	stripeBox            string
 }
 
 // addFlags registers the map flags.
@@ -67,6 +68,7 @@ func (o *mapOpts) addFlags(fs *pflag.FlagSet) {
 	o.tf.add(fs)
 	fs.IntVar(&o.gpeStarts, "starts", 0, "gpe: random starts per point besides the variational optimum and the competing phase")
 	o.gpeTol = qflag(fs, "tol", KindNumber, "1e-8", "gpe: residual to converge to, in E_R")
+	fs.StringVar(&o.stripeBox, "stripe-box", "optimise", "gpe: boxes of the stripe branch: optimise (the stripe period optimised per point, ≈ 5× the cost) or fixed (one box of the variational stripe period; the GPE stripe edge comes out early)")
 	fs.IntVar(&o.workers, "workers", 0, "parallel workers (0 = all cores, or SLURM_CPUS_PER_TASK inside a Slurm job)")
 	fs.StringSliceVar(&o.outs, "out", nil, "write FILE.h5 (map), FILE.png, .svg or .pdf (phase diagram), FILE.json (repeatable)")
 	fs.StringSliceVar(&o.observables, "png-observable", nil, "also write one figure per observable NAME beside each figure --out (map.png → map-NAME.png): sequential colours (diverging for a signed one), colour bar with units, NaN cells grey; e.g. contrast,period")
@@ -105,8 +107,11 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 		if o.gpeDims != 1 && o.gpeDims != 2 {
 			return nil, usagef("--dims %d: allowed 1, 2", o.gpeDims)
 		}
+		if sb := phases.StripeBox(o.stripeBox); sb != phases.StripeBoxOptimise && sb != phases.StripeBoxFixed {
+			return nil, usagef("--stripe-box %q: allowed: optimise, fixed", o.stripeBox)
+		}
 		p.GPE = phases.GPESettings{Points: o.gpePoints, Length: o.gpeLength.v, RandomStarts: o.gpeStarts,
-			Solver: gpe.Settings{Tol: o.gpeTol.v}, Dims: o.gpeDims}
+			Solver: gpe.Settings{Tol: o.gpeTol.v}, Dims: o.gpeDims, StripeBox: phases.StripeBox(o.stripeBox)}
 	} else if o.gpeDims != 1 {
 		return nil, usagef("--dims %d: a grid dimension is for --method gpe", o.gpeDims)
 	}
