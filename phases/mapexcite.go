@@ -15,12 +15,14 @@ import (
 // scheme gives no recoil. For a GPE map they are computed where the GPE
 // state is uniform (plane-wave or single-minimum) from the same uniform
 // problem: the uniform plane wave is an exact GPE state, the variational
-// plane-wave branch's (of a degenerate ±k₁ pair the +k₁ wave, as the map's
-// tie-break keeps).
+// plane-wave branch's. Of a degenerate ±k₁ pair (δ/2 + Δg = 0) they are the
+// +k₁ wave's, the state a GPE map keeps (a variational map may store k1 of
+// the −k₁ wave, whose c(+x) and c(−x) are these swapped, and whose roton
+// sits at −roton_q).
 var ExcitationObservables = []Observable{
 	{Name: "roton_gap", Unit: "E_R", Description: "roton gap: the lowest local minimum of the lower Bogoliubov branch along x away from q = 0 (|q| <= 4 k_R) of the uniform state; NaN at stripe points, without a roton minimum, or where the spectrum is dynamically unstable (bdg_unstable)"},
 	{Name: "roton_q", Unit: "k_R", Description: "excitation momentum q_x of the roton minimum (signed; NaN where roton_gap is NaN)"},
-	{Name: "sound_velocity_x", Unit: "hbar k_R/m", Description: "sound velocity along +x of the uniform state (the slope of the gapless branch; a plane wave's spectrum is not symmetric in q, see sound_velocity_minus_x); NaN at stripe points"},
+	{Name: "sound_velocity_x", Unit: "hbar k_R/m", Description: "sound velocity along +x of the uniform state (the slope of the gapless branch; a plane wave's spectrum is not symmetric in q, see sound_velocity_minus_x; of a degenerate +-k1 pair the +k1 wave's); NaN at stripe points"},
 	{Name: "sound_velocity_minus_x", Unit: "hbar k_R/m", Description: "sound velocity along -x of the uniform state; NaN at stripe points"},
 	{Name: "bdg_unstable", Unit: "dimensionless", Description: "1 where the roton scan met a complex Bogoliubov frequency (dynamical instability) or a negative-energy mode (energetic instability), else 0; NaN at stripe points"},
 }
