@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"math"
 	"os"
+	"strings"
 	"testing"
 )
 
@@ -68,5 +69,48 @@ func TestMapGPEStripeEdgeAgainstNumpy(t *testing.T) {
 	t.Logf("map edge %.4f E_R, numpy %.4f; phases %v", edge, want, doc.Phase)
 	if changes != 1 || !(math.Abs(edge-want) <= 0.005) {
 		t.Errorf("edge %g (phases %v), numpy %g ± 0.005", edge, doc.Phase, want)
+	}
+}
+
+// Bad input of the new map flags: one line naming the flag, exit 2.
+func TestMapEdgeFlagsBadInput(t *testing.T) {
+	for _, c := range []struct {
+		args []string
+		flag string
+	}{
+		{[]string{"--x", "omega=1:2:3", "--y", "G2=0:0.1:3", "--gpe-edge"}, "--gpe-edge"},
+		{[]string{"--x", "G2=0:0.1:3", "--gpe-edge"}, "--gpe-edge"},
+		{[]string{"--x", "omega=1:2:3", "--method", "gpe", "--gpe-edge"}, "--gpe-edge"},
+		{[]string{"--x", "omega=1:2:3", "--gpe-edge", "--shard", "0/2", "--out", "x.h5"}, "--gpe-edge"},
+		{[]string{"--x", "omega=1:2:3", "--method", "gpe", "--stripe-box", "best"}, "--stripe-box"},
+	} {
+		args := append([]string{"map", "--omega-er", "1", "--G1", "1", "--G2", "0.05", "--quiet"}, c.args...)
+		code, _, e := runM(t, args...)
+		if code != 2 || !strings.Contains(e, c.flag) || strings.Count(strings.TrimSpace(e), "\n") != 0 {
+			t.Errorf("%v: exit %d, %q", c.args, code, e)
+		}
+	}
+}
+
+// --excitations and --gpe-edge on a variational map along omega: the JSON
+// carries both, and the table states the edge.
+func TestMapExcitationsAndEdgeCLI(t *testing.T) {
+	if testing.Short() {
+		t.Skip("GPE bisection")
+	}
+	code, out, e := runM(t, "map", "--omega-er", "1", "--G1", "1", "--G2", "0.05", "--x", "omega=1:2.5:16", "--excitations", "--gpe-edge", "--json", "--quiet")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, e)
+	}
+	var doc map[string]any
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	edge, _ := doc["gpe_stripe_edge_omega_over_ER"].(float64)
+	if want := refGPEEdge(t, 1, 0.05); math.Abs(edge-want) > 0.005 {
+		t.Errorf("edge %v, numpy %g", doc["gpe_stripe_edge_omega_over_ER"], want)
+	}
+	if g, ok := doc["roton_gap_over_ER"].([]any); !ok || len(g) != 16 {
+		t.Errorf("roton gap %v", doc["roton_gap_over_ER"])
 	}
 }
