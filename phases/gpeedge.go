@@ -108,11 +108,6 @@ func BestGPEState(u Uniform, s *GPEBestSettings) (*GPEBest, error) {
 			return GPECandidate{}, nil, err
 		}
 		p := gpe.Problem{Grid: g, Model: gpe.UniformBox(g, u.Omega, u.Delta, u.Guu, u.Gdd, u.Gud)}
-		for i := range starts {
-			if starts[i].Kind == gpe.GuessGiven && starts[i].State == nil {
-				starts[i].State = TwoWaveState(g, vr.StripeState)
-			}
-		}
 		mr, err := gpe.MultiStart(p, starts, &solver, th)
 		if err != nil {
 			return GPECandidate{}, nil, err
@@ -144,11 +139,11 @@ func BestGPEState(u Uniform, s *GPEBestSettings) (*GPEBest, error) {
 	// Stripe branch: boxes of four stripe wavelengths, the stripe momentum
 	// optimised (stripeMomentumSearch).
 	if ks, ok := stripeBranchMomentum(vr); ok {
-		err := stripeMomentumSearch(ks, set.KSpan, set.KTol, func(k float64, refine bool) (float64, bool, error) {
+		err := stripeMomentumSearch(ks, set.KSpan, set.KTol, func(k float64, useWarm bool) (float64, bool, error) {
 			var c GPECandidate
 			var o *gpe.Observables
 			var err error
-			if ws, sv, ok := warmStart(refine, warm, set.Points, set.Solver); ok {
+			if ws, sv, ok := warmStart(useWarm, warm, set.Points, set.Solver); ok {
 				c, o, err = solve("stripe", k, ws, sv)
 			}
 			if err == nil && (o == nil || c.Status != gpe.Converged) {
@@ -186,24 +181,29 @@ func stripeBranchMomentum(vr Result) (float64, bool) {
 	return ks, ok
 }
 
-// stripeBoxStarts are the starts of the stripe branch in the box of stripe
-// momentum k: the equal superposition of the lower-band spinors at ±k
-// (gpe.GuessStripe), then the variational stripe state (a GuessGiven
-// without a State: the caller fills it in on its grid).
+// stripeBoxStarts are the cold starts of the stripe branch in the box of
+// stripe momentum k: the equal superposition of the lower-band spinors at
+// ±k (gpe.GuessStripe). The variational stripe state as a second start
+// never gave a stripe the GuessStripe start missed, nor a lower one, in
+// 483 scan boxes (G1 = 0.3 … 3, G2 = 0.014 … 0.25, Ω across and beyond the
+// stripe windows; measured on this code): where it ended lower it was a
+// plane wave, which its own box holds lower still. It is therefore not
+// used (it cost half of the scan).
 func stripeBoxStarts(k float64) []gpe.Guess {
-	return []gpe.Guess{{Name: "stripe", Kind: gpe.GuessStripe, K: k}, {Name: "variational stripe", Kind: gpe.GuessGiven}}
+	return []gpe.Guess{{Name: "stripe", Kind: gpe.GuessStripe, K: k}}
 }
 
-// warmStart returns the start of a golden-section box of the stripe search:
+// warmStart returns the start of a box of the stripe search once a stripe
+// was found (warm true, see stripeMomentumSearch):
 // the best stripe so far (its array of values, which in a box of the same
 // number of points and the same number of periods is the stripe stretched
 // to the new period) with solver settings that go to the finisher after one
 // split step (measured: 0.3 ms against 1.2 ms for a gpe.GuessStripe start,
-// the same state to 1e-10 E_R). ok is false outside the refinement or
+// the same state to 1e-10 E_R). ok is false before a stripe was found or
 // without a warm state of that size; a warm start that does not converge is
 // followed by the full starts (the callers' rule).
-func warmStart(refine bool, warm *gpe.State, points int, solver gpe.Settings) ([]gpe.Guess, gpe.Settings, bool) {
-	if !refine || warm == nil || warm.Grid.Size != points {
+func warmStart(use bool, warm *gpe.State, points int, solver gpe.Settings) ([]gpe.Guess, gpe.Settings, bool) {
+	if !use || warm == nil || warm.Grid.Size != points {
 		return nil, solver, false
 	}
 	solver.MaxSplitSteps = warmSplitSteps
@@ -218,17 +218,19 @@ const warmSplitSteps = 1
 const stripeScanBoxes = 7
 
 // stripeMomentumSearch is the one optimiser of the stripe box (BestGPEState
-// and the GPE map points use it): eval(k, refine) solves the stripe branch
-// in the box sized for stripe momentum k (k_R) and returns the lowest
+// and the GPE map points use it): eval(k, warm) solves the stripe branch in
+// the box sized for stripe momentum k (k_R) and returns the lowest
 // converged energy there (+Inf when no start converged) and whether that
 // lowest state is a stripe. The search scans stripeScanBoxes momenta evenly
-// over [max(ks − span, gpe.MinBoxMomentum), ks + span/2] (refine false: a
-// stripe start can fall to a plane wave in boxes far from its period,
-// which breaks unimodality, so the scan uses the full starts), then refines
-// by golden section in the bracket of the best scan point until it is
-// narrower than tol (refine true: the caller may start from the best stripe
-// found so far, which is then a few finisher iterations from the stripe of
-// the new box). When no scan box holds a stripe the branch has none and the
+// over [max(ks − span, gpe.MinBoxMomentum), ks + span/2], then refines by
+// golden section in the bracket of the lowest stripe of the scan until it
+// is narrower than tol (boxes whose lowest state is not a stripe count as
+// +Inf: the stripe's period is optimised). Until a box holds a stripe, eval gets warm false and
+// uses the full starts (a stripe start can fall to a plane wave in boxes
+// far from its period, which also breaks unimodality: hence the scan);
+// from then on warm is true and the caller may start from the best stripe
+// found so far, a few finisher iterations from the stripe of the new box
+// (warmStart). When no scan box holds a stripe the branch has none and the
 // golden section is skipped (a stripe confined to a bracket narrower than
 // the scan step, span/4, would be missed; the edge tests against the numpy
 // reference check that this does not happen at the stripe edge).
@@ -242,12 +244,12 @@ func stripeMomentumSearch(ks, span, tol float64, eval func(k float64, refine boo
 	h := (b - a) / (stripeScanBoxes - 1)
 	jb, fb, any := 0, math.Inf(1), false
 	for j := 0; j < stripeScanBoxes; j++ {
-		f, st, err := eval(a+float64(j)*h, false)
+		f, st, err := eval(a+float64(j)*h, any)
 		if err != nil {
 			return err
 		}
 		any = any || st
-		if f < fb {
+		if st && f < fb {
 			jb, fb = j, f
 		}
 	}
@@ -256,7 +258,10 @@ func stripeMomentumSearch(ks, span, tol float64, eval func(k float64, refine boo
 	}
 	a, b = math.Max(a+float64(jb-1)*h, gpe.MinBoxMomentum), a+float64(jb+1)*h
 	f := func(k float64) (float64, error) {
-		e, _, err := eval(k, true)
+		e, st, err := eval(k, true)
+		if !st {
+			e = math.Inf(1) // the period of the stripe is optimised, not the box of a plane wave
+		}
 		return e, err
 	}
 	const gr = 0.6180339887498949

@@ -121,9 +121,10 @@ func (s GPESettings) stripeBox() StripeBox {
 //     Uniform.Couplings), the variational stripe state, random seeds 1…n;
 //   - the stripe boxes (when the variational theory has a stripe branch):
 //     with StripeBox optimise the boxes of stripeMomentumSearch, with fixed
-//     the one box of the variational stripe momentum; in each the starts of
+//     the one box of the variational stripe momentum; in each the start of
 //     BestGPEState's stripe branch (stripeBoxStarts: gpe.GuessStripe at the
-//     box momentum, then the variational stripe state).
+//     box momentum; once a stripe is found, the best stripe so far first,
+//     warmStart).
 //
 // With Length given every start runs in that one box (and the stripe
 // period is not optimised). The phase comes from the shared classifier
@@ -265,27 +266,23 @@ func gpeSolve(s GPESettings) func(context.Context, Uniform) (PointResult, error)
 		// box is the only one and held every start).
 		if hasStripe && s.Length == 0 {
 			var unresolved gpe.BoxAxis
-			err := stripeMomentumSearch(ks, span, ktol, func(k float64, refine bool) (float64, bool, error) {
+			err := stripeMomentumSearch(ks, span, ktol, func(k float64, useWarm bool) (float64, bool, error) {
 				axes, ok := box(k)
 				if !ok {
 					unresolved = axes[0]
 					return math.Inf(1), false, errUnresolved
 				}
-				// The golden section starts from the best stripe so far
-				// when its box has the same shape (warmStart); a warm
-				// start that does not converge is followed by the full
-				// starts.
-				if ws, set, ok := warmStart(refine && sameShape(warmBox, axes), warm, boxSize(axes), s.Solver); ok {
+				// Once a stripe is found, a box starts from the best stripe
+				// so far when its box has the same shape (warmStart); a
+				// warm start that does not converge is followed by the
+				// full starts.
+				if ws, set, ok := warmStart(useWarm && sameShape(warmBox, axes), warm, boxSize(axes), s.Solver); ok {
 					e, st, conv, err := run(axes, set, func(*gpe.Grid) []gpe.Guess { return ws })
 					if err != nil || conv {
 						return e, st, err
 					}
 				}
-				e, st, _, err := run(axes, s.Solver, func(g *gpe.Grid) []gpe.Guess {
-					gs := stripeBoxStarts(k)
-					gs[1].State = TwoWaveState(g, vr.StripeState)
-					return gs
-				})
+				e, st, _, err := run(axes, s.Solver, func(*gpe.Grid) []gpe.Guess { return stripeBoxStarts(k) })
 				return e, st, err
 			})
 			if errors.Is(err, errUnresolved) {

@@ -203,3 +203,24 @@ func TestGPEPointBoxEffect(t *testing.T) {
 		t.Errorf("optimise %.10f, BestGPEState %.10f, fixed %.10f", e[0], b.Energy, e[1])
 	}
 }
+
+// BenchmarkGPEMapFixedBox is BenchmarkGPEMap with StripeBox fixed (the
+// stripe in one box of the variational period), one worker.
+func BenchmarkGPEMapFixedBox(b *testing.B) {
+	omegas := make([]float64, 64)
+	for i := range omegas {
+		omegas[i] = 0.25 + 4.5*float64(i)/63
+	}
+	sw := Sweep{X: Axis{Name: "omega", Unit: "E_R", Values: omegas}, Observables: GPEObservables}
+	f := GPEPoints(func(ix, iy int) (Uniform, error) { return Symmetric(omegas[ix], 1, 0.1), nil }, GPESettings{StripeBox: StripeBoxFixed})
+	if _, err := Run(context.Background(), sw, f, &gpeSink{}, &RunSettings{Workers: 1}); err != nil {
+		b.Fatal(err)
+	}
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		if _, err := Run(context.Background(), sw, f, &gpeSink{}, &RunSettings{Workers: 1}); err != nil {
+			b.Fatal(err)
+		}
+	}
+	b.ReportMetric(float64(len(omegas))*float64(b.N)/b.Elapsed().Seconds(), "points/s")
+}
