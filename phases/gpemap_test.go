@@ -206,6 +206,11 @@ func TestGPEPointBoxEffect(t *testing.T) {
 
 // BenchmarkGPEMapFixedBox is BenchmarkGPEMap with StripeBox fixed (the
 // stripe in one box of the variational period), one worker.
+//
+// Measured on the shared 2-core machine (load ≈ 13, so wide ranges; runs
+// paired one after the other), points/s with one worker: the single box of
+// earlier versions 106–344, StripeBox optimise (BenchmarkGPEMap) 28–94
+// (≈ 3.5–4.5× the cost), fixed 126–223.
 func BenchmarkGPEMapFixedBox(b *testing.B) {
 	omegas := make([]float64, 64)
 	for i := range omegas {
