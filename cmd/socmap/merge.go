@@ -207,6 +207,10 @@ func (o *mapOpts) printSbatch(cmd *cobra.Command, p *phases.MapProblem, h5out st
 			vals = sv.GetSlice()
 		}
 		for _, v := range vals {
+			if f.Value.Type() == "bool" { // "--flag false" would read false as an argument
+				args = append(args, "--"+f.Name+"="+shellQuote(v))
+				continue
+			}
 			args = append(args, "--"+f.Name, shellQuote(v))
 		}
 	})
