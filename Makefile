@@ -26,7 +26,7 @@ lint: vet
 # The race detector on the packages that run goroutines (sweep workers,
 # solver threads, FFTW plan cache, the HDF5 lock, verify workers).
 race: deps
-	$(GO) test -race -short -count=1 ./phases/... ./gpe/... ./output/...
+	$(GO) test -race -short -count=1 -timeout 30m ./phases/... ./gpe/... ./output/...
 
 # Reference values from outside libraries (numpy/scipy), regenerated or
 # recomputed and compared on every run.
@@ -40,6 +40,7 @@ refs: deps
 	$(PY) testdata/ref_spin1.py
 	$(PY) testdata/ref_spin1_gpe.py
 	$(PY) testdata/ref_gpe_edge.py
+	$(PY) testdata/ref_raman.py
 
 # Outside readers of our HDF5 files: h5py and h5dump on a fixture of every
 # type the layer writes, and on the result files of a demo run.
@@ -54,9 +55,9 @@ h5check: build
 	echo "h5check: h5py and h5dump read every file"
 
 test: deps lint refs
-	$(GO) test -count=1 ./...
+	$(GO) test -count=1 -timeout 30m ./...
 	CGO_ENABLED=0 $(GO) build ./gpe/... && CGO_ENABLED=0 $(GO) test -count=1 ./gpe/fft/
-	$(GO) test -count=1 -tags purego ./gpe/...
+	$(GO) test -count=1 -short -timeout 30m -tags purego ./gpe/...
 	$(MAKE) --no-print-directory race
 	$(MAKE) --no-print-directory h5check
 	@echo "make test: all checks passed"

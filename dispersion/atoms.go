@@ -10,14 +10,22 @@ import (
 // Line is an optical transition used for photon-scattering estimates.
 type Line struct {
 	Name       string  // "D1", "D2"
-	Wavelength float64 // vacuum wavelength, m
+	Wavelength float64 // vacuum wavelength between the fine-structure centres of gravity, m
 	GammaHz    float64 // natural linewidth Γ/2π, Hz
+	// HFSSpanHz: the span of the excited state's hyperfine structure
+	// (lowest to highest F'), Hz; the far-detuned Raman model treats it as
+	// unresolved (NearResonanceHFS).
+	HFSSpanHz float64
 }
 
 // Species holds the ground-state data of an alkali atom (J = 1/2).
 //
-// Source of the atomic data (mass, I, hyperfine splitting, g_J, g_I, D lines):
-// the alkali D-line data compilations of D. A. Steck, values from memory.
+// Source of the atomic data (mass, I, hyperfine splitting, g_J, g_I, D lines:
+// wavelengths, natural widths and the excited-state hyperfine spans): the
+// alkali D-line data compilations of D. A. Steck (Na, Rb), T. G. Tiecke (K)
+// and M. E. Gehm (Li), values from memory. The hyperfine spans of the
+// P_{3/2} states are rounded (≈ 6|A| corrected by B where recalled); they only
+// set the near-resonance warning of the Raman scheme.
 // Scattering lengths: see the per-species Source text; NaN where this table
 // does not give them (pass explicit scattering lengths instead).
 type Species struct {
@@ -37,35 +45,35 @@ var speciesTable = map[string]Species{
 		Name: "Na23", Mass: 22.9897692807 * AtomicMass, I: 1.5,
 		HFSHz: 1771626128.8, GJ: 2.00229600, GI: -0.00080461080,
 		A0: 47.36, A2: 52.98,
-		Lines:  []Line{{"D1", 589.7558147e-9, 9.765e6}, {"D2", 589.1583264e-9, 9.7946e6}},
+		Lines:  []Line{{"D1", 589.7558147e-9, 9.765e6, 188.70e6}, {"D2", 589.1583264e-9, 9.7946e6, 108.5e6}},
 		Source: "atomic data: D. A. Steck, Sodium D line data (from memory); a0, a2: S. Knoop et al., Phys. Rev. A 83, 042704 (2011) (from memory)",
 	},
 	"Rb87": {
 		Name: "Rb87", Mass: 86.909180527 * AtomicMass, I: 1.5,
 		HFSHz: 6834682610.90429, GJ: 2.00233113, GI: -0.0009951414,
 		A0: 101.8, A2: 100.4,
-		Lines:  []Line{{"D1", 794.978851156e-9, 5.7500e6}, {"D2", 780.241209686e-9, 6.0666e6}},
+		Lines:  []Line{{"D1", 794.978851156e-9, 5.7500e6, 816.66e6}, {"D2", 780.241209686e-9, 6.0666e6, 495.8e6}},
 		Source: "atomic data: D. A. Steck, Rubidium 87 D line data (from memory); a0, a2: E. G. M. van Kempen et al., Phys. Rev. Lett. 88, 093201 (2002) (from memory)",
 	},
 	"K39": {
 		Name: "K39", Mass: 38.9637064864 * AtomicMass, I: 1.5,
 		HFSHz: 461719720.2, GJ: 2.00229421, GI: -0.00014193489,
 		A0: math.NaN(), A2: math.NaN(),
-		Lines:  []Line{{"D1", 770.108385049e-9, 5.956e6}, {"D2", 766.700921822e-9, 6.035e6}},
+		Lines:  []Line{{"D1", 770.108385049e-9, 5.956e6, 55.5e6}, {"D2", 766.700921822e-9, 6.035e6, 33.8e6}},
 		Source: "atomic data: T. G. Tiecke, Properties of potassium (from memory); scattering lengths are field dependent (Feshbach resonances): give them explicitly",
 	},
 	"K41": {
 		Name: "K41", Mass: 40.9618252579 * AtomicMass, I: 1.5,
 		HFSHz: 254013872.0, GJ: 2.00229421, GI: -0.00007790600,
 		A0: math.NaN(), A2: math.NaN(),
-		Lines:  []Line{{"D1", 770.108136e-9, 5.956e6}, {"D2", 766.70045e-9, 6.035e6}},
+		Lines:  []Line{{"D1", 770.108136e-9, 5.956e6, 30.5e6}, {"D2", 766.70045e-9, 6.035e6, 20.2e6}},
 		Source: "atomic data: T. G. Tiecke, Properties of potassium (from memory); scattering lengths not tabulated here: give them explicitly",
 	},
 	"Li7": {
 		Name: "Li7", Mass: 7.0160034366 * AtomicMass, I: 1.5,
 		HFSHz: 803504086.6, GJ: 2.0023010, GI: -0.0011822130,
 		A0: math.NaN(), A2: math.NaN(),
-		Lines:  []Line{{"D1", 670.976e-9, 5.8724e6}, {"D2", 670.961e-9, 5.8724e6}},
+		Lines:  []Line{{"D1", 670.976e-9, 5.8724e6, 91.8e6}, {"D2", 670.961e-9, 5.8724e6, 18.3e6}},
 		Source: "atomic data: M. E. Gehm, Properties of 6Li / 7Li compilations (from memory); scattering lengths not tabulated here: give them explicitly",
 	},
 }

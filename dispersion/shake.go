@@ -120,6 +120,22 @@ func badf(format string, a ...any) error {
 	return fmt.Errorf("%w: %s", ErrBadInput, fmt.Sprintf(format, a...))
 }
 
+// RFPairAllowed checks that one RF (or microwave) photon couples up and
+// down: inside one hyperfine manifold |Δm| = 1; across the two manifolds
+// |Δm| ≤ 1 (Δm = 0 is a π microwave transition, accepted with
+// WarnMicrowave). A magnetic-dipole photon carries |Δm| ≤ 1, so any other
+// pair has no direct coupling; it is refused (ErrBadInput).
+func RFPairAllowed(up, down Sublevel) error {
+	dm := absInt(up.M - down.M)
+	switch {
+	case up.F == down.F && dm != 1:
+		return badf("sublevels %v and %v differ by |Δm| = %d inside F = %d: one RF photon couples only |Δm| = 1", up, down, dm, up.F)
+	case up.F != down.F && dm > 1:
+		return badf("sublevels %v and %v differ by |Δm| = %d: one photon couples only |Δm| ≤ 1", up, down, dm)
+	}
+	return nil
+}
+
 // Evaluate computes the effective parameters of the shaking scheme.
 //
 // Impulse: A_σ(t) = (μ_σ b′/ω) S(ωt), with S the zero-mean integral of the
@@ -142,6 +158,9 @@ func (p Shake) Evaluate() (ShakeResult, error) {
 	}
 	if p.Up == p.Down {
 		return r, badf("up and down sublevels are the same (%v)", p.Up)
+	}
+	if err := RFPairAllowed(p.Up, p.Down); err != nil {
+		return r, err
 	}
 	switch {
 	case !(p.Bias > 0) || math.IsInf(p.Bias, 0):
@@ -345,9 +364,6 @@ func (p Shake) warnings(r *ShakeResult, cyc *Cycle) []Warning {
 		if d > DephasingLimit {
 			add(WarnPulseDephasing, "momentum spread over the pulse dephases successive pulses: k_spread·(ħ|k_t|/m)·t_π = %.2g (want ≪ 1, limit %g): the real coupling is weaker than Ω; shorten the pulses or check with socmap verify", d, DephasingLimit)
 		}
-	}
-	if p.Up.F == p.Down.F && absInt(p.Up.M-p.Down.M) != 1 {
-		add(WarnDeltaM, "the sublevels differ by |Δm| ≠ 1: a single RF photon does not couple them directly")
 	}
 	if p.Up.F != p.Down.F {
 		add(WarnMicrowave, "the sublevels lie in different hyperfine manifolds: this is a microwave transition")

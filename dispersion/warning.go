@@ -39,7 +39,9 @@ const (
 	WarnLongPulses = "long-pulses"
 	// WarnPulseDephasing: k_spread·(ħ|k_t|/m)·t_π above DephasingLimit.
 	WarnPulseDephasing = "pulse-dephasing"
-	// WarnDeltaM: the sublevels differ by |Δm| ≠ 1 in one manifold.
+	// WarnDeltaM: the sublevels differ by |Δm| ≠ 1 in one manifold. No
+	// longer emitted: Shake.Evaluate refuses such pairs (RFPairAllowed); the
+	// code keeps its meaning.
 	WarnDeltaM = "delta-m"
 	// WarnMicrowave: the sublevels lie in different hyperfine manifolds.
 	WarnMicrowave = "microwave"
@@ -47,10 +49,14 @@ const (
 	// RF transition is near.
 	WarnDeltaBandwidth = "delta-bandwidth"
 	// WarnNeighbour: the nearest other RF transition is closer than
-	// NeighbourSeparation × the larger of peak Rabi frequency and bandwidth.
+	// NeighbourSeparation × the larger of peak Rabi frequency and bandwidth;
+	// for the Raman scheme, the nearest other two-photon transition is closer
+	// to resonance than NeighbourSeparation × its Raman Rabi frequency
+	// (atoms leak to a third sublevel).
 	WarnNeighbour = "neighbour-transition"
-	// WarnNearResonant: Raman beams closer than 100 natural linewidths to a
-	// D line.
+	// WarnNearResonant: Raman beams closer to a D line than
+	// NearResonanceLinewidths natural linewidths or NearResonanceHFS times
+	// the hyperfine structure the far-detuned model leaves unresolved.
 	WarnNearResonant = "near-resonant"
 )
 

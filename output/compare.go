@@ -56,11 +56,33 @@ func (r *CompareReport) ShakeLimitTexts() []string {
 // RamanLimitTexts returns the Raman scheme's limits, one line each.
 func (r *CompareReport) RamanLimitTexts() []string {
 	var out []string
-	if s := r.RamanLimits.Scattering; s != nil {
-		out = append(out, fmt.Sprintf("photon scattering ≈ %s /s at mid-window coupling (two-level estimate, %s %s GHz away): heating ≈ %s E_R/s",
-			Num(s.Rate, 3), s.NearestLine, Num(s.LineDetuningHz/1e9, 4), Num(s.HeatingER, 3)))
+	l := r.RamanLimits
+	if s := l.Scattering; s != nil {
+		out = append(out, fmt.Sprintf("photon scattering ≈ %s /s at mid-window coupling (far-detuned D1 + D2: %s and %s GHz from ↑; each beam %s W/cm²; Γ_sc/Ω = %s, far-detuned floor %s): heating ≈ %s E_R/s",
+			Num(s.Rate, 3), Num(s.DetuningD1Hz/1e9, 5), Num(s.DetuningD2Hz/1e9, 5), Num(s.BeamIntensity*1e-4, 3),
+			Num(s.PerRabi, 3), Num(s.FarDetunedPerRabi, 3), Num(s.HeatingER, 3)))
 	}
-	return append(out, dispersion.WarningTexts(r.RamanLimits.Warnings)...)
+	if !math.IsNaN(l.TwoPhotonHz) && l.TwoPhotonHz != 0 {
+		out = append(out, fmt.Sprintf("two-photon resonance: beam frequency difference |f₀| = %s MHz (|E↓ − E↑|/h at %s G); set |f₀| %+.4g Hz for the planned δ, |f₀| %+.4g Hz for δ_b",
+			Num(l.TwoPhotonHz/1e6, 9), Num(r.Problem.Shake.Bias/dispersion.Gauss, 4), l.BeamDifferenceHz-l.TwoPhotonHz, l.BeamDifferenceBalancedHz-l.TwoPhotonHz))
+	}
+	if i := l.Isolation; i != nil {
+		at := "planned"
+		if i.AtMidWindow {
+			at = "mid-window"
+		}
+		why := ""
+		if !math.IsNaN(i.QuadZeemanHz) {
+			why = fmt.Sprintf(", set by the quadratic Zeeman shift q/h = %s Hz", Num(i.QuadZeemanHz, 4))
+		}
+		msg := fmt.Sprintf("third sublevel: %s is %s kHz from two-photon resonance%s, against its Raman Rabi frequency %s Hz at %s coupling: isolation %s (leakage ≤ %s)",
+			i.Neighbour, Num(i.DetuningHz/1e3, 4), why, Num(i.NeighbourHz, 4), at, Num(i.Ratio, 3), Num(i.Leakage, 2))
+		if !i.Isolated {
+			msg += fmt.Sprintf(": NOT isolated (want ≥ %g) — raise the bias field or lower Ω", dispersion.NeighbourSeparation)
+		}
+		out = append(out, msg)
+	}
+	return append(out, dispersion.WarningTexts(l.Warnings)...)
 }
 
 // VerdictText states a side's verdict in one line.
@@ -225,6 +247,11 @@ func (r *CompareReport) JSON() map[string]any {
 			d["stripe_contrast"] = s.Mid.Contrast
 			d["delta_tolerance_hz"] = n(s.DeltaWindow.Width() / 2 * s.ERHz())
 		}
+		if i == 1 {
+			for k, v := range r.ramanLimitsJSON() {
+				d[k] = v
+			}
+		}
 		if e := s.GPEEdge; e != nil {
 			d["gpe_edge"] = map[string]any{"found": e.Found, "omega_over_ER": n(e.Omega), "bracket_over_ER": []any{n(e.Lo), n(e.Hi)},
 				"rabi_hz": n(e.Omega * s.ERHz()), "note": e.Note, "planned_between_edges": s.Verdict.BetweenEdges}
@@ -248,4 +275,24 @@ func CloudJSON(c *phases.CloudResult) map[string]any {
 		"mu_3d_thomas_fermi_hz": c.Mu3D / dispersion.Planck, "mu_reduced_hz": c.MuReduced / dispersion.Planck,
 		"hbar_omega_perp_hz": c.HbarOmegaPerp / dispersion.Planck, "mu_over_hbar_omega_perp": c.Ratio,
 		"valid": c.Valid, "coupling_scale": c.Scale, "peak_density_per_m3": c.PeakDensity, "warning": c.Warning}
+}
+
+// ramanLimitsJSON holds the Raman side's limits as numbers (SI, the unit in
+// the key).
+func (r *CompareReport) ramanLimitsJSON() map[string]any {
+	n := JSONNum
+	l := r.RamanLimits
+	d := map[string]any{"two_photon_hz": n(l.TwoPhotonHz), "beam_difference_hz": n(l.BeamDifferenceHz),
+		"beam_difference_balanced_hz": n(l.BeamDifferenceBalancedHz)}
+	if s := l.Scattering; s != nil {
+		d["scattering"] = map[string]any{"rabi_hz": s.RabiHz, "rate_per_s": s.Rate, "detuning_d1_hz": s.DetuningD1Hz,
+			"detuning_d2_hz": s.DetuningD2Hz, "beam_intensity_W_per_m2": n(s.BeamIntensity), "per_rabi": n(s.PerRabi),
+			"per_rabi_far_detuned": n(s.FarDetunedPerRabi), "heating_ER_per_s": s.HeatingER}
+	}
+	if i := l.Isolation; i != nil {
+		d["third_level"] = map[string]any{"transition": i.Neighbour, "rabi_hz": i.RabiHz, "at_mid_window": i.AtMidWindow,
+			"detuning_hz": i.DetuningHz, "neighbour_rabi_hz": i.NeighbourHz, "quadratic_zeeman_hz": n(i.QuadZeemanHz),
+			"isolation": n(i.Ratio), "leakage": n(i.Leakage), "isolated": i.Isolated}
+	}
+	return d
 }

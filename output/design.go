@@ -145,7 +145,7 @@ func (r *DesignReport) Table() *Table {
 		t.Row("objective "+p.Objective.String(), Num(c.Objective, 4), objectiveUnit(p.Objective))
 		m := &c.Merits
 		t.RowNote("window: distance of Ω from the edge", Num(m.WindowHz, 4), "Hz", fmt.Sprintf("stripe for Ω/2π in %s … %s Hz", Num(m.OmegaLoHz, 4), Num(m.OmegaHiHz, 4)))
-		t.RowNote("field: bias stability needed", Num(m.FieldUG, 4), "µG", fmt.Sprintf("stripe for δ/2π in %s … %s Hz", Num(m.DeltaLoHz, 4), Num(m.DeltaHiHz, 4)))
+		t.RowNote("field: bias drift tolerated", Num(m.FieldUG, 4), "µG", fmt.Sprintf("stripe for δ/2π in %s … %s Hz", Num(m.DeltaLoHz, 4), Num(m.DeltaHiHz, 4)))
 		t.Row("contrast", Num(m.Contrast, 3), "")
 		t.Row("stripe period", Num(m.PeriodM*1e6, 4), "µm")
 		t.RowNote("k_t, E_R/h", Num(m.KtPerM, 4)+", "+Num(m.ERHz, 4), "1/m, Hz", fmt.Sprintf("Ω/E_R = %s, δ/E_R = %s", Num(m.OmegaER, 3), Num(m.DeltaER, 3)))
@@ -422,7 +422,7 @@ func meritLabel(m phases.Merit) string {
 	case phases.MeritWindow:
 		return "distance of Ω/2π from the window edge  [Hz]"
 	case phases.MeritField:
-		return "bias-field stability needed  [µG]"
+		return "bias-field drift the stripe tolerates  [µG]"
 	case phases.MeritContrast:
 		return "stripe contrast"
 	case phases.MeritPeriod:

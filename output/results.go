@@ -124,14 +124,34 @@ func (w *Writer) WriteShake(p dispersion.Shake, r dispersion.ShakeResult) {
 func (w *Writer) WriteRaman(p dispersion.Raman, r dispersion.RamanResult) {
 	w.WriteModel("/model", r.Model)
 	s := "/raman/"
-	w.Scalar(s+"wavelength", p.Wavelength, "m", "Raman beam wavelength")
+	w.Scalar(s+"wavelength", p.Wavelength, "m", "Raman beam wavelength (vacuum)")
 	w.Scalar(s+"angle", p.Angle, "rad", "full crossing angle of the beams")
 	w.Scalar(s+"rabi", p.RabiHz, "Hz", "two-photon Rabi frequency Ω/2π")
 	w.Scalar(s+"detuning", p.DetuningHz, "Hz", "two-photon detuning δ/2π")
 	w.Attr("/raman", "atom", p.Species.Name)
-	w.Scalar("/results/line_detuning", r.LineDetuningHz, "Hz", "single-photon detuning from the nearest D line ("+r.NearestLine+")")
-	w.Scalar("/results/scattering_rate", r.ScatterRate, "1/s", "photon scattering rate, two-level estimate Γ Ω/|Δ|")
-	w.Scalar("/results/heating", r.HeatingER, "E_R/s", "heating rate estimate, 2E_R per scattered photon")
+	o := "/results/"
+	if p.HasPair() {
+		w.Scalar(s+"bias", p.Bias, "T", "bias field B0")
+		w.Attr("/raman", "up", fmt.Sprintf("F=%d,m=%d", p.Up.F, p.Up.M))
+		w.Attr("/raman", "down", fmt.Sprintf("F=%d,m=%d", p.Down.F, p.Down.M))
+		w.Scalar(o+"two_photon_frequency", r.TwoPhotonHz, "Hz", "beam frequency difference at two-photon resonance, |E↓ − E↑|/h at B0 (Breit–Rabi)")
+		w.Scalar(o+"beam_difference", r.BeamDifferenceHz, "Hz", "beam frequency difference for the planned δ, |f0| + sgn(f0) δ/2π")
+		w.Scalar(o+"quadratic_zeeman", r.QuadZeemanHz, "Hz", "quadratic Zeeman shift q/h of the pair's manifold (NaN if n/a)")
+		w.Scalar(o+"neighbour_detuning", r.NeighbourHz, "Hz", "distance of the nearest other two-photon transition ("+r.Neighbour+") from resonance (NaN if none)")
+		w.Scalar(o+"neighbour_rabi", r.NeighbourRabiHz, "Hz", "Raman Rabi frequency on the nearest other transition (NaN if none)")
+		w.Scalar(o+"isolation", r.Isolation, "dimensionless", "neighbour detuning over its Raman Rabi frequency (NaN if none)")
+		w.Scalar(o+"leakage", r.Leakage, "dimensionless", "largest population moved to the neighbour, Ω3²/(Ω3² + δ3²) (NaN if none)")
+	}
+	w.Scalar(o+"line_detuning", r.LineDetuningHz, "Hz", "single-photon detuning from the nearest D line ("+r.NearestLine+")")
+	w.Scalar(o+"detuning_D1", r.DetuningD1Hz, "Hz", "single-photon detuning from D1 as seen from ↑ (+ = blue)")
+	w.Scalar(o+"detuning_D2", r.DetuningD2Hz, "Hz", "single-photon detuning from D2 as seen from ↑ (+ = blue)")
+	w.Scalar(o+"spin_matrix_element", r.MatrixElement, "dimensionless", "|<↓|σ_q|↑>| of the Breit–Rabi states (1 without a pair)")
+	w.Scalar(o+"beam_intensity", r.BeamIntensity, "W/m^2", "intensity of each beam for Ω (equal beams, orthogonal linear polarisations)")
+	w.Scalar(o+"beam_rabi", r.BeamRabiHz, "Hz", "single-beam Rabi frequency on the D-line doublet")
+	w.Scalar(o+"scattering_rate", r.ScatterRate, "1/s", "photon scattering rate of both beams, far-detuned D1 + D2 (weights 1/3, 2/3)")
+	w.Scalar(o+"scattering_per_rabi", r.ScatterPerRabi, "dimensionless", "Γ_sc/Ω (Ω in rad/s)")
+	w.Scalar(o+"scattering_per_rabi_far_detuned", r.FineStructureLimit, "dimensionless", "Γ_sc/Ω for detuning ≫ fine structure, (Γ1 + 2Γ2)/(s Δ_FS)")
+	w.Scalar(o+"heating", r.HeatingER, "E_R/s", "heating rate estimate, 2E_rec per scattered photon")
 	w.writeWarnings("/results", r.Warnings)
 }
 

@@ -18,7 +18,9 @@ type Comparison struct {
 	// Shake: the shaking scheme (its atom and sublevels are those of the
 	// comparison). Required.
 	Shake dispersion.Shake
-	// Raman: the Raman scheme for the same atom. Required.
+	// Raman: the Raman scheme for the same atom. Required. Its pair and bias
+	// are those of Shake: left zero they are taken from Shake, given they
+	// must be equal to Shake's.
 	Raman dispersion.Raman
 	// Couplings: 3D contact couplings g_ij (J m³) of the pair. Required.
 	Couplings dispersion.Couplings
@@ -201,18 +203,55 @@ type RamanLimits struct {
 	// Scattering: the photon scattering at mid-window coupling; nil without
 	// a stripe window.
 	Scattering *ScatteringLimit
-	// Warnings: dispersion.RamanResult.Warnings.
+	// TwoPhotonHz: the beams' frequency difference at two-photon resonance,
+	// |E↓ − E↑|/h at the bias (dispersion.RamanResult.TwoPhotonHz), Hz.
+	// BeamDifferenceHz: the difference for the planned δ;
+	// BeamDifferenceBalancedHz: for δ = δ_b, |f₀| + sgn(f₀)δ_b/2π, Hz.
+	TwoPhotonHz, BeamDifferenceHz, BeamDifferenceBalancedHz float64
+	// Isolation: how far the nearest other two-photon transition (the
+	// third sublevel of an F = 1 pair, 2|q|/h away) is from resonance
+	// against its Raman Rabi frequency, at mid-window coupling (at the
+	// planned coupling without a window); nil when the pair has no such
+	// neighbour (a pair across the two manifolds).
+	Isolation *IsolationLimit
+	// Warnings: dispersion.RamanResult.Warnings (at the planned coupling).
 	Warnings []dispersion.Warning
 }
 
-// ScatteringLimit is the two-level photon-scattering estimate of the Raman
-// beams at mid-window coupling (dispersion.RamanResult).
+// ScatteringLimit is the two-line (D1 + D2) photon-scattering estimate of
+// the Raman beams at mid-window coupling (dispersion.RamanResult).
 type ScatteringLimit struct {
 	RabiHz         float64 // the mid-window two-photon Rabi frequency, Hz
-	Rate           float64 // scattering rate, 1/s
+	Rate           float64 // scattering rate of both beams, 1/s
 	NearestLine    string
 	LineDetuningHz float64 // single-photon detuning from NearestLine, Hz
 	HeatingER      float64 // heating, E_R per second
+	// DetuningD1Hz, DetuningD2Hz: the single-photon detunings from each line
+	// as seen from ↑, Hz.
+	DetuningD1Hz, DetuningD2Hz float64
+	// BeamIntensity: intensity of each beam for RabiHz, W/m².
+	BeamIntensity float64
+	// PerRabi: Γ_sc/Ω; FarDetunedPerRabi: its floor for detunings ≫ the
+	// fine-structure splitting.
+	PerRabi, FarDetunedPerRabi float64
+}
+
+// IsolationLimit compares the detuning of the nearest other two-photon
+// transition with its Raman Rabi frequency (dispersion.RamanResult): the
+// quadratic Zeeman shift isolates an F = 1 pair from the third sublevel
+// (the isolation used by Y.-J. Lin, K. Jiménez-García and I. B. Spielman,
+// Nature 471, 83 (2011), from memory).
+type IsolationLimit struct {
+	RabiHz       float64 // the two-photon Rabi frequency it is evaluated at, Hz
+	AtMidWindow  bool    // RabiHz is the mid-window coupling (else the planned one)
+	Neighbour    string  // the transition, e.g. "|1,0> → |1,+1>"
+	DetuningHz   float64 // its distance from two-photon resonance, Hz
+	NeighbourHz  float64 // its Raman Rabi frequency, Hz
+	QuadZeemanHz float64 // q/h of the manifold, Hz (NaN if n/a)
+	Ratio        float64 // DetuningHz/NeighbourHz
+	Leakage      float64 // largest population moved there, Ω₃²/(Ω₃² + δ₃²)
+	// Isolated: Ratio ≥ dispersion.NeighbourSeparation.
+	Isolated bool
 }
 
 // Compare evaluates c. Errors caused by c's settings match ErrInput (and
@@ -266,6 +305,12 @@ func Compare(c Comparison, s *CompareSettings) (*CompareResult, error) {
 	if r.ShakeResult.Model.ER == 0 {
 		return nil, badInputf("the shaking settings give no recoil (k_t = 0)")
 	}
+	if !c.Raman.HasPair() {
+		c.Raman.Up, c.Raman.Down, c.Raman.Bias = c.Shake.Up, c.Shake.Down, c.Shake.Bias
+	} else if c.Raman.Up != c.Shake.Up || c.Raman.Down != c.Shake.Down || c.Raman.Bias != c.Shake.Bias {
+		return nil, badInputf("the Raman scheme's pair %v, %v at %g T differs from the shaking scheme's %v, %v at %g T: compare takes one pair",
+			c.Raman.Up, c.Raman.Down, c.Raman.Bias, c.Shake.Up, c.Shake.Down, c.Shake.Bias)
+	}
 	if r.RamanResult, err = c.Raman.Evaluate(); err != nil {
 		return nil, badInput(err)
 	}
@@ -301,18 +346,36 @@ func Compare(c Comparison, s *CompareSettings) (*CompareResult, error) {
 			r.ShakeLimits.QuadraticZeeman = &QuadZeemanLimit{QHz: q, C2nHz: c2n, Large: math.Abs(q) >= 10*c2n}
 		}
 	}
-	// What limits the Raman scheme: photon scattering at mid-window coupling.
+	// What limits the Raman scheme: photon scattering and the isolation of
+	// the pair at mid-window coupling; the two-photon frequency.
+	rl := &r.RamanLimits
+	rr := r.RamanResult
+	rl.TwoPhotonHz, rl.BeamDifferenceHz = rr.TwoPhotonHz, rr.BeamDifferenceHz
+	f0 := c.Shake.Species.TransitionHz(c.Raman.Up, c.Raman.Down, c.Raman.Bias)
+	rl.BeamDifferenceBalancedHz = math.Abs(f0) + math.Copysign(1, f0)*r.Raman.DeltaBalancing*r.Raman.ERHz()
+	iso, atMid := rr, false
 	if r.Raman.Window.Found {
 		ram := c.Raman
-		ram.RabiHz = r.Raman.MidOmega * r.RamanResult.Model.ERHz()
+		ram.RabiHz = r.Raman.MidOmega * rr.Model.ERHz()
 		rm, err := ram.Evaluate()
 		if err != nil {
 			return nil, fmt.Errorf("Raman scheme at mid-window coupling: %w", err)
 		}
-		r.RamanLimits.Scattering = &ScatteringLimit{RabiHz: ram.RabiHz, Rate: rm.ScatterRate, NearestLine: rm.NearestLine,
-			LineDetuningHz: rm.LineDetuningHz, HeatingER: rm.HeatingER}
+		rl.Scattering = &ScatteringLimit{RabiHz: ram.RabiHz, Rate: rm.ScatterRate, NearestLine: rm.NearestLine,
+			LineDetuningHz: rm.LineDetuningHz, HeatingER: rm.HeatingER, DetuningD1Hz: rm.DetuningD1Hz, DetuningD2Hz: rm.DetuningD2Hz,
+			BeamIntensity: rm.BeamIntensity, PerRabi: rm.ScatterPerRabi, FarDetunedPerRabi: rm.FineStructureLimit}
+		iso, atMid = rm, true
 	}
-	r.RamanLimits.Warnings = append(r.RamanLimits.Warnings, r.RamanResult.Warnings...)
+	if iso.Neighbour != "" {
+		rabi := c.Raman.RabiHz
+		if atMid {
+			rabi = rl.Scattering.RabiHz
+		}
+		rl.Isolation = &IsolationLimit{RabiHz: rabi, AtMidWindow: atMid, Neighbour: iso.Neighbour, DetuningHz: iso.NeighbourHz,
+			NeighbourHz: iso.NeighbourRabiHz, QuadZeemanHz: iso.QuadZeemanHz, Ratio: iso.Isolation, Leakage: iso.Leakage,
+			Isolated: iso.Isolation >= dispersion.NeighbourSeparation}
+	}
+	rl.Warnings = append(rl.Warnings, rr.Warnings...)
 	return r, nil
 }
 

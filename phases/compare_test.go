@@ -162,3 +162,50 @@ func TestCompareRetuneSetting(t *testing.T) {
 		t.Errorf("attractive a↑↑: error %v, want ErrInput", err)
 	}
 }
+
+// The Raman side takes the shaking scheme's pair and bias: its two-photon
+// frequency is the pair's Breit–Rabi splitting, the beams for δ_b differ
+// from it by sgn(f₀)δ_b/2π, and the third sublevel |1,+1> of the F = 1 pair
+// is 2|q|/h from resonance (q from the Breit–Rabi energies); a weak bias
+// leaves the pair unisolated at mid-window coupling. The scattering limit is
+// the two-line model's at mid-window coupling. A different Raman pair is
+// refused.
+func TestCompareRamanTransition(t *testing.T) {
+	sh, c := demoShake(t)
+	r, err := Compare(Comparison{Shake: sh, Raman: demoRaman(sh.Species), Couplings: c, Density: 1e20}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sp := sh.Species
+	l := r.RamanLimits
+	f0 := sp.TransitionHz(sh.Up, sh.Down, sh.Bias)
+	if l.TwoPhotonHz != math.Abs(f0) || math.Abs(l.BeamDifferenceBalancedHz-(math.Abs(f0)+math.Copysign(1, f0)*r.Raman.DeltaBalancing*r.Raman.ERHz())) > 1e-6 {
+		t.Errorf("two-photon %g, for δ_b %g; f₀ = %g, δ_b = %g Hz", l.TwoPhotonHz, l.BeamDifferenceBalancedHz, f0, r.Raman.DeltaBalancing*r.Raman.ERHz())
+	}
+	q := sp.QuadraticZeemanHz(1, sh.Bias)
+	iso := l.Isolation
+	if iso == nil || !iso.AtMidWindow || math.Abs(iso.DetuningHz-2*math.Abs(q)) > 1e-9*2*math.Abs(q) || iso.Neighbour != "|1,0> → |1,+1>" || !iso.Isolated {
+		t.Fatalf("isolation %+v, want 2|q| = %g Hz", iso, 2*math.Abs(q))
+	}
+	ram := demoRaman(sp)
+	ram.RabiHz, ram.Up, ram.Down, ram.Bias = l.Scattering.RabiHz, sh.Up, sh.Down, sh.Bias
+	rm, _ := ram.Evaluate()
+	if l.Scattering.Rate != rm.ScatterRate || l.Scattering.PerRabi != rm.ScatterPerRabi || iso.NeighbourHz != rm.NeighbourRabiHz {
+		t.Errorf("mid-window limits %+v, %+v differ from the scheme's %g, %g", l.Scattering, iso, rm.ScatterRate, rm.NeighbourRabiHz)
+	}
+	// 0.3 G: q/h ≈ 6.5 Hz, 2|q| far below a mid-window Ω of a few hundred Hz.
+	weak := sh
+	weak.Bias = 0.3 * dispersion.Gauss
+	r, err = Compare(Comparison{Shake: weak, Raman: demoRaman(sp), Couplings: c, Density: 1e20}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if iso := r.RamanLimits.Isolation; iso == nil || iso.Isolated || !(iso.Ratio < 1) {
+		t.Errorf("0.3 G: isolation %+v", iso)
+	}
+	other := demoRaman(sp)
+	other.Up, other.Down, other.Bias = dispersion.Sublevel{F: 1, M: 0}, dispersion.Sublevel{F: 1, M: 1}, sh.Bias
+	if _, err := Compare(Comparison{Shake: sh, Raman: other, Couplings: c, Density: 1e20}, nil); !errors.Is(err, ErrInput) {
+		t.Errorf("a different Raman pair: %v", err)
+	}
+}

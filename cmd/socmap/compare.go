@@ -134,7 +134,7 @@ func comparisonProblem(sf *shakeFlags, rf *ramanFlags, inf *interFlags, tf *trap
 	if p.Shake, err = sf.build(); err != nil {
 		return p, err
 	}
-	if p.Raman, err = rf.build(sf.atom); err != nil {
+	if p.Raman, err = rf.build(&sf.atomFlags, sf.bias, true); err != nil {
 		return p, err
 	}
 	if p.Couplings, err = inf.couplings(&sf.atomFlags); err != nil {

@@ -440,7 +440,7 @@ func designProblem(cmd *cobra.Command, f *designFlags) (phases.DesignProblem, er
 			return p, usagef("%v (the bias field turns the detuning window into a field stability)", err)
 		}
 		p.Shake.Species, p.Shake.Up, p.Shake.Down, p.Shake.Bias = sp, up, down, sf.bias.v
-		if p.Raman, err = f.rf.build(sf.atom); err != nil {
+		if p.Raman, err = f.rf.build(&sf.atomFlags, sf.bias, true); err != nil {
 			return p, err
 		}
 	}

@@ -105,6 +105,10 @@ func (s *shakeFlags) build() (dispersion.Shake, error) {
 	if err != nil {
 		return p, err
 	}
+	if dispersion.RFPairAllowed(up, down) != nil {
+		return p, usagef("--up %q, --down %q: |Δm| = %d; the RF scheme needs two adjacent sublevels (|Δm| = 1) of one manifold, or |Δm| ≤ 1 between F = %d and F = %d (a microwave transition)",
+			s.up, s.down, absInt(up.M-down.M), int(sp.I-0.5), int(sp.I+0.5))
+	}
 	for _, r := range []struct {
 		q        *quantity
 		n, eg    string
@@ -144,18 +148,24 @@ func (s *shakeFlags) build() (dispersion.Shake, error) {
 		RabiHz: s.rabi.v, DetuningHz: s.detuning.v}, nil
 }
 
-// ramanFlags are the settings of the two-beam Raman scheme.
+// ramanFlags are the settings of the two-beam Raman scheme. With its own
+// atom (scheme raman) it also holds the pseudo-spin pair and the bias field;
+// commands holding both schemes pass the shaking scheme's (build).
 type ramanFlags struct {
-	atom, prefix                      string
+	atomFlags
+	prefix                            string
+	bias                              *quantity // own --bias (scheme raman only)
 	wavelength, angle, rabi, detuning *quantity
 }
 
 // add registers the Raman flags; prefix ("" or "raman-") names the Rabi and
 // detuning flags, so that a command holding both schemes keeps them apart.
+// withAtom also registers --atom, --up, --down and --bias.
 func (r *ramanFlags) add(fs *pflag.FlagSet, withAtom bool, prefix string) {
 	r.prefix = prefix
 	if withAtom {
-		fs.StringVar(&r.atom, "atom", "", "atom: Na23, Rb87, K39, K41, Li7")
+		r.atomFlags.add(fs)
+		r.bias = qflag(fs, "bias", KindField, "", `bias field B0 (with --up/--down), e.g. "60 G"`)
 	}
 	r.wavelength = qflag(fs, "wavelength", KindLength, "", `Raman beam wavelength, e.g. "790 nm"`)
 	r.angle = qflag(fs, "angle", KindAngle, "180 deg", `full crossing angle of the beams, e.g. "90 deg"`)
@@ -163,14 +173,44 @@ func (r *ramanFlags) add(fs *pflag.FlagSet, withAtom bool, prefix string) {
 	r.detuning = qflag(fs, prefix+"detuning", KindFrequency, "0 Hz", `two-photon detuning δ/2π, e.g. "0 Hz"`)
 }
 
-func (r *ramanFlags) build(atom string) (dispersion.Raman, error) {
+// build reads the Raman flags with the atom, pair and bias of a (the
+// scheme's own flags or the shaking scheme's). The pair is optional: with
+// neither --up nor --down there is none; with one, both and --bias are
+// required. strict false (commands whose Raman scheme only gives the model:
+// bands, map, ground) leaves the pair out unless --up, --down and --bias are
+// all given.
+func (r *ramanFlags) build(a *atomFlags, bias *quantity, strict bool) (dispersion.Raman, error) {
 	var p dispersion.Raman
+	atom := a.atom
 	if atom == "" {
 		return p, usagef("--atom is required; allowed: Na23, Rb87, K39, K41, Li7")
 	}
 	sp, err := dispersion.LookupSpecies(atom)
 	if err != nil {
 		return p, usagef("--atom %q: %v", atom, err)
+	}
+	hasBias := bias != nil && bias.text != ""
+	withPair := a.up != "" || a.down != ""
+	if !strict {
+		withPair = a.up != "" && a.down != "" && hasBias
+	}
+	if withPair {
+		if p.Up, p.Down, err = a.levels(sp); err != nil {
+			return p, err
+		}
+		if dispersion.RamanPairAllowed(p.Up, p.Down) != nil {
+			return p, usagef("--up %q, --down %q: a far-detuned Raman pair needs |Δm| = 1 (or Δm = 0 between F = %d and F = %d); got |Δm| = %d",
+				a.up, a.down, int(sp.I-0.5), int(sp.I+0.5), absInt(p.Up.M-p.Down.M))
+		}
+		if !hasBias {
+			return p, usagef("--bias is required with --up/--down (e.g. --bias %q)", "60 G")
+		}
+		if !(bias.v > 0) {
+			return p, usagef("--bias %q: must be positive", bias.text)
+		}
+		p.Bias = bias.v
+	} else if strict && hasBias {
+		return p, usagef("--bias %q needs the pair --up and --down", bias.text)
 	}
 	if err := require(r.wavelength, "wavelength", "790 nm"); err != nil {
 		return p, err
@@ -184,7 +224,15 @@ func (r *ramanFlags) build(atom string) (dispersion.Raman, error) {
 	if r.rabi.v < 0 {
 		return p, usagef("--%srabi %q: must be ≥ 0", r.prefix, r.rabi.text)
 	}
-	return dispersion.Raman{Species: sp, Wavelength: r.wavelength.v, Angle: math.Min(r.angle.v, math.Pi), RabiHz: r.rabi.v, DetuningHz: r.detuning.v}, nil
+	p.Species, p.Wavelength, p.Angle, p.RabiHz, p.DetuningHz = sp, r.wavelength.v, math.Min(r.angle.v, math.Pi), r.rabi.v, r.detuning.v
+	return p, nil
+}
+
+func absInt(a int) int {
+	if a < 0 {
+		return -a
+	}
+	return a
 }
 
 // modelFlags choose the effective model: from the shaking scheme, from a
@@ -241,7 +289,9 @@ var schemeBuilders = map[string]func(m *modelFlags) (dispersion.Scheme, error){
 		return dispersion.Direct{CouplingOverER: m.omegaER.v, DetuningOverER: m.deltaER.v}, nil
 	},
 	"shake": func(m *modelFlags) (dispersion.Scheme, error) { return m.shake.build() },
-	"raman": func(m *modelFlags) (dispersion.Scheme, error) { return m.raman.build(m.shake.atom) },
+	"raman": func(m *modelFlags) (dispersion.Scheme, error) {
+		return m.raman.build(&m.shake.atomFlags, m.shake.bias, false)
+	},
 }
 
 // lab returns the scheme part of a phases.Lab (interactions are added by

@@ -176,7 +176,7 @@ func newRamanCmd() *cobra.Command {
 		Example: `  socmap scheme raman --atom Rb87 --wavelength "790 nm" --angle "180 deg" --rabi "10 kHz"`,
 		Args:    cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			p, err := f.build(f.atom)
+			p, err := f.build(&f.atomFlags, f.bias, true)
 			if err != nil {
 				return err
 			}
@@ -213,22 +213,40 @@ func newRamanCmd() *cobra.Command {
 }
 
 func ramanJSON(p dispersion.Raman, r dispersion.RamanResult, info dispersion.BandInfo) map[string]any {
+	n := output.JSONNum
 	w, wc := output.WarningsJSON(r.Warnings)
-	return map[string]any{
+	doc := map[string]any{
 		"scheme": "raman", "atom": p.Species.Name, "wavelength_m": p.Wavelength, "angle_rad": p.Angle,
 		"k_R_per_m": r.Model.KR, "E_R_hz": r.Model.ERHz(), "omega_hz": p.RabiHz, "delta_hz": p.DetuningHz,
 		"omega_over_ER": r.Model.OmegaOverER, "delta_over_ER": r.Model.DeltaOverER,
-		"nearest_line": r.NearestLine, "line_detuning_hz": r.LineDetuningHz,
-		"scattering_rate_per_s": r.ScatterRate, "heating_ER_per_s": r.HeatingER,
-		"minima": minimaJSON(info), "barrier_over_ER": info.Barrier,
+		"nearest_line": r.NearestLine, "line_detuning_hz": n(r.LineDetuningHz),
+		"detuning_d1_hz": n(r.DetuningD1Hz), "detuning_d2_hz": n(r.DetuningD2Hz), "fine_structure_hz": n(r.FineStructureHz),
+		"spin_matrix_element": r.MatrixElement, "beam_intensity_W_per_m2": n(r.BeamIntensity), "beam_rabi_hz": n(r.BeamRabiHz),
+		"scattering_rate_per_s": r.ScatterRate, "scattering_per_rabi": n(r.ScatterPerRabi),
+		"scattering_per_rabi_far_detuned": n(r.FineStructureLimit), "heating_ER_per_s": r.HeatingER,
+		"scattering_model": "far-detuned D1 + D2 (weights 1/3, 2/3, detunings from ↑), equal beam intensities, orthogonal linear polarisations",
+		"minima":           minimaJSON(info), "barrier_over_ER": info.Barrier,
 		"warnings": w, "warning_codes": wc, "cautions": []string{cautionLasers},
 	}
+	if p.HasPair() {
+		doc["up"], doc["down"], doc["bias_T"] = p.Up.String(), p.Down.String(), p.Bias
+		doc["two_photon_hz"], doc["beam_difference_hz"] = r.TwoPhotonHz, r.BeamDifferenceHz
+		doc["quadratic_zeeman_hz"] = n(r.QuadZeemanHz)
+		doc["neighbour_transition"] = r.Neighbour
+		doc["neighbour_detuning_hz"], doc["neighbour_rabi_hz"] = n(r.NeighbourHz), n(r.NeighbourRabiHz)
+		doc["isolation"], doc["leakage"] = n(r.Isolation), n(r.Leakage)
+	}
+	return doc
 }
 
 func ramanTable(p dispersion.Raman, r dispersion.RamanResult, info dispersion.BandInfo) *output.Table {
 	N := output.Num
-	t := &output.Table{Title: fmt.Sprintf("Two-beam Raman coupling: %s, λ = %s nm, beams crossing at %s°",
-		p.Species.Name, N(p.Wavelength*1e9, 6), N(deg(p.Angle), 4))}
+	title := fmt.Sprintf("Two-beam Raman coupling: %s, λ = %s nm, beams crossing at %s°",
+		p.Species.Name, N(p.Wavelength*1e9, 6), N(deg(p.Angle), 4))
+	if p.HasPair() {
+		title += fmt.Sprintf(", ↑ = %v, ↓ = %v, B0 = %s G", p.Up, p.Down, N(p.Bias/dispersion.Gauss, 4))
+	}
+	t := &output.Table{Title: title}
 	t.Section("Recoil")
 	t.Row("k_R = (2π/λ) sin(α/2)", N(r.Model.KR, 4), "1/m")
 	t.Row("E_R/h", N(r.Model.ERHz(), 4), "Hz")
@@ -236,10 +254,35 @@ func ramanTable(p dispersion.Raman, r dispersion.RamanResult, info dispersion.Ba
 	t.RowNote("Ω/2π", N(p.RabiHz, 4), "Hz", "Ω/E_R = "+N(r.Model.OmegaOverER, 4))
 	t.RowNote("δ/2π", N(p.DetuningHz, 4), "Hz", "δ/E_R = "+N(r.Model.DeltaOverER, 4))
 	t.Text("lower-band minima: " + minimaText(info))
-	t.Section("Photon scattering (two-level estimate, nearest line)")
-	t.RowNote("detuning from "+r.NearestLine, N(r.LineDetuningHz/1e9, 4), "GHz", "(+ = blue)")
-	t.Row("scattering rate Γ_sc ≈ Γ Ω/|Δ|", N(r.ScatterRate, 3), "1/s")
-	t.Row("heating ≈ 2E_R per photon", N(r.HeatingER, 3), "E_R/s")
+	if p.HasPair() {
+		t.Section("Two-photon transition (Breit–Rabi at B0)")
+		t.Row("beam frequency difference at resonance |f₀| = |E↓ − E↑|/h", N(r.TwoPhotonHz/1e6, 9), "MHz")
+		t.RowNote("… for the planned δ", N(r.BeamDifferenceHz/1e6, 9), "MHz", fmt.Sprintf("(|f₀| %+.4g Hz; δ/2π = sgn(f₀)(Δf − |f₀|))", r.BeamDifferenceHz-r.TwoPhotonHz))
+		if !math.IsNaN(r.QuadZeemanHz) {
+			t.Row("quadratic Zeeman q/h", N(r.QuadZeemanHz, 4), "Hz")
+		}
+		if r.Neighbour != "" {
+			t.RowNote("nearest other two-photon transition", N(r.NeighbourHz/1e3, 4), "kHz", "off resonance: "+r.Neighbour)
+			t.Row("its Raman Rabi frequency", N(r.NeighbourRabiHz, 4), "Hz")
+			t.RowNote("isolation δ₃/Ω₃", N(r.Isolation, 3), "", fmt.Sprintf("(want ≥ %g; largest leakage Ω₃²/(Ω₃² + δ₃²) = %s)", dispersion.NeighbourSeparation, N(r.Leakage, 2)))
+		}
+	}
+	t.Section("Photon scattering (far-detuned D1 + D2, weights 1/3 and 2/3)")
+	from := "↑"
+	if !p.HasPair() {
+		from = "the ground centre of gravity (no pair given)"
+	}
+	t.RowNote("detuning from D1, D2", N(r.DetuningD1Hz/1e9, 5)+", "+N(r.DetuningD2Hz/1e9, 5), "GHz", "(+ = blue; seen from "+from+")")
+	note := "|⟨↓|σ|↑⟩|"
+	if !p.HasPair() {
+		note = "no pair: the largest, 1 (a lower bound on the scattering)"
+	}
+	t.RowNote("spin matrix element s", N(r.MatrixElement, 4), "", note)
+	t.RowNote("intensity of each beam", N(r.BeamIntensity*1e-4, 4), "W/cm²", "(equal beams, orthogonal linear polarisations)")
+	t.Row("single-beam Rabi frequency", N(r.BeamRabiHz/1e6, 4), "MHz")
+	t.Row("scattering rate Γ_sc (both beams)", N(r.ScatterRate, 3), "1/s")
+	t.RowNote("Γ_sc/Ω", N(r.ScatterPerRabi, 3), "", "far-detuned floor (Γ₁ + 2Γ₂)/(s Δ_FS) = "+N(r.FineStructureLimit, 3))
+	t.Row("heating ≈ 2E_rec per photon", N(r.HeatingER, 3), "E_R/s")
 	for _, w := range r.Warnings {
 		t.Text("! " + w.Text)
 	}

@@ -1,0 +1,379 @@
+package dispersion
+
+import (
+	"encoding/json"
+	"errors"
+	"math"
+	"os"
+	"strings"
+	"testing"
+)
+
+func rb87(t testing.TB) Species {
+	sp, err := LookupSpecies("Rb87")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return sp
+}
+
+// The two-line model against numpy built from explicit L, S, I matrices
+// (testdata/ref_raman.py → ref_raman.json, no closed forms there): spin
+// matrix elements of the Breit–Rabi states, detunings from each line as
+// seen from ↑, Ω/Ω_b², Γ_sc/Ω, the strength Ω_b²/I, the two-photon
+// frequency and q.
+func TestRamanAgainstNumpy(t *testing.T) {
+	var ref struct {
+		Cases []struct {
+			Atom               string
+			WavelengthM        float64 `json:"wavelength_m"`
+			Up, Down           [2]int
+			BiasT              float64  `json:"bias_T"`
+			DetD1              float64  `json:"detuning_d1_hz"`
+			DetD2              float64  `json:"detuning_d2_hz"`
+			Element            float64  `json:"matrix_element"`
+			RabiOverBeamSq     float64  `json:"rabi_over_beam_rabi_sq"`
+			ScatterPerRabi     float64  `json:"scatter_per_rabi"`
+			RabiSqPerIntensity float64  `json:"rabi_sq_per_intensity"`
+			TwoPhotonHz        float64  `json:"two_photon_hz"`
+			QuadZeemanHz       *float64 `json:"quadratic_zeeman_hz"`
+		}
+	}
+	b, err := os.ReadFile("../testdata/ref_raman.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := json.Unmarshal(b, &ref); err != nil {
+		t.Fatal(err)
+	}
+	if len(ref.Cases) < 10 {
+		t.Fatalf("only %d reference cases", len(ref.Cases))
+	}
+	for _, c := range ref.Cases {
+		sp, err := LookupSpecies(c.Atom)
+		if err != nil {
+			t.Fatal(err)
+		}
+		p := Raman{Species: sp, Wavelength: c.WavelengthM, Angle: math.Pi, RabiHz: 1e3,
+			Up: Sublevel{c.Up[0], c.Up[1]}, Down: Sublevel{c.Down[0], c.Down[1]}, Bias: c.BiasT}
+		r, err := p.Evaluate()
+		if err != nil {
+			t.Fatalf("%s %v→%v: %v", c.Atom, p.Up, p.Down, err)
+		}
+		name := c.Atom + " " + p.Up.String() + "→" + p.Down.String()
+		omega, omegaB := 2*math.Pi*p.RabiHz, 2*math.Pi*r.BeamRabiHz
+		d, _ := sp.DLineLightShift(p.Wavelength, sp.Energy(p.Up, p.Bias))
+		for _, x := range []struct {
+			what      string
+			got, want float64
+			tol       float64
+		}{
+			{"matrix element", r.MatrixElement, c.Element, 1e-9},
+			{"Δ_D1", r.DetuningD1Hz, c.DetD1, 1e-9},
+			{"Δ_D2", r.DetuningD2Hz, c.DetD2, 1e-9},
+			{"Ω/Ω_b²", omega / (omegaB * omegaB), c.RabiOverBeamSq, 1e-9},
+			{"Γ_sc/Ω", r.ScatterPerRabi, c.ScatterPerRabi, 1e-9},
+			{"Γ_sc/Ω from the rate", r.ScatterRate / omega, c.ScatterPerRabi, 1e-9},
+			{"Ω_b²/I", d.RabiSqPerIntensity, c.RabiSqPerIntensity, 1e-12},
+			{"two-photon frequency", r.TwoPhotonHz, c.TwoPhotonHz, 1e-8},
+		} {
+			if e := relErr(x.got, x.want); !(e <= x.tol) {
+				t.Errorf("%s: %s = %.12g, numpy %.12g (rel %.2g)", name, x.what, x.got, x.want, e)
+			}
+		}
+		if c.QuadZeemanHz != nil && c.Up[0] == c.Down[0] {
+			if e := relErr(r.QuadZeemanHz, *c.QuadZeemanHz); !(e < 1e-7) {
+				t.Errorf("%s: q/h = %.10g Hz, numpy %.10g", name, r.QuadZeemanHz, *c.QuadZeemanHz)
+			}
+		}
+	}
+}
+
+// The light shift of one circularly polarised beam against the two-line
+// formula of R. Grimm, M. Weidemüller and Yu. B. Ovchinnikov, Adv. At. Mol.
+// Opt. Phys. 42, 95 (2000):
+//
+//	U = (πc²Γ/2ω₀³)[(2 + P g_F m_F)/Δ₂,F + (1 − P g_F m_F)/Δ₁,F] I,
+//	Γ_sc = (πc²Γ²/2ħω₀³)[2/Δ₂,F² + 1/Δ₁,F²] I (linear polarisation),
+//
+// with one Γ and ω₀ for the doublet. For 7Li (both lines Γ/2π = 5.8724 MHz,
+// ω₁/ω₂ − 1 = 2e-5) the formula is exact up to the ω³ difference (1e-4);
+// for 87Rb (Γ₁ ≠ Γ₂) the shift agrees to the 0.3 % by which the lines' Γ/ω³
+// differ. Our ⟨(iε*×ε)·σ⟩ = −P⟨σ_z⟩, ⟨σ_z⟩ = g̃_F m_F at low field.
+func TestDLineLightShiftGrimm(t *testing.T) {
+	for _, tc := range []struct {
+		atom     string
+		lams     []float64
+		tolShift float64
+		tolSc    float64
+	}{
+		{"Li7", []float64{671.1e-9, 670.5e-9, 671.6e-9, 700e-9, 670.9685e-9}, 1e-4, 1e-4},
+		{"Rb87", []float64{790e-9, 785e-9, 804e-9, 1064e-9, 770e-9}, 5e-3, -1},
+	} {
+		sp, _ := LookupSpecies(tc.atom)
+		d1, d2, _ := sp.lines()
+		w0 := 2 * math.Pi * SpeedOfLight / d2.Wavelength
+		gam := 2 * math.Pi * d2.GammaHz
+		pre := math.Pi * SpeedOfLight * SpeedOfLight * gam / (2 * w0 * w0 * w0)
+		_ = d1
+		for _, lam := range tc.lams {
+			for _, l := range []Sublevel{{1, -1}, {1, 0}, {1, 1}, {2, 2}, {2, -1}} {
+				const B = 1e-9
+				d, err := sp.DLineLightShift(lam, sp.Energy(l, B))
+				if err != nil {
+					t.Fatal(err)
+				}
+				a, b := sp.spinState(l, B)
+				sz := a*a - b*b
+				gF := float64(l.F*(l.F+1)) + 0.75 - sp.I*(sp.I+1)
+				gF /= float64(l.F * (l.F + 1))
+				if math.Abs(sz-gF*float64(l.M)) > 1e-6 {
+					t.Errorf("%s %v: ⟨σz⟩ = %g, g̃_F m = %g", tc.atom, l, sz, gF*float64(l.M))
+				}
+				D1, D2 := 2*math.Pi*d.DetuningD1Hz, 2*math.Pi*d.DetuningD2Hz
+				for _, P := range []float64{-1, 0, 1} {
+					want := pre * ((2+P*gF*float64(l.M))/D2 + (1-P*gF*float64(l.M))/D1)
+					got := d.Scalar - P*d.Vector*sz
+					if e := relErr(got, want); !(e < tc.tolShift) {
+						t.Errorf("%s λ = %g nm %v P = %g: U/I = %.8g, Grimm et al. %.8g (rel %.2g)", tc.atom, lam*1e9, l, P, got, want, e)
+					}
+				}
+				if tc.tolSc > 0 {
+					want := pre * gam / Hbar * (2/(D2*D2) + 1/(D1*D1))
+					if e := relErr(d.Scatter, want); !(e < tc.tolSc) {
+						t.Errorf("%s λ = %g nm: Γ_sc/I = %.8g, Grimm et al. %.8g (rel %.2g)", tc.atom, lam*1e9, d.Scatter, want, e)
+					}
+				}
+			}
+		}
+	}
+}
+
+// Limits of Γ_sc/Ω (derived in raman.go): near D2 alone 2Γ₂/(s|Δ₂|), near
+// D1 alone Γ₁/(s|Δ₁|) (corrections Δ/Δ_other), and far from both the
+// fine-structure floor (Γ₁ + 2Γ₂)/(s Δ_FS) (corrections Δ_FS/Δ): the vector
+// coupling cancels between the lines while the scattering does not.
+func TestRamanScatteringLimits(t *testing.T) {
+	sp := rb87(t)
+	d1, d2, _ := sp.lines()
+	up, down := Sublevel{1, 0}, Sublevel{1, -1}
+	ev := func(nu float64) RamanResult {
+		r, err := Raman{Species: sp, Wavelength: SpeedOfLight / nu, Angle: math.Pi, RabiHz: 1e3, Up: up, Down: down, Bias: 1e-4}.Evaluate()
+		if err != nil {
+			t.Fatal(err)
+		}
+		return r
+	}
+	nu1, nu2 := SpeedOfLight/d1.Wavelength, SpeedOfLight/d2.Wavelength
+	fs := nu2 - nu1
+	r := ev(nu2 - 30e9)
+	if want := 2 * d2.GammaHz / (r.MatrixElement * math.Abs(r.DetuningD2Hz)); relErr(r.ScatterPerRabi, want) > 0.02 {
+		t.Errorf("near D2: Γ_sc/Ω = %g, want ≈ 2Γ₂/(s|Δ₂|) = %g", r.ScatterPerRabi, want)
+	}
+	r = ev(nu1 + 30e9)
+	if want := d1.GammaHz / (r.MatrixElement * math.Abs(r.DetuningD1Hz)); relErr(r.ScatterPerRabi, want) > 0.02 {
+		t.Errorf("near D1: Γ_sc/Ω = %g, want ≈ Γ₁/(s|Δ₁|) = %g", r.ScatterPerRabi, want)
+	}
+	for _, k := range []float64{10, 40} {
+		r = ev(nu1 - k*fs)
+		want := (d1.GammaHz + 2*d2.GammaHz) / (r.MatrixElement * fs)
+		if relErr(r.FineStructureLimit, want) > 1e-12 {
+			t.Errorf("fine-structure floor %g, want %g", r.FineStructureLimit, want)
+		}
+		if e := relErr(r.ScatterPerRabi, want); e > 3/k {
+			t.Errorf("Δ = −%g Δ_FS: Γ_sc/Ω = %g, floor %g (rel %.2g)", k, r.ScatterPerRabi, want, e)
+		}
+	}
+	// Between the lines the ratio is smaller than anywhere outside them at
+	// the same distance from the nearer line (the lines add there).
+	in, out := ev(nu1+fs/3), ev(nu1-fs/3)
+	if !(in.ScatterPerRabi < out.ScatterPerRabi) {
+		t.Errorf("between the lines Γ_sc/Ω = %g, outside %g", in.ScatterPerRabi, out.ScatterPerRabi)
+	}
+}
+
+// Spin matrix elements at low field against the projection theorem
+// |⟨F,m±1|σ_±|F,m⟩| = |g̃_F| √(F(F+1) − m(m±1))/2 (derived in dlines.go), and
+// Breit–Rabi eigenstates whose energy is Species.Energy.
+func TestSpinMatrixElement(t *testing.T) {
+	sp := rb87(t)
+	for _, F := range []int{1, 2} {
+		gF := (float64(F*(F+1)) + 0.75 - sp.I*(sp.I+1)) / float64(F*(F+1))
+		for m := -F; m < F; m++ {
+			got, err := sp.SpinMatrixElement(Sublevel{F, m}, Sublevel{F, m + 1}, 1e-9)
+			if err != nil {
+				t.Fatal(err)
+			}
+			want := math.Abs(gF) * math.Sqrt(float64(F*(F+1)-m*(m+1))) / 2
+			if math.Abs(got-want) > 1e-6 {
+				t.Errorf("F = %d, m = %d → %d: %g, want %g", F, m, m+1, got, want)
+			}
+			back, _ := sp.SpinMatrixElement(Sublevel{F, m + 1}, Sublevel{F, m}, 1e-9)
+			if math.Abs(back-got) > 1e-12 {
+				t.Errorf("σ_− element %g differs from σ_+ %g", back, got)
+			}
+		}
+	}
+	for _, B := range []float64{1e-4, 60e-4, 0.1} {
+		for _, l := range []Sublevel{{1, -1}, {1, 0}, {1, 1}, {2, -2}, {2, 0}, {2, 1}, {2, 2}} {
+			a, b := sp.spinState(l, B)
+			m := float64(l.M)
+			A := sp.HFSHz * Planck / (sp.I + 0.5)
+			mu := BohrMagneton * B
+			e := a*a*(A*0.5*(m-0.5)+mu*(sp.GJ*0.5+sp.GI*(m-0.5))) + b*b*(-A*0.5*(m+0.5)+mu*(-sp.GJ*0.5+sp.GI*(m+0.5)))
+			if math.Abs(m) < sp.I+0.5 {
+				e += 2 * a * b * A / 2 * math.Sqrt(sp.I*(sp.I+1)-m*m+0.25)
+			}
+			// Breit–Rabi energies are measured from the centre of gravity.
+			if d := math.Abs(e-sp.Energy(l, B)) / Planck; d > 1 {
+				t.Errorf("B = %g T %v: ⟨H⟩ = %.9g Hz, Breit–Rabi %.9g Hz", B, l, e/Planck, sp.Energy(l, B)/Planck)
+			}
+			if math.Abs(a*a+b*b-1) > 1e-12 {
+				t.Errorf("%v not normalised", l)
+			}
+		}
+	}
+	for _, bad := range [][2]Sublevel{{{1, -1}, {1, 1}}, {{1, 0}, {1, 0}}, {{2, -2}, {1, 0}}} {
+		if _, err := sp.SpinMatrixElement(bad[0], bad[1], 1e-4); !errors.Is(err, ErrBadInput) {
+			t.Errorf("%v→%v accepted", bad[0], bad[1])
+		}
+	}
+}
+
+// Near resonance: 794.979 nm is 0.07 GHz from the D1 centre of gravity and
+// −4.34 GHz from D1 as seen from F = 1 (5/8 of the 6.835 GHz splitting below
+// the centre); it must warn, with or without a pair. 790 nm (2.4 THz) must not.
+func TestRamanNearResonance(t *testing.T) {
+	sp := rb87(t)
+	for _, pair := range []bool{true, false} {
+		p := Raman{Species: sp, Wavelength: 794.979e-9, Angle: math.Pi, RabiHz: 1e3}
+		if pair {
+			p.Up, p.Down, p.Bias = Sublevel{1, 0}, Sublevel{1, -1}, 1e-4
+		}
+		r, err := p.Evaluate()
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !HasWarning(r.Warnings, WarnNearResonant) || r.NearestLine != "D1" {
+			t.Errorf("pair %v: no near-resonance warning at 794.979 nm (Δ_D1 = %g GHz)", pair, r.DetuningD1Hz/1e9)
+		}
+		want := -0.0706e9
+		if pair {
+			want -= 5.0 / 8 * sp.HFSHz
+		}
+		if math.Abs(r.DetuningD1Hz-want) > 2e6 {
+			t.Errorf("pair %v: Δ_D1 = %g GHz, want %g", pair, r.DetuningD1Hz/1e9, want/1e9)
+		}
+		p.Wavelength = 790e-9
+		if r, _ = p.Evaluate(); HasWarning(r.Warnings, WarnNearResonant) {
+			t.Errorf("pair %v: 790 nm warned: %v", pair, r.Warnings)
+		}
+	}
+	// Just outside the margin of the D2 line seen from F = 1 (10 × 0.496 GHz):
+	// no warning at 6 GHz, a warning at 4 GHz.
+	d2 := SpeedOfLight / 780.241209686e-9
+	for _, x := range []struct {
+		det  float64
+		warn bool
+	}{{6e9, false}, {4e9, true}, {-4e9, true}} {
+		nu := d2 + x.det + 5.0/8*sp.HFSHz
+		r, _ := Raman{Species: sp, Wavelength: SpeedOfLight / nu, Angle: math.Pi, Up: Sublevel{1, 0}, Down: Sublevel{1, -1}, Bias: 1e-6}.Evaluate()
+		if HasWarning(r.Warnings, WarnNearResonant) != x.warn {
+			t.Errorf("Δ_D2 = %g GHz: warning %v, want %v", r.DetuningD2Hz/1e9, !x.warn, x.warn)
+		}
+	}
+}
+
+// The two-photon frequency is the Breit–Rabi splitting; the beams'
+// difference for a planned δ follows the RF sign convention; in F = 1 the
+// nearest other two-photon transition is 2|q| away, and a strong Ω warns.
+func TestRamanTwoPhotonAndIsolation(t *testing.T) {
+	sp := rb87(t)
+	p := Raman{Species: sp, Wavelength: 790e-9, Angle: math.Pi, RabiHz: 15e3, DetuningHz: 250, Up: Sublevel{1, 0}, Down: Sublevel{1, -1}, Bias: 60e-4}
+	r, err := p.Evaluate()
+	if err != nil {
+		t.Fatal(err)
+	}
+	f0 := sp.TransitionHz(p.Up, p.Down, p.Bias)
+	if r.TwoPhotonHz != math.Abs(f0) || r.BeamDifferenceHz != math.Abs(f0)+math.Copysign(1, f0)*250 {
+		t.Errorf("two-photon %g, beams %g; f0 = %g", r.TwoPhotonHz, r.BeamDifferenceHz, f0)
+	}
+	// To second order in B (Breit–Rabi expanded, derived): E(1,−1) − E(1,0)
+	// = |g_F| μ_B B + q with g_F = −g_J/4 + 5g_I/4 for F = 1, I = 3/2.
+	gF := -sp.GJ/4 + 5*sp.GI/4
+	if want := math.Abs(gF)*BohrMagneton*p.Bias/Planck + sp.QuadraticZeemanHz(1, p.Bias); math.Abs(r.TwoPhotonHz-want) > 50e3 {
+		t.Errorf("two-photon frequency %.6g MHz, second-order expansion %.6g MHz", r.TwoPhotonHz/1e6, want/1e6)
+	}
+	q := sp.QuadraticZeemanHz(1, p.Bias)
+	if relErr(r.NeighbourHz, 2*math.Abs(q)) > 1e-9 || r.Neighbour != "|1,0> → |1,+1>" {
+		t.Errorf("neighbour %q at %g Hz, want |1,0> → |1,+1> at 2|q| = %g Hz", r.Neighbour, r.NeighbourHz, 2*math.Abs(q))
+	}
+	sn, _ := sp.SpinMatrixElement(Sublevel{1, 0}, Sublevel{1, 1}, p.Bias)
+	if relErr(r.NeighbourRabiHz, p.RabiHz*sn/r.MatrixElement) > 1e-12 || relErr(r.Isolation, r.NeighbourHz/r.NeighbourRabiHz) > 1e-12 {
+		t.Errorf("neighbour Rabi %g, isolation %g", r.NeighbourRabiHz, r.Isolation)
+	}
+	if HasWarning(r.Warnings, WarnNeighbour) {
+		t.Errorf("60 G, 15 kHz: isolation %g warned", r.Isolation)
+	}
+	p.Bias = 5e-4 // q/h ≈ 1.8 kHz: 2q is not ≫ 15 kHz
+	if r, _ = p.Evaluate(); !HasWarning(r.Warnings, WarnNeighbour) || !(r.Leakage > 0.01) {
+		t.Errorf("5 G, 15 kHz: isolation %g, leakage %g, warnings %v", r.Isolation, r.Leakage, r.Warnings)
+	}
+	// Without a pair: no frequency, no isolation, the largest element.
+	p.Up, p.Down = Sublevel{}, Sublevel{}
+	r, _ = p.Evaluate()
+	if !math.IsNaN(r.TwoPhotonHz) || !math.IsNaN(r.NeighbourHz) || r.MatrixElement != 1 {
+		t.Errorf("no pair: %g %g %g", r.TwoPhotonHz, r.NeighbourHz, r.MatrixElement)
+	}
+}
+
+// Heating: 2E_rec per scattered photon with the single-photon recoil E_rec,
+// so 2/sin²(α/2) E_R at crossing angle α (common practice, no source).
+func TestRamanHeating(t *testing.T) {
+	sp := rb87(t)
+	for _, a := range []float64{math.Pi, math.Pi / 2, 0.3} {
+		r, _ := Raman{Species: sp, Wavelength: 790e-9, Angle: a, RabiHz: 5e3, Up: Sublevel{1, 0}, Down: Sublevel{1, -1}, Bias: 1e-3}.Evaluate()
+		s := math.Sin(a / 2)
+		if relErr(r.HeatingER, 2/(s*s)*r.ScatterRate) > 1e-12 {
+			t.Errorf("α = %g: heating %g E_R/s, scattering %g /s", a, r.HeatingER, r.ScatterRate)
+		}
+	}
+}
+
+func TestRamanPairRefused(t *testing.T) {
+	sp := rb87(t)
+	for _, pr := range [][2]Sublevel{{{1, -1}, {1, 1}}, {{2, -2}, {2, 0}}, {{1, 0}, {1, 0}}, {{1, -1}, {2, 1}}, {{1, 2}, {1, 1}}} {
+		_, err := Raman{Species: sp, Wavelength: 790e-9, Angle: math.Pi, Up: pr[0], Down: pr[1], Bias: 1e-4}.Evaluate()
+		if !errors.Is(err, ErrBadInput) {
+			t.Errorf("%v, %v accepted", pr[0], pr[1])
+		} else if !strings.Contains(err.Error(), "Δm") && !strings.Contains(err.Error(), "same") && !strings.Contains(err.Error(), "outside") {
+			t.Errorf("%v, %v: message %q", pr[0], pr[1], err)
+		}
+	}
+}
+
+// The RF scheme refuses pairs that one RF photon does not couple: |Δm| ≠ 1
+// inside a manifold, |Δm| > 1 across them; Δm = 0 across them is a π
+// microwave transition, accepted with WarnMicrowave.
+func TestRFPairRefused(t *testing.T) {
+	sp := rb87(t)
+	base := Shake{Species: sp, Bias: 5 * Gauss, Gradient: 0.4, ShakeHz: 5e3, RabiHz: 100}
+	for _, pr := range []struct {
+		up, down Sublevel
+		ok       bool
+	}{{Sublevel{1, 1}, Sublevel{1, -1}, false}, {Sublevel{2, -2}, Sublevel{2, 1}, false}, {Sublevel{1, -1}, Sublevel{2, 1}, false},
+		{Sublevel{1, 0}, Sublevel{1, -1}, true}, {Sublevel{1, 0}, Sublevel{2, 0}, true}, {Sublevel{1, 1}, Sublevel{2, 2}, true}} {
+		p := base
+		p.Up, p.Down = pr.up, pr.down
+		r, err := p.Evaluate()
+		if pr.ok != (err == nil) {
+			t.Errorf("%v, %v: error %v, want ok = %v", pr.up, pr.down, err, pr.ok)
+		}
+		if err != nil && (!errors.Is(err, ErrBadInput) || !strings.Contains(err.Error(), "Δm")) {
+			t.Errorf("%v, %v: %v", pr.up, pr.down, err)
+		}
+		if err == nil && pr.up.F != pr.down.F && !HasWarning(r.Warnings, WarnMicrowave) {
+			t.Errorf("%v, %v: no microwave warning", pr.up, pr.down)
+		}
+	}
+}

@@ -1,0 +1,247 @@
+#!/usr/bin/python3
+"""Reference values for the two-line (D1 + D2) Raman model of
+dispersion.Raman.Evaluate / Species.DLineLightShift / Species.SpinMatrixElement,
+computed from explicit angular-momentum matrices, independently of the closed
+forms in dispersion/dlines.go.
+
+Construction (no closed form is used):
+  * ground states: L = 0 ⊗ S = 1/2 ⊗ I, Hamiltonian A I·S + μ_B B (g_J S_z + g_I I_z),
+    A = ΔE_hfs/(I + 1/2), diagonalised with numpy.linalg.eigh; a sublevel
+    |F, m⟩ is the eigenvector of total M = m, upper (F = I + 1/2) or lower
+    energy in its block;
+  * excited states: L = 1 (Cartesian p orbitals, (L_k)_ij = −i ε_kij) ⊗ S ⊗ I; the
+    fine-structure projectors P_1/2, P_3/2 are the eigenspaces of L·S
+    (eigenvalues −1 and +1/2); the excited hyperfine structure is left
+    unresolved (the far-detuned model);
+  * dipole operator for a real polarisation ε: |p_ε⟩⟨s| ⊗ 1_spin (one radial
+    element for the doublet);
+  * two-photon amplitude M = Σ_J' ⟨b| D(ε₂)† P_J' D(ε₁) |a⟩ / Δ_J', with
+    Δ_J' = 2π(ν_L − ν_J' + E_a/h); Ω_R = (Ω_b²/2)|M| for equal beam Rabi
+    frequencies Ω_b, with the best linear geometry (ε₁ = z, ε₂ = x for
+    |Δm| = 1; ε₁ = x, ε₂ = y for Δm = 0, bias along z); the script checks on
+    random pairs of real polarisations that no geometry gives more;
+  * scattering of one beam: Γ_sc = (Ω_b²/4) Σ_J' Γ_J' ⟨a|D(ε)† P_J' D(ε)|a⟩ / Δ_J'²
+    (checked to be the same for ε = x, y, z), two beams twice that;
+  * the beam Rabi frequency per intensity, Ω_b²/I = 6πc²Γ̄/(ħω̄³) with
+    Γ̄/ω̄³ = (Γ₁/ω₁³ + 2Γ₂/ω₂³)/3 (the strength convention of the Go model).
+
+Atomic data: the same numbers as dispersion/atoms.go (D. A. Steck's Na and Rb
+compilations, T. G. Tiecke's K and M. E. Gehm's Li compilations, from memory).
+The cases are our own choices of wavelength, pair and bias, not experiments.
+
+Usage (the convention of every reference script in testdata/):
+    /usr/bin/python3 testdata/ref_raman.py           # check: recompute, compare with ref_raman.json
+    /usr/bin/python3 testdata/ref_raman.py --write   # regenerate ref_raman.json
+Exits non-zero on any mismatch; exits 2 on an unknown argument.
+dispersion/raman_test.go compares the Go model with ref_raman.json.
+"""
+import json
+import math
+import os
+import sys
+
+import numpy as np
+
+HERE = os.path.dirname(os.path.abspath(__file__))
+OUT = os.path.join(HERE, "ref_raman.json")
+
+H = 6.62607015e-34
+HBAR = H / (2 * math.pi)
+C = 299792458.0
+MU_B = 9.2740100783e-24
+GAUSS = 1e-4
+
+# name: I, HFS (Hz), g_J, g_I, (D1 λ, Γ/2π), (D2 λ, Γ/2π)
+ATOMS = {
+    "Rb87": (1.5, 6834682610.90429, 2.00233113, -0.0009951414, (794.978851156e-9, 5.7500e6), (780.241209686e-9, 6.0666e6)),
+    "Na23": (1.5, 1771626128.8, 2.00229600, -0.00080461080, (589.7558147e-9, 9.765e6), (589.1583264e-9, 9.7946e6)),
+    "K39": (1.5, 461719720.2, 2.00229421, -0.00014193489, (770.108385049e-9, 5.956e6), (766.700921822e-9, 6.035e6)),
+    "Li7": (1.5, 803504086.6, 2.0023010, -0.0011822130, (670.976e-9, 5.8724e6), (670.961e-9, 5.8724e6)),
+}
+
+# (atom, λ, up, down, bias in G): our own cases.
+CASES = [
+    ("Rb87", 790e-9, (1, 0), (1, -1), 60.0),
+    ("Rb87", 790e-9, (1, -1), (1, 0), 5.0),
+    ("Rb87", 804e-9, (1, 0), (1, -1), 10.0),
+    ("Rb87", 785e-9, (1, 0), (1, -1), 10.0),
+    ("Rb87", 1064e-9, (1, 0), (1, -1), 10.0),
+    ("Rb87", 790e-9, (2, 2), (2, 1), 3.0),
+    ("Rb87", 790e-9, (2, -1), (2, 0), 200.0),
+    ("Rb87", 790e-9, (1, 0), (2, 0), 1.0),
+    ("Rb87", 790e-9, (1, -1), (2, -2), 1.0),
+    ("Na23", 589.5e-9, (1, 0), (1, -1), 20.0),
+    ("K39", 768.9e-9, (1, -1), (1, 0), 30.0),
+    ("Li7", 671.2e-9, (2, 2), (2, 1), 5.0),
+]
+
+
+def spin(j):
+    d = int(round(2 * j + 1))
+    m = np.array([j - k for k in range(d)])
+    jz = np.diag(m)
+    jp = np.zeros((d, d))
+    for k in range(1, d):
+        jp[k - 1, k] = math.sqrt(j * (j + 1) - m[k] * (m[k] + 1))
+    jx = (jp + jp.T) / 2
+    jy = (jp - jp.T) / 2j
+    return jx.astype(complex), jy, jz.astype(complex), m
+
+
+def kron(*a):
+    out = np.array([[1.0 + 0j]])
+    for x in a:
+        out = np.kron(out, x)
+    return out
+
+
+def model(atom):
+    I, hfs, gj, gi, _, _ = ATOMS[atom]
+    sx, sy, sz, ms = spin(0.5)
+    ix, iy, iz, mi = spin(I)
+    dS, dI = 2, len(mi)
+    eS, eI = np.eye(dS), np.eye(dI)
+    # ground: S ⊗ I
+    Sg = [kron(s, eI) for s in (sx, sy, sz)]
+    Ig = [kron(eS, i) for i in (ix, iy, iz)]
+    Mg = np.real(np.diag(Sg[2] + Ig[2]))
+    # excited: L(3, Cartesian) ⊗ S ⊗ I
+    eps = np.zeros((3, 3, 3))
+    for a, b, c in ((0, 1, 2), (1, 2, 0), (2, 0, 1)):
+        eps[a, b, c], eps[a, c, b] = 1, -1
+    L = [-1j * eps[k] for k in range(3)]
+    LS = sum(kron(L[k], s, eI) for k, s in enumerate((sx, sy, sz)))
+    w, v = np.linalg.eigh(LS)
+    P12 = v[:, np.abs(w + 1) < 1e-9] @ v[:, np.abs(w + 1) < 1e-9].conj().T
+    P32 = v[:, np.abs(w - 0.5) < 1e-9] @ v[:, np.abs(w - 0.5) < 1e-9].conj().T
+    assert np.linalg.matrix_rank(P12) == 2 * dI and np.linalg.matrix_rank(P32) == 4 * dI
+
+    def dip(e):  # ground (S⊗I) → excited (L⊗S⊗I): |p_ε⟩ ⊗ 1
+        pe = np.array(e, dtype=complex).reshape(3, 1)
+        return kron(pe, eS, eI)
+
+    def ground(B):
+        A = hfs * H / (I + 0.5)
+        Hg = A * sum(Ig[k] @ Sg[k] for k in range(3)) + MU_B * B * (gj * Sg[2] + gi * Ig[2])
+        return Hg
+
+    return I, hfs, Sg, Mg, P12, P32, dip, ground
+
+
+def level(I, Mg, Hg, F, m):
+    """Eigenvector and energy (J) of |F, m⟩: upper (F = I + 1/2) or lower in the M = m block."""
+    idx = np.where(np.abs(Mg - m) < 1e-9)[0]
+    w, v = np.linalg.eigh(Hg[np.ix_(idx, idx)])
+    k = -1 if F > I else 0
+    if len(idx) == 1:
+        k = 0
+    vec = np.zeros(Hg.shape[0], dtype=complex)
+    vec[idx] = v[:, k]
+    return vec, w[k]
+
+
+def case(atom, lam, up, down, bias_g):
+    I, hfs, Sg, Mg, P12, P32, dip, ground = model(atom)
+    _, _, _, _, (l1, g1), (l2, g2) = ATOMS[atom]
+    B = bias_g * GAUSS
+    Hg = ground(B)
+    a, Ea = level(I, Mg, Hg, *up)
+    b, Eb = level(I, Mg, Hg, *down)
+    nuL, nu1, nu2 = C / lam, C / l1, C / l2
+    det1 = nuL - nu1 + Ea / H
+    det2 = nuL - nu2 + Ea / H
+    D1, D2 = 2 * math.pi * det1, 2 * math.pi * det2
+    G1, G2 = 2 * math.pi * g1, 2 * math.pi * g2
+
+    def amp(e1, e2):
+        d1, d2 = dip(e1), dip(e2)
+        return b.conj() @ (d2.conj().T @ (P12 / D1 + P32 / D2) @ d1) @ a
+
+    dm = down[1] - up[1]
+    if dm == 0:
+        best = amp((1, 0, 0), (0, 1, 0))
+    else:
+        best = amp((0, 0, 1), (1, 0, 0))
+    rng = np.random.default_rng(7)
+    worst_ratio = 0.0
+    for _ in range(200):
+        e1, e2 = rng.normal(size=3), rng.normal(size=3)
+        e1, e2 = e1 / np.linalg.norm(e1), e2 / np.linalg.norm(e2)
+        worst_ratio = max(worst_ratio, abs(amp(e1, e2)) / abs(best))
+    assert worst_ratio <= 1 + 1e-9, ("a random geometry beats the best one", worst_ratio)
+    rabi_per_beam_sq = abs(best) / 2  # Ω_R / Ω_b² (1/(rad/s))
+    sc = []
+    for e in ((1, 0, 0), (0, 1, 0), (0, 0, 1)):
+        d = dip(e)
+        sc.append(np.real(a.conj() @ (d.conj().T @ (G1 * P12 / D1**2 + G2 * P32 / D2**2) @ d) @ a) / 4)
+    assert max(sc) - min(sc) <= 1e-12 * max(sc), sc
+    scatter_per_beam_sq = 2 * sc[0]  # both beams, per Ω_b²
+    # spin matrix element |⟨b|σ_q|a⟩| from the eigenvectors (σ = 2S)
+    sp = Sg[0] + 1j * Sg[1]  # 2 S_+ = σ_x + iσ_y; σ_+ = S_+
+    if dm == 1:
+        s = abs(b.conj() @ (sp @ a))
+    elif dm == -1:
+        s = abs(b.conj() @ (sp.conj().T @ a))
+    else:
+        s = abs(b.conj() @ (2 * Sg[2] @ a))
+    strength = (G1 / (2 * math.pi * nu1) ** 3 + 2 * G2 / (2 * math.pi * nu2) ** 3) / 3
+    rabi_sq_per_intensity = 6 * math.pi * C**2 * strength / HBAR
+    out = dict(atom=atom, wavelength_m=lam, up=list(up), down=list(down), bias_T=B,
+               detuning_d1_hz=det1, detuning_d2_hz=det2, matrix_element=float(s),
+               rabi_over_beam_rabi_sq=float(rabi_per_beam_sq), scatter_per_rabi=float(scatter_per_beam_sq / rabi_per_beam_sq),
+               rabi_sq_per_intensity=rabi_sq_per_intensity, two_photon_hz=abs(Eb - Ea) / H)
+    if up[0] == down[0]:
+        F = up[0]
+        ep = level(I, Mg, Hg, F, 1)[1]
+        em = level(I, Mg, Hg, F, -1)[1]
+        e0 = level(I, Mg, Hg, F, 0)[1]
+        out["quadratic_zeeman_hz"] = ((ep + em) / 2 - e0) / H
+    return out
+
+
+def main():
+    args = sys.argv[1:]
+    if any(x != "--write" for x in args):
+        print("usage: ref_raman.py [--write]  (default: check against the committed file)")
+        sys.exit(2)
+    cases = [case(*c) for c in CASES]
+    ok = True
+    # Closed-form sanity check inside the script: the low-field F = 1 element
+    # |g̃_F| √2 / 2 = 0.3536 for |1,-1> → |1,0> (I = 3/2).
+    low = case("Rb87", 790e-9, (1, -1), (1, 0), 1e-6)["matrix_element"]
+    if abs(low - math.sqrt(2) / 4) > 1e-6:
+        ok = False
+        print("low-field F = 1 element %.9g, want %.9g" % (low, math.sqrt(2) / 4))
+    doc = dict(source="testdata/ref_raman.py: explicit L, S, I matrices (numpy.linalg.eigh), no closed forms",
+               numpy=np.__version__, cases=cases)
+    if "--write" in args:
+        with open(OUT, "w") as f:
+            json.dump(doc, f, indent=2)
+        print("wrote", OUT)
+    else:
+        old = json.load(open(OUT))
+        if len(old["cases"]) != len(cases):
+            ok = False
+            print("committed file has %d cases, recomputed %d (rerun with --write)" % (len(old["cases"]), len(cases)))
+        for o, n in zip(old["cases"], cases):
+            for k, v in n.items():
+                if isinstance(v, float):
+                    rel = abs(o[k] - v) / max(abs(v), 1e-300)
+                    if rel > 1e-9:
+                        ok = False
+                        print("case %s %s %s: committed %s = %.12g, recomputed %.12g" % (n["atom"], n["up"], n["down"], k, o[k], v))
+                elif o[k] != v:
+                    ok = False
+                    print("case %s: committed %s = %r, recomputed %r" % (n["atom"], k, o[k], v))
+        print("compared with the committed", os.path.basename(OUT))
+    for c in cases:
+        print("%-5s λ=%.1f nm %s→%s B=%.4g G: s=%.6f Δ1=%.6g GHz Δ2=%.6g GHz Γsc/Ω=%.6g" % (
+            c["atom"], c["wavelength_m"] * 1e9, c["up"], c["down"], c["bias_T"] / GAUSS, c["matrix_element"],
+            c["detuning_d1_hz"] / 1e9, c["detuning_d2_hz"] / 1e9, c["scatter_per_rabi"]))
+    if not ok:
+        print("ref_raman: FAILED")
+        sys.exit(1)
+    print("ref_raman: ok")
+
+
+main()
