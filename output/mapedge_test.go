@@ -105,3 +105,30 @@ func TestMapExcitationKeys(t *testing.T) {
 	}
 	wantLabels(t, "roton_gap", f.Panels[0].Plot, "ħΩ / E_R", "roton gap  [E_R]")
 }
+
+// The SI values of the excitation observables: ħk_R/m = 4π(E_R/h)/k_R
+// follows from E_R = ħ²k_R²/2m; checked against ħk_R/m computed from the
+// CODATA ħ (dispersion/constants.go) and the 87Rb mass for a recoil of a
+// 780 nm photon pair, and the gap in Hz = gap·E_R/h.
+func TestExcitationSI(t *testing.T) {
+	sp, err := dispersion.LookupSpecies("Rb87")
+	if err != nil {
+		t.Fatal(err)
+	}
+	kr := 2 * math.Pi / 780e-9
+	erHz := dispersion.Hbar * dispersion.Hbar * kr * kr / (2 * sp.Mass) / dispersion.Planck
+	d := &MapData{Spec: MapSpec{Sweep: phases.Sweep{Observables: []phases.Observable{
+		{Name: "k_R"}, {Name: "E_R"}, {Name: "roton_gap"}, {Name: "sound_velocity_x"}, {Name: "sound_velocity_minus_x"}}}},
+		Values: [][]float64{{kr}, {erHz}, {0.25}, {2}, {1.5}}}
+	si := excitationSI(d)
+	want := dispersion.Hbar * kr / sp.Mass * 1e3 // mm/s per ħk_R/m
+	if g := si["roton_gap_hz"][0]; math.Abs(g-0.25*erHz) > 1e-12*erHz {
+		t.Errorf("gap %g Hz, want %g", g, 0.25*erHz)
+	}
+	if c := si["sound_velocity_x_mm_per_s"][0]; math.Abs(c-2*want) > 1e-12*want {
+		t.Errorf("c %g mm/s, want %g", c, 2*want)
+	}
+	if c := si["sound_velocity_minus_x_mm_per_s"][0]; math.Abs(c-1.5*want) > 1e-12*want {
+		t.Errorf("c(−x) %g mm/s, want %g", c, 1.5*want)
+	}
+}
