@@ -69,7 +69,7 @@ func (o *mapOpts) addFlags(fs *pflag.FlagSet) {
 	o.tf.add(fs)
 	fs.IntVar(&o.gpeStarts, "starts", 0, "gpe: random starts per point besides the variational optimum and the competing phase")
 	o.gpeTol = qflag(fs, "tol", KindNumber, "1e-8", "gpe: residual to converge to, in E_R")
-	fs.StringVar(&o.stripeBox, "stripe-box", "optimise", "gpe: boxes of the stripe branch: optimise (the stripe period optimised per point, ≈ 4× the cost of fixed) or fixed (one box of the variational stripe period; the GPE stripe edge comes out early)")
+	fs.StringVar(&o.stripeBox, "stripe-box", "optimise", "gpe: boxes of the stripe branch: optimise (the stripe period optimised per point, 2.5–6× the cost of fixed) or fixed (one box of the variational stripe period; the GPE stripe edge comes out early)")
 	fs.BoolVar(&o.excitations, "excitations", false, "also store the Bogoliubov observables of the uniform phases: roton_gap [E_R], roton_q [k_R], sound_velocity_x, sound_velocity_minus_x [ħk_R/m], bdg_unstable (NaN at stripe points; for --method gpe where the GPE state is uniform)")
 	fs.BoolVar(&o.gpeEdge, "gpe-edge", false, "variational one-axis map along omega: also compute the GPE-corrected upper stripe edge (bisection of GPE ground states over branches and boxes, ≈ 1–3 s) and state it in the table, JSON, HDF5 (/map attribute gpe_stripe_edge_omega_over_ER) and figure")
 	fs.IntVar(&o.workers, "workers", 0, "parallel workers (0 = all cores, or SLURM_CPUS_PER_TASK inside a Slurm job)")
