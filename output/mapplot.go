@@ -59,6 +59,9 @@ func AxisDisplay(name, unit string) (string, float64) { return phases.AxisDispla
 type Boundary struct {
 	Name string
 	X, Y []float64
+	// Vertical: a point of a one-axis map (X = {x, x}), drawn as a vertical
+	// line across the phase strip and across the panels beneath.
+	Vertical bool
 }
 
 // boundaryStyles are the line styles of the boundaries over a map, in
@@ -147,22 +150,14 @@ func (mp MapPlot) Figure() (*Figure, error) {
 		if len(xy) < 2 {
 			continue
 		}
-		l, err := plotter.NewLine(xy)
+		lines, err := boundaryLines(xy, i)
 		if err != nil {
 			return nil, err
 		}
-		l.LineStyle = boundaryStyles[i%len(boundaryStyles)]
-		if l.LineStyle.Color == (color.RGBA{255, 255, 255, 255}) {
-			// A light line gets a dark casing, for the legend and for light cells.
-			casing, _ := plotter.NewLine(xy)
-			casing.LineStyle = draw.LineStyle{Color: color.Black, Width: l.Width + vg.Points(1.6)}
-			p.Add(casing)
-			p.Add(l)
-			p.Legend.Add(b.Name, casing, l)
-			continue
+		for _, l := range lines {
+			p.Add(l.(plot.Plotter))
 		}
-		p.Add(l)
-		p.Legend.Add(b.Name, l)
+		p.Legend.Add(b.Name, lines...)
 	}
 	if len(mp.Marks) > 0 {
 		xy := make(plotter.XYs, len(mp.Marks))
@@ -197,9 +192,55 @@ func (mp MapPlot) Figure() (*Figure, error) {
 			continue
 		}
 		q.X.Min, q.X.Max = p.X.Min, p.X.Max
+		if err := mp.verticalLines(q); err != nil {
+			return nil, err
+		}
 		panels = append(panels, Panel{Plot: q})
 	}
 	return &Figure{Title: mp.Title, Width: 8.5 * vg.Inch, Height: vg.Length(4+2.2*float64(len(panels)-1)) * vg.Inch, Panels: panels}, nil
+}
+
+// boundaryLines are the lines of boundary i in the style boundaryStyles[i]
+// (a light line with a dark casing beneath it, for the legend and for light
+// cells).
+func boundaryLines(xy plotter.XYs, i int) ([]plot.Thumbnailer, error) {
+	l, err := plotter.NewLine(xy)
+	if err != nil {
+		return nil, err
+	}
+	l.LineStyle = boundaryStyles[i%len(boundaryStyles)]
+	if l.LineStyle.Color == (color.RGBA{255, 255, 255, 255}) {
+		casing, _ := plotter.NewLine(xy)
+		casing.LineStyle = draw.LineStyle{Color: color.Black, Width: l.Width + vg.Points(1.6)}
+		return []plot.Thumbnailer{casing, l}, nil
+	}
+	return []plot.Thumbnailer{l}, nil
+}
+
+// verticalLines draws the Vertical boundaries across a panel beneath the
+// phase strip of a one-axis map, in the boundaries' styles (their legend is
+// the strip's). The y range is that of the panel's data (set by Add),
+// widened by 5 %.
+func (mp MapPlot) verticalLines(q *plot.Plot) error {
+	ylo, yhi := q.Y.Min, q.Y.Max
+	if !(yhi > ylo) {
+		ylo, yhi = ylo-0.5, ylo+0.5
+	}
+	pad := 0.05 * (yhi - ylo)
+	for i, b := range mp.Boundaries {
+		if !b.Vertical {
+			continue
+		}
+		lines, err := boundaryLines(plotter.XYs{{X: b.X[0], Y: ylo - pad}, {X: b.X[0], Y: yhi + pad}}, i)
+		if err != nil {
+			return err
+		}
+		for _, l := range lines {
+			q.Add(l.(plot.Plotter))
+		}
+	}
+	q.Y.Min, q.Y.Max = ylo-pad, yhi+pad
+	return nil
 }
 
 func knownPhase(p label.Phase) bool {
@@ -317,19 +358,24 @@ var observableDisplay = map[string]struct {
 	Label  string
 	Signed bool
 }{
-	"contrast":           {"stripe contrast (n_max − n_min)/(n_max + n_min)", false},
-	"period":             {"stripe period π/k₁  [1/k_R]", false},
-	"k1":                 {"k₁  [k_R]", true},
-	"k_plus":             {"k₊  [k_R]", true},
-	"k_minus":            {"k₋  [k_R]", true},
-	"sigma_z":            {"<σz>  (spatial mean)", true},
-	"energy":             {"energy per particle  [E_R]", false},
-	"energy_variational": {"variational energy per particle  [E_R]", false},
-	"gap":                {"energy gap to the competing branch  [E_R]", false},
-	"weight_plus":        {"weight C₊² of exp(ik₊x)", false},
-	"residual":           {"residual ‖Hψ − μψ‖  [E_R]", false},
-	"box_length":         {"box length  [1/k_R]", false},
-	"spread":             {"energy spread of the starts  [E_R]", false},
+	"contrast":               {"stripe contrast (n_max − n_min)/(n_max + n_min)", false},
+	"period":                 {"stripe period π/k₁  [1/k_R]", false},
+	"k1":                     {"k₁  [k_R]", true},
+	"k_plus":                 {"k₊  [k_R]", true},
+	"k_minus":                {"k₋  [k_R]", true},
+	"sigma_z":                {"<σz>  (spatial mean)", true},
+	"energy":                 {"energy per particle  [E_R]", false},
+	"energy_variational":     {"variational energy per particle  [E_R]", false},
+	"gap":                    {"energy gap to the competing branch  [E_R]", false},
+	"weight_plus":            {"weight C₊² of exp(ik₊x)", false},
+	"residual":               {"residual ‖Hψ − μψ‖  [E_R]", false},
+	"box_length":             {"box length  [1/k_R]", false},
+	"roton_gap":              {"roton gap  [E_R]", false},
+	"roton_q":                {"roton momentum q_x  [k_R]", true},
+	"sound_velocity_x":       {"sound velocity along +x  [ħk_R/m]", false},
+	"sound_velocity_minus_x": {"sound velocity along −x  [ħk_R/m]", false},
+	"bdg_unstable":           {"Bogoliubov instability (1: unstable)", false},
+	"spread":                 {"energy spread of the starts  [E_R]", false},
 }
 
 // ObservableLabel returns the figure label of a map observable (with its

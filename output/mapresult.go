@@ -86,11 +86,26 @@ func (r *MapResult) Plot() MapPlot {
 		title = fmt.Sprintf("Spin-1 (F = 1) variational phase diagram, %s", r.subtitle())
 	}
 	mp := MapPlot{Data: d, Title: r.titleWith(title)}
+	xs, ys := axisScale(d.Spec.Sweep.X), axisScale(d.Spec.Sweep.Y)
+	var bs []phases.Boundary
 	if r.Problem != nil {
-		xs, ys := axisScale(d.Spec.Sweep.X), axisScale(d.Spec.Sweep.Y)
-		for _, b := range r.Problem.ClosedFormBoundaries() {
-			mp.Boundaries = append(mp.Boundaries, Boundary{Name: b.Name, X: scaled(b.X, xs), Y: scaled(b.Y, ys)})
+		bs = r.Problem.ClosedFormBoundaries()
+	}
+	if e, ok := r.GPEEdge(); ok && e.Found {
+		bs = append(bs, phases.Boundary{Name: "stripe edge (GPE)", X: []float64{e.GPE}})
+	}
+	for _, b := range bs {
+		if b.Y == nil && len(b.X) == 1 {
+			// A point of a one-axis map: a vertical line across the strip
+			// (the strip's y extent is that of the single row at 0), drawn
+			// only inside the map's x range.
+			if lo, hi := extent(scaled(d.Spec.Sweep.X.Values, xs)); !(b.X[0]*xs >= lo && b.X[0]*xs <= hi) {
+				continue
+			}
+			mp.Boundaries = append(mp.Boundaries, Boundary{Name: b.Name, X: []float64{b.X[0] * xs, b.X[0] * xs}, Y: []float64{-0.5, 0.5}, Vertical: true})
+			continue
 		}
+		mp.Boundaries = append(mp.Boundaries, Boundary{Name: b.Name, X: scaled(b.X, xs), Y: scaled(b.Y, ys)})
 	}
 	if d.Observable("phase_variational") != nil {
 		mp.Marks = r.Disagreements()
@@ -178,12 +193,23 @@ func (r *MapResult) JSON() map[string]any {
 		doc["phase"], doc["energy_over_ER"] = names[0], energy[0]
 	}
 	// Maps over a scheme with an atom: the per-point units and SI values
-	// (phases.LabObservables), in the same layout.
+	// (phases.LabObservables); maps with excitations: the
+	// phases.ExcitationObservables (and their SI values with lab units); in
+	// the same layout.
+	exc := excitationSI(d)
 	for _, o := range [...]struct{ obs, key string }{
 		{"k_R", "k_R_per_m"}, {"E_R", "E_R_hz"}, {"omega_over_ER", "omega_over_ER"}, {"delta_over_ER", "delta_over_ER"},
 		{"energy_hz", "energy_hz"}, {"k1_si", "k1_per_m"}, {"period_um", "period_um"},
+		{"roton_gap", "roton_gap_over_ER"}, {"roton_q", "roton_q_over_kR"},
+		{"sound_velocity_x", "sound_velocity_x_over_hbar_kR_per_m"}, {"sound_velocity_minus_x", "sound_velocity_minus_x_over_hbar_kR_per_m"},
+		{"bdg_unstable", "bdg_unstable"},
+		{"roton_gap_hz", "roton_gap_hz"}, {"sound_velocity_x_mm_per_s", "sound_velocity_x_mm_per_s"},
+		{"sound_velocity_minus_x_mm_per_s", "sound_velocity_minus_x_mm_per_s"},
 	} {
 		v := d.Observable(o.obs)
+		if v == nil {
+			v = exc[o.obs]
+		}
 		if v == nil {
 			continue
 		}
@@ -200,7 +226,92 @@ func (r *MapResult) JSON() map[string]any {
 			doc[o.key] = rows[0]
 		}
 	}
+	if e, ok := r.GPEEdge(); ok {
+		doc["variational_stripe_edge_omega_over_ER"] = JSONNum(e.Variational)
+		doc["gpe_stripe_edge_omega_over_ER"] = JSONNum(e.GPE)
+		doc["gpe_stripe_edge_tol_over_ER"] = JSONNum(e.Tol)
+		if e.Note != "" {
+			doc["gpe_stripe_edge_note"] = e.Note
+		}
+	}
 	return doc
+}
+
+// excitationSI returns the SI values of the excitation observables of a map
+// with lab units (roton_gap_hz = roton_gap·E_R/h; the velocities in mm/s,
+// ħk_R/m = 4π(E_R/h)/k_R), nil without them.
+func excitationSI(d *MapData) map[string][]float64 {
+	kr, er := d.Observable("k_R"), d.Observable("E_R")
+	gap, cp, cm := d.Observable("roton_gap"), d.Observable("sound_velocity_x"), d.Observable("sound_velocity_minus_x")
+	if kr == nil || er == nil || gap == nil || cp == nil || cm == nil {
+		return nil
+	}
+	out := map[string][]float64{}
+	hz, mmp, mmm := make([]float64, len(gap)), make([]float64, len(gap)), make([]float64, len(gap))
+	for i := range gap {
+		unit := 4 * math.Pi * er[i] / kr[i] * 1e3 // ħk_R/m in mm/s
+		hz[i], mmp[i], mmm[i] = gap[i]*er[i], cp[i]*unit, cm[i]*unit
+	}
+	out["roton_gap_hz"], out["sound_velocity_x_mm_per_s"], out["sound_velocity_minus_x_mm_per_s"] = hz, mmp, mmm
+	return out
+}
+
+// Root attributes of /map holding the GPE-corrected stripe edge of a
+// one-axis variational map along omega (SetGPEEdge).
+const (
+	attrGPEEdge     = "gpe_stripe_edge_omega_over_ER"
+	attrVarEdge     = "variational_stripe_edge_omega_over_ER"
+	attrGPEEdgeTol  = "gpe_stripe_edge_tol_over_ER"
+	attrGPEEdgeNote = "gpe_stripe_edge_note"
+)
+
+// MapEdge is the GPE-corrected stripe edge stored with a map (E_R).
+type MapEdge struct {
+	Variational float64 // the variational upper stripe edge (NaN: none)
+	GPE         float64 // the GPE edge, midpoint of its last bracket (NaN: not found)
+	Tol         float64 // the bracket's width
+	Found       bool
+	Note        string // why there is no edge ("" when Found)
+}
+
+// SetGPEEdge puts the GPE stripe edge e into the map's attributes (written
+// to /map with the file; read back by ReadMap).
+func SetGPEEdge(spec *MapSpec, e *phases.MapGPEEdge) {
+	if spec.Attrs == nil {
+		spec.Attrs = map[string]any{}
+	}
+	gpe, tol := math.NaN(), math.NaN()
+	if e.GPE.Found {
+		gpe, tol = e.GPE.Omega, e.GPE.Hi-e.GPE.Lo
+	}
+	spec.Attrs[attrVarEdge] = e.VariationalEdge
+	spec.Attrs[attrGPEEdge] = gpe
+	spec.Attrs[attrGPEEdgeTol] = tol
+	spec.Attrs[attrGPEEdgeNote] = e.Note
+}
+
+// GPEEdge returns the GPE stripe edge stored with the map (ok false when
+// the map has none).
+func (r *MapResult) GPEEdge() (MapEdge, bool) {
+	a := r.Data.Spec.Attrs
+	num := func(k string) float64 {
+		switch v := a[k].(type) {
+		case float64:
+			return v
+		case []float64:
+			if len(v) == 1 {
+				return v[0]
+			}
+		}
+		return math.NaN()
+	}
+	if _, ok := a[attrGPEEdge]; !ok {
+		return MapEdge{}, false
+	}
+	e := MapEdge{Variational: num(attrVarEdge), GPE: num(attrGPEEdge), Tol: num(attrGPEEdgeTol)}
+	e.Note, _ = a[attrGPEEdgeNote].(string)
+	e.Found = !math.IsNaN(e.GPE)
+	return e, true
 }
 
 // WriteH5 writes the map to a new HDF5 file in the map-file layout.
@@ -239,6 +350,15 @@ func (r *MapResult) Table() *Table {
 			}
 		}
 		t.Text("(" + xl + ")")
+	}
+	if e, ok := r.GPEEdge(); ok {
+		t.Section("Upper stripe edge along Ω")
+		t.Row("variational (two-wave ansatz)", Num(e.Variational, 5), "E_R")
+		if e.Found {
+			t.Row("GPE (best state over branches and boxes)", Num(e.GPE, 5)+" ± "+Num(e.Tol/2, 2), "E_R")
+		} else {
+			t.Row("GPE", "not found: "+e.Note, "")
+		}
 	}
 	if res.Skipped > 0 {
 		t.Text(fmt.Sprintf("resumed: %d points from an earlier run, %d computed now", res.Skipped, res.Computed))

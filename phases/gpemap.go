@@ -2,6 +2,7 @@ package phases
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"math/cmplx"
@@ -20,9 +21,9 @@ var GPEObservables = []Observable{
 	{Name: "residual", Unit: "E_R", Description: "residual |H psi - mu psi| of the kept state"},
 	{Name: "energy_variational", Unit: "E_R", Description: "energy per particle of the variational optimum at this point"},
 	{Name: "phase_variational", Unit: "dimensionless", Description: "phase code of the variational optimum at this point"},
-	{Name: "box_length", Unit: "1/k_R", Description: "box length along x (commensurate with the momentum the box is sized for)"},
-	{Name: "spread", Unit: "E_R", Description: "energy spread among the converged starts"},
-	{Name: "grid_points", Unit: "dimensionless", Description: "grid points along x (the automatic-grid rule, gpe.ResolveBox)"},
+	{Name: "box_length", Unit: "1/k_R", Description: "box length along x of the kept state (commensurate with the momentum its box is sized for: the plane-wave branch's, or the optimised stripe momentum)"},
+	{Name: "spread", Unit: "E_R", Description: "energy spread among the converged starts (all boxes)"},
+	{Name: "grid_points", Unit: "dimensionless", Description: "grid points along x of the kept state's box (the automatic-grid rule, gpe.ResolveBox)"},
 }
 
 // GPESettings configure GPEPoints. Zero fields take the documented defaults.
@@ -32,14 +33,20 @@ type GPESettings struct {
 	// 4 k_R, raised through FFT-friendly sizes up to 8192 when the box
 	// needs it). A given count is kept; the box is then capped instead.
 	Points int
-	// Length: box length along x (1/k_R); 0 sizes the box per point for the
-	// variational k₁ (or the competing stripe branch's for a single minimum):
-	// four wavelengths, fewer when the points cannot resolve that box
-	// (gpe.ResolveBox over gpe.BoxMomentum(...)).
+	// Length: box length along x (1/k_R), the one box of every start; 0
+	// sizes the boxes per point and per branch (see GPEPoints): four
+	// wavelengths of the branch's momentum, fewer when the points cannot
+	// resolve that box (gpe.ResolveBox over gpe.BoxMomentum(...)).
 	Length float64
-	// RandomStarts: random starts (seeds 1…n) besides the variational
-	// optimum and the competing branch's state. Default 0.
+	// RandomStarts: random starts (seeds 1…n) in the plane-wave box besides
+	// the variational states. Default 0.
 	RandomStarts int
+	// StripeBox: the boxes of the stripe branch, StripeBoxOptimise (default,
+	// also "") or StripeBoxFixed. Not used when Length is given.
+	StripeBox StripeBox
+	// StripeKTol: the bracket (k_R) at which the optimised stripe momentum
+	// stops. Default DefaultStripeKTol (1e-3).
+	StripeKTol float64
 	// Dims: dimension of the grid, 1 (default, also for 0) or 2. A uniform
 	// 2D box has the x axis of the 1D rule and a y axis of half its length
 	// (gpe.AutoTransverse) with points from the same rule (gpe.ResolveBox
@@ -70,31 +77,78 @@ const DegenerateTol = 1e-9
 // tie-break (a stripe's ⟨σz⟩ = 0 differs between starts by rounding only).
 const degenerateSzTol = 1e-6
 
-// GPEPoints returns a PointFunc that solves the spinor GPE in a 1D periodic
-// box at each map point: the uniform problem from problem, the box chosen
-// per point by gpe.ResolveBox for the variational k₁ (unless Length and
-// Points are both set), starts from the variational optimum, from the
-// competing branch's state and — when the optimum is a plane wave whose
-// mirror image is degenerate with it (δ/2 + Δg = 0, Uniform.Couplings) —
-// from that mirror image (plus random starts), and the phase from the
-// shared classifier (label.Classify, via gpe.Observe).
+// StripeBox is how GPE map points choose the boxes of the stripe branch
+// (GPESettings.StripeBox).
+type StripeBox string
+
+const (
+	// StripeBoxOptimise (default, also ""): boxes of four stripe
+	// wavelengths with the stripe momentum optimised by
+	// stripeMomentumSearch, the optimiser of BestGPEState (a scan of 7
+	// boxes, then golden section to GPESettings.StripeKTol; skipped when no
+	// scan box holds a stripe).
+	StripeBoxOptimise StripeBox = "optimise"
+	// StripeBoxFixed: one box sized for the variational stripe momentum
+	// (the ansatz's period). 2.5–6× faster than optimise over
+	// BenchmarkGPEMap's map; the GPE stripe edge then comes out early
+	// (1.645 against 1.651 E_R at G1 = 1, G2 = 0.05), since the GPE
+	// stripe's period differs from the ansatz's.
+	StripeBoxFixed StripeBox = "fixed"
+)
+
+// DefaultStripeKTol is the default GPESettings.StripeKTol, 1e-3 k_R: the
+// stripe energy is quadratic in the box momentum around its optimum,
+// E(k) ≈ E₀ + ½c(k − k₀)² with c = d²E/dk² ≈ 0.8 E_R/k_R² (measured at G1 = 1,
+// G2 = 0.05, Ω = 1.635–1.65), so a bracket of 1e-3 k_R leaves ≲ 1e-7 E_R,
+// and moves the stripe edge by ≲ 1e-5 E_R.
+const DefaultStripeKTol = 1e-3
+
+func (s GPESettings) stripeBox() StripeBox {
+	if s.StripeBox == "" {
+		return StripeBoxOptimise
+	}
+	return s.StripeBox
+}
+
+// GPEPoints returns a PointFunc that solves the spinor GPE in a periodic
+// box at each map point of the uniform problem from problem. Each branch
+// is solved in boxes sized for its own momentum (automatic boxes,
+// gpe.ResolveBox with the given Points):
+//
+//   - the plane-wave box, for the variational plane-wave branch's momentum
+//     (for a single minimum, k ≈ 0, the competing stripe branch's:
+//     gpe.BoxMomentum), with the starts: the plane-wave branch's state,
+//     its mirror image (−k) when the two are degenerate (δ/2 + Δg = 0,
+//     Uniform.Couplings), the variational stripe state, random seeds 1…n;
+//   - the stripe boxes (when the variational theory has a stripe branch):
+//     with StripeBox optimise the boxes of stripeMomentumSearch, with fixed
+//     the one box of the variational stripe momentum; in each the start of
+//     BestGPEState's stripe branch (stripeBoxStarts: gpe.GuessStripe at the
+//     box momentum; once a stripe is found, the best stripe so far first,
+//     warmStart).
+//
+// With Length given every start runs in that one box (and the stripe
+// period is not optimised). The phase comes from the shared classifier
+// (label.Classify, via gpe.Observe).
 //
 // The kept state, a documented rule so that the same point gives the same
 // state in every run (any worker count, resume, shards):
 //
-//  1. the lowest converged energy E₀; every converged start with energy
-//     ≤ E₀ + DegenerateTol is a candidate;
+//  1. the lowest converged energy E₀ over every box; every converged start
+//     with energy ≤ E₀ + DegenerateTol is a candidate;
 //  2. among the candidates the one with the largest ⟨σz⟩ (values within
 //     1e-6 count as equal) — the +k₁ plane wave of the degenerate pair,
 //     since in this gauge a plane wave's ⟨σz⟩ has the sign of its k;
-//  3. among those, the first in start order (variational optimum,
-//     competing branch, mirror image, random seeds 1…n).
+//  3. among those, the first in start order (the plane-wave box's starts in
+//     the order above, then the stripe boxes in the order they were
+//     solved, each box's starts in order).
 //
 // A point whose starts all fail to converge is labelled label.NotConverged.
-// A point for which no box within the rule's limits resolves k_max ≥ 4 k_R
-// (possible only with both Points and Length given, or too few Points) is
-// labelled label.UnderResolved, not solved, and stores NaN for the GPE
-// observables (the variational ones and the box are kept).
+// A point for which a box it needs cannot be resolved within the rule's
+// limits (k_max ≥ 4 k_R; possible only with both Points and Length given,
+// or too few Points) is labelled label.UnderResolved, not solved, and
+// stores NaN for the GPE observables (the variational ones are kept, and
+// box_length, grid_points of the box that could not be resolved).
 func GPEPoints(problem func(ix, iy int) (Uniform, error), s GPESettings) PointFunc {
 	return uniformPoints(problem, len(GPEObservables), gpeSolve(s))
 }
@@ -104,68 +158,142 @@ func gpeSolve(s GPESettings) func(context.Context, Uniform) (PointResult, error)
 	if s.Solver.Threads == 0 {
 		s.Solver.Threads = 1
 	}
+	ktol := s.StripeKTol
+	if ktol == 0 {
+		ktol = DefaultStripeKTol
+	}
+	span := (&GPEBestSettings{}).withDefaults().KSpan
+	if s.stripeBox() == StripeBoxFixed {
+		span = 0
+	}
+	dims := s.dims()
+	th := thresholds(s.Variational)
+	// box returns the axes of the box for momentum k (the shared rule of
+	// gpe/autogrid.go) and whether every axis is resolved.
+	box := func(k float64) ([]gpe.BoxAxis, bool) {
+		bx := gpe.ResolveBox(dims, k, s.Points, s.Length)
+		axes, ok := []gpe.BoxAxis{bx}, bx.Resolved
+		if dims == 2 {
+			by := gpe.ResolveBox(2, 1, s.Points, gpe.AutoTransverse(bx.Length))
+			axes, ok = append(axes, by), ok && by.Resolved
+		}
+		return axes, ok
+	}
 	return func(ctx context.Context, u Uniform) (PointResult, error) {
 		vr, err := Variational(u, s.Variational)
 		if err != nil {
 			return PointResult{}, err
 		}
-		// The box admits the momentum of the variational winner exactly (for a
-		// single minimum, that of the competing stripe branch): the shared
-		// rule of gpe/autogrid.go.
-		dims := s.dims()
-		box := gpe.ResolveBox(dims, gpe.BoxMomentum(vr.K1, vr.StripeState.K1()), s.Points, s.Length)
-		points, lengths := []int{box.Points}, []float64{box.Length}
-		resolved := box.Resolved
-		if dims == 2 {
-			by := gpe.ResolveBox(2, 1, s.Points, gpe.AutoTransverse(box.Length))
-			points, lengths = append(points, by.Points), append(lengths, by.Length)
-			resolved = resolved && by.Resolved
-		}
 		nan := math.NaN()
-		if !resolved {
+		kpw := planeWaveMomentum(vr)
+		ks, hasStripe := stripeBranchMomentum(vr)
+		pwAxes, ok := box(gpe.BoxMomentum(kpw, vr.StripeState.K1()))
+		if !ok {
 			return PointResult{Phase: label.UnderResolved, Values: []float64{
-				nan, nan, nan, nan, nan, vr.Energy, float64(vr.Phase), box.Length, nan, float64(box.Points),
+				nan, nan, nan, nan, nan, vr.Energy, float64(vr.Phase), pwAxes[0].Length, nan, float64(pwAxes[0].Points),
 			}}, nil
 		}
-		grid, err := gpe.NewGrid(points, lengths)
+		// run solves the starts of guesses (made on the box's grid) in the
+		// box of axes with solver settings set, appends them to starts and
+		// returns the lowest converged energy among them, whether that
+		// state is a stripe and whether any start converged.
+		var starts []gpeStart
+		var warm *gpe.State // the lowest converged stripe so far
+		var warmBox []gpe.BoxAxis
+		warmE := math.Inf(1)
+		run := func(axes []gpe.BoxAxis, set gpe.Settings, guesses func(*gpe.Grid) []gpe.Guess) (float64, bool, bool, error) {
+			points, lengths := make([]int, len(axes)), make([]float64, len(axes))
+			for i, a := range axes {
+				points[i], lengths[i] = a.Points, a.Length
+			}
+			grid, err := gpe.NewGrid(points, lengths)
+			if err != nil {
+				return 0, false, false, err
+			}
+			p := gpe.Problem{Grid: grid, Model: gpe.UniformBox(grid, u.Omega, u.Delta, u.Guu, u.Gdd, u.Gud)}
+			lo, stripe, conv := math.Inf(1), false, false
+			for _, g := range guesses(grid) {
+				if err := ctx.Err(); err != nil {
+					return 0, false, false, err
+				}
+				st, err := g.Build(p)
+				if err != nil {
+					return 0, false, false, err
+				}
+				sv := set
+				r, err := gpe.Solve(p, st, &sv)
+				if err != nil {
+					return 0, false, false, err
+				}
+				o, err := r.Observe(p, th)
+				if err != nil {
+					return 0, false, false, err
+				}
+				starts = append(starts, gpeStart{res: r, obs: o, box: axes[0]})
+				if r.Status != gpe.Converged {
+					continue
+				}
+				conv = true
+				if o.Energies.Total < lo {
+					lo, stripe = o.Energies.Total, o.Phase == label.Stripe
+				}
+				if o.Phase == label.Stripe && o.Energies.Total < warmE {
+					warm, warmBox, warmE = r.State, axes, o.Energies.Total
+				}
+			}
+			return lo, stripe, conv, nil
+		}
+		// The plane-wave box: the plane-wave branch (the optimum unless it
+		// is a stripe), its mirror image, the stripe branch, random seeds.
+		pwState := vr.PlaneWaveState
+		if vr.Phase != label.Stripe {
+			pwState = vr.State
+		}
+		_, _, _, err = run(pwAxes, s.Solver, func(g *gpe.Grid) []gpe.Guess {
+			gs := []gpe.Guess{{Name: "plane-wave branch", Kind: gpe.GuessGiven, State: TwoWaveState(g, pwState)}}
+			if m, ok := mirrorPlaneWave(u, vr); ok {
+				gs = append(gs, gpe.Guess{Name: "mirror image", Kind: gpe.GuessGiven, State: TwoWaveState(g, m)})
+			}
+			gs = append(gs, gpe.Guess{Name: "stripe branch", Kind: gpe.GuessGiven, State: TwoWaveState(g, vr.StripeState)})
+			for i := 1; i <= s.RandomStarts; i++ {
+				gs = append(gs, gpe.Guess{Name: fmt.Sprintf("random seed=%d", i), Kind: gpe.GuessRandom, Seed: uint64(i)})
+			}
+			return gs
+		})
 		if err != nil {
 			return PointResult{}, err
 		}
-		p := gpe.Problem{Grid: grid, Model: gpe.UniformBox(grid, u.Omega, u.Delta, u.Guu, u.Gdd, u.Gud)}
-		guesses := []gpe.Guess{
-			{Name: "variational optimum", Kind: gpe.GuessGiven, State: TwoWaveState(grid, vr.State)},
-		}
-		other := vr.StripeState
-		if vr.Phase == label.Stripe {
-			other = vr.PlaneWaveState
-		}
-		guesses = append(guesses, gpe.Guess{Name: "competing branch", Kind: gpe.GuessGiven, State: TwoWaveState(grid, other)})
-		if m, ok := mirrorPlaneWave(u, vr); ok {
-			guesses = append(guesses, gpe.Guess{Name: "mirror image", Kind: gpe.GuessGiven, State: TwoWaveState(grid, m)})
-		}
-		for i := 1; i <= s.RandomStarts; i++ {
-			guesses = append(guesses, gpe.Guess{Name: fmt.Sprintf("random seed=%d", i), Kind: gpe.GuessRandom, Seed: uint64(i)})
-		}
-		set := s.Solver
-		th := thresholds(s.Variational)
-		starts := make([]gpeStart, 0, len(guesses))
-		for _, g := range guesses {
-			if err := ctx.Err(); err != nil {
-				return PointResult{}, err
+		// The stripe boxes, unless the box is given (then the plane-wave
+		// box is the only one and held every start).
+		if hasStripe && s.Length == 0 {
+			var unresolved gpe.BoxAxis
+			err := stripeMomentumSearch(ks, span, ktol, func(k float64, useWarm bool) (float64, bool, error) {
+				axes, ok := box(k)
+				if !ok {
+					unresolved = axes[0]
+					return math.Inf(1), false, errUnresolved
+				}
+				// Once a stripe is found, a box starts from the best stripe
+				// so far when its box has the same shape (warmStart); a
+				// warm start that does not converge is followed by the
+				// full starts.
+				if ws, set, ok := warmStart(useWarm && sameShape(warmBox, axes), warm, boxSize(axes), s.Solver); ok {
+					e, st, conv, err := run(axes, set, func(*gpe.Grid) []gpe.Guess { return ws })
+					if err != nil || conv {
+						return e, st, err
+					}
+				}
+				e, st, _, err := run(axes, s.Solver, func(*gpe.Grid) []gpe.Guess { return stripeBoxStarts(k) })
+				return e, st, err
+			})
+			if errors.Is(err, errUnresolved) {
+				return PointResult{Phase: label.UnderResolved, Values: []float64{
+					nan, nan, nan, nan, nan, vr.Energy, float64(vr.Phase), unresolved.Length, nan, float64(unresolved.Points),
+				}}, nil
 			}
-			st, err := g.Build(p)
 			if err != nil {
 				return PointResult{}, err
 			}
-			r, err := gpe.Solve(p, st, &set)
-			if err != nil {
-				return PointResult{}, err
-			}
-			o, err := r.Observe(p, th)
-			if err != nil {
-				return PointResult{}, err
-			}
-			starts = append(starts, gpeStart{res: r, obs: o})
 		}
 		k, spread := keepStart(starts)
 		best := starts[k]
@@ -176,15 +304,44 @@ func gpeSolve(s GPESettings) func(context.Context, Uniform) (PointResult, error)
 		}
 		return PointResult{Phase: ph, Values: []float64{
 			o.Energies.Total, o.K1, o.Contrast, o.Sz, best.res.Residual,
-			vr.Energy, float64(vr.Phase), box.Length, spread, float64(box.Points),
+			vr.Energy, float64(vr.Phase), best.box.Length, spread, float64(best.box.Points),
 		}}, nil
 	}
 }
+
+// sameShape reports whether two boxes have the same points per axis and the
+// same number of wavelengths along x (a state of one is then the other's
+// stretched to the new period).
+func sameShape(a, b []gpe.BoxAxis) bool {
+	if len(a) != len(b) || len(a) == 0 || a[0].Wavelengths != b[0].Wavelengths {
+		return false
+	}
+	for i := range a {
+		if a[i].Points != b[i].Points {
+			return false
+		}
+	}
+	return true
+}
+
+// boxSize is the number of grid points of a box.
+func boxSize(axes []gpe.BoxAxis) int {
+	n := 1
+	for _, a := range axes {
+		n *= a.Points
+	}
+	return n
+}
+
+// errUnresolved stops the stripe search of a GPE map point at a box that
+// cannot be resolved (the point is under-resolved).
+var errUnresolved = errors.New("box not resolved")
 
 // gpeStart is the outcome of one start of a GPE map point.
 type gpeStart struct {
 	res *gpe.Result
 	obs *gpe.Observables
+	box gpe.BoxAxis // the x axis of its box
 }
 
 // keepStart applies the rule of GPEPoints to the starts: the index of the

@@ -168,3 +168,64 @@ func TestMirrorPlaneWave(t *testing.T) {
 		}
 	}
 }
+
+// TestGPEPointBoxEffect: at Ω = 1.635, G1 = 1, G2 = 0.05 (between the
+// variational edge 1.4397 and the GPE edge 1.6517 of testdata/ref_gpe_edge.json)
+// the map point finds the stripe in a box of its own optimised period,
+// ≈ 1e-3 E_R below the plane wave (energy_variational: the variational plane
+// wave, an exact GPE state), at the energy of BestGPEState; the box it keeps
+// is the stripe's, not the plane wave's. With --stripe-box fixed the stripe
+// is still found (in the variational period's box) but higher.
+func TestGPEPointBoxEffect(t *testing.T) {
+	u := Symmetric(1.635, 1, 0.05)
+	b, err := BestGPEState(u, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var e [2]float64
+	for i, sb := range []StripeBox{StripeBoxOptimise, StripeBoxFixed} {
+		f := GPEPoints(func(ix, iy int) (Uniform, error) { return u, nil }, GPESettings{StripeBox: sb})
+		r, err := f(context.Background(), 0, 0)
+		if err != nil {
+			t.Fatal(err)
+		}
+		e[i] = r.Values[0]
+		epw, L := r.Values[5], r.Values[7]
+		t.Logf("%s: %v E = %.9f, plane wave %.9f (lower by %.3e), box %.4f/k_R; BestGPEState %.9f", sb, r.Phase, e[i], epw, epw-e[i], L, b.Energy)
+		if r.Phase != label.Stripe || label.Phase(r.Values[6]) != label.PlaneWave || !(epw-e[i] > 5e-4) {
+			t.Errorf("%s: %v (variational %v), stripe below the plane wave by %g", sb, r.Phase, label.Phase(r.Values[6]), epw-e[i])
+		}
+		if pwL := gpe.AutoLength(b.Variational.PlaneWaveState.KPlus); math.Abs(L-pwL) < 1e-6 {
+			t.Errorf("%s: kept box %g is the plane wave's", sb, L)
+		}
+	}
+	if math.Abs(e[0]-b.Energy) > 1e-7 || !(e[1] > e[0]+1e-6) {
+		t.Errorf("optimise %.10f, BestGPEState %.10f, fixed %.10f", e[0], b.Energy, e[1])
+	}
+}
+
+// BenchmarkGPEMapFixedBox is BenchmarkGPEMap with StripeBox fixed (the
+// stripe in one box of the variational period), one worker.
+//
+// Measured on the shared 2-core machine (load ≈ 13, so wide ranges; runs
+// paired one after the other), points/s with one worker: the single box of
+// earlier versions 106–344, StripeBox optimise (BenchmarkGPEMap) 28–94
+// (≈ 3.5–4.5× the cost), fixed 126–223.
+func BenchmarkGPEMapFixedBox(b *testing.B) {
+	omegas := make([]float64, 64)
+	for i := range omegas {
+		omegas[i] = 0.25 + 4.5*float64(i)/63
+	}
+	sw := Sweep{X: Axis{Name: "omega", Unit: "E_R", Values: omegas}, Observables: GPEObservables}
+	f := GPEPoints(func(ix, iy int) (Uniform, error) { return Symmetric(omegas[ix], 1, 0.1), nil }, GPESettings{StripeBox: StripeBoxFixed})
+	if _, err := Run(context.Background(), sw, f, &gpeSink{}, &RunSettings{Workers: 1}); err != nil {
+		b.Fatal(err)
+	}
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		if _, err := Run(context.Background(), sw, f, &gpeSink{}, &RunSettings{Workers: 1}); err != nil {
+			b.Fatal(err)
+		}
+	}
+	b.ReportMetric(float64(len(omegas))*float64(b.N)/b.Elapsed().Seconds(), "points/s")
+}

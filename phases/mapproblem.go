@@ -58,6 +58,16 @@ type MapProblem struct {
 	//     HoldHz). Needs a scheme with an atom.
 	// Not with the delta or rf-detuning axes, which set δ themselves.
 	HoldDelta HoldMode
+	// Excitations adds ExcitationObservables (roton gap, sound velocities of
+	// the uniform phases, from UniformPointExcitations) after the method's
+	// observables. Default false (the map's datasets are those of the
+	// method). Not with Trap.
+	Excitations bool
+	// GPEEdge, when non-nil, asks for the GPE-corrected upper stripe edge of
+	// a one-axis map along omega (MapProblem.StripeEdgeGPE, the settings of
+	// GPEStripeEdge; zero fields its defaults). It does not change the
+	// points; the command stores the edge beside them. Default nil.
+	GPEEdge *GPEEdgeSettings
 	// Trap: nil for uniform gases; otherwise a trapped-cloud GPE map
 	// (MethodGPE only): every point is the ground state of Lab.Atoms atoms
 	// in this trap (trapPoints, through Ground), with interactions from the
@@ -82,22 +92,31 @@ func (p *MapProblem) method() Method {
 }
 
 // Sweep returns the map's axes and the method's observables, followed by
-// LabObservables when the lab's scheme has an atom (HasLabUnits).
+// ExcitationObservables (with Excitations) and LabObservables when the
+// lab's scheme has an atom (HasLabUnits).
 func (p *MapProblem) Sweep() Sweep {
 	if p.method() == MethodSpin1 {
 		return Sweep{X: p.X, Y: p.Y, Observables: Spin1Observables}
 	}
-	obs := VariationalObservables
-	if p.method() == MethodGPE {
-		obs = GPEObservables
-		if p.Trap != nil {
-			obs = TrapObservables
-		}
+	obs := p.methodObservables()
+	if p.Excitations {
+		obs = append(append([]Observable(nil), obs...), ExcitationObservables...)
 	}
 	if p.HasLabUnits() {
 		obs = append(append([]Observable(nil), obs...), LabObservables...)
 	}
 	return Sweep{X: p.X, Y: p.Y, Observables: obs}
+}
+
+// methodObservables are the observables of the method alone.
+func (p *MapProblem) methodObservables() []Observable {
+	if p.method() == MethodGPE {
+		if p.Trap != nil {
+			return TrapObservables
+		}
+		return GPEObservables
+	}
+	return VariationalObservables
 }
 
 // LabObservables are stored beside the method's observables in maps whose
@@ -170,8 +189,22 @@ func (p *MapProblem) Check() error {
 			}
 		}
 	}
+	if sb := p.GPE.StripeBox; sb != "" && sb != StripeBoxOptimise && sb != StripeBoxFixed {
+		return fmt.Errorf("stripe-box %q: allowed: optimise, fixed", sb)
+	}
+	if !(p.GPE.StripeKTol >= 0) {
+		return fmt.Errorf("stripe momentum tolerance %g: must be ≥ 0 (0: the default %g k_R)", p.GPE.StripeKTol, DefaultStripeKTol)
+	}
 	if d := p.GPE.Dims; d != 0 && d != 1 && d != 2 || d == 2 && p.method() != MethodGPE {
 		return fmt.Errorf("dims %d: allowed 1, or 2 with the gpe method", d)
+	}
+	if p.GPEEdge != nil {
+		if err := p.checkGPEEdge(); err != nil {
+			return err
+		}
+	}
+	if p.Excitations && p.Trap != nil {
+		return errors.New("excitations: the map observables roton_gap and sound velocities are of uniform gases, not of a trapped cloud")
 	}
 	for _, a := range []Axis{p.X, p.Y} {
 		if a.Len() > 0 && a.Name == AxisAtoms && p.Trap == nil {
@@ -238,7 +271,8 @@ func (p *MapProblem) Uniform(ix, iy int) (Uniform, error) {
 }
 
 // Points returns the point function of the method (VariationalPoints or
-// GPEPoints over Uniform).
+// GPEPoints over Uniform), with the ExcitationObservables appended when
+// Excitations is set.
 //
 // With lab units (HasLabUnits) each point's model is resolved once and
 // LabObservables follow the method's values.
@@ -250,21 +284,37 @@ func (p *MapProblem) Points() PointFunc {
 		return p.trapPoints()
 	}
 	var solve func(context.Context, Uniform) (PointResult, error)
-	nObs := len(VariationalObservables)
 	if p.method() == MethodGPE {
 		s := p.GPE
 		if s.Variational == nil {
 			s.Variational = p.Variational
 		}
-		if !p.HasLabUnits() {
-			return GPEPoints(p.Uniform, s)
-		}
-		solve, nObs = gpeSolve(s), len(GPEObservables)
+		solve = gpeSolve(s)
 	} else {
-		if !p.HasLabUnits() {
-			return VariationalPoints(p.Uniform, p.Variational)
-		}
 		solve = variationalSolve(p.Variational)
+	}
+	nObs := len(p.methodObservables())
+	if p.Excitations {
+		method, vs := solve, p.Variational
+		if p.method() == MethodGPE && p.GPE.Variational != nil {
+			vs = p.GPE.Variational
+		}
+		solve = func(ctx context.Context, u Uniform) (PointResult, error) {
+			r, err := method(ctx, u)
+			if err != nil {
+				return r, err
+			}
+			ev, err := excitationValues(u, r.Phase, vs)
+			if err != nil {
+				return PointResult{}, fmt.Errorf("excitations at %+v: %w", u, err)
+			}
+			r.Values = append(r.Values, ev...)
+			return r, nil
+		}
+		nObs += len(ExcitationObservables)
+	}
+	if !p.HasLabUnits() {
+		return uniformPoints(p.Uniform, nObs, solve)
 	}
 	return func(ctx context.Context, ix, iy int) (PointResult, error) {
 		if err := ctx.Err(); err != nil {
@@ -299,8 +349,8 @@ func (p *MapProblem) Run(ctx context.Context, sink PointSink, s *RunSettings) (R
 // Identity returns the settings that determine the map's values, by value
 // (see Identity): the lab's settings without those an axis replaces at
 // every point, the axes (x, y as "name=lo:hi:n" in the stored unit), the
-// method's settings (GPE: points, length-kr, starts, tol; 0 means the
-// default rule) and the classifier thresholds.
+// method's settings (GPE: points, length-kr, starts, tol, stripe-box; 0
+// means the default rule) and the classifier thresholds.
 func (p *MapProblem) Identity() Identity {
 	skip := map[string]bool{}
 	for _, a := range []Axis{p.X, p.Y} {
@@ -336,10 +386,18 @@ func (p *MapProblem) Identity() Identity {
 		if p.Trap != nil {
 			f := p.Trap.FreqHz
 			add("trap", fmt.Sprintf("%s,%s,%s Hz", num(f[0]), num(f[1]), num(f[2])))
+		} else if p.GPE.Length == 0 {
+			add("stripe-box", string(p.GPE.stripeBox()))
 		}
 	}
 	if p.method() == MethodSpin1 {
 		id = append(id, p.spin1Identity()...)
+	}
+	if p.Excitations {
+		add("excitations", "true")
+	}
+	if p.GPEEdge != nil {
+		add("gpe-edge", "true")
 	}
 	th := thresholds(p.Variational)
 	add("threshold-single-minimum-k", num(th.SingleMinimumK))
@@ -380,7 +438,8 @@ func axisText(a Axis) string {
 	return s
 }
 
-// Boundary is a curve over a map in the axes' stored units.
+// Boundary is a curve over a map in the axes' stored units. On a one-axis
+// map a boundary is a point of the axis: X holds its one value, Y is nil.
 type Boundary struct {
 	Name string
 	X, Y []float64
@@ -390,7 +449,9 @@ type Boundary struct {
 // symmetric case (g↑↑ = g↓↓, δ = 0; symmetric.go) when one axis is omega
 // and the other G2: the upper stripe edge Ω_c(G1, G2) for G2 > 0 and the
 // plane-wave ↔ single-minimum line Ω = 4(1 − G2) up to the tricritical
-// G2*. Nil when they do not apply.
+// G2*. On a one-axis map along omega the same two as points of the axis
+// (Y nil; Ω_c for G2 > 0, 4(1 − G2) for G2 ≤ G2*). Nil when they do not
+// apply.
 func (p *MapProblem) ClosedFormBoundaries() []Boundary {
 	l := p.Lab
 	u, _, err := l.Resolve()
@@ -400,6 +461,23 @@ func (p *MapProblem) ClosedFormBoundaries() []Boundary {
 	g1, _, _ := u.Couplings()
 	var other Axis
 	var omegaIsX bool
+	if l.G1Set {
+		g1 = l.G1
+	}
+	if p.X.Name == AxisCoupling && p.Y.Len() == 0 {
+		_, g2, _ := u.Couplings()
+		if l.G2Set {
+			g2 = l.G2
+		}
+		var out []Boundary
+		if g2 > 0 {
+			out = append(out, Boundary{Name: "stripe edge (closed form)", X: []float64{UpperStripeOmega(g1, g2)}})
+		}
+		if g2 <= TricriticalG2(g1) {
+			out = append(out, Boundary{Name: "Ω = 4(1 − G2) (closed form)", X: []float64{PlaneWaveSingleMinimumOmega(g2)}})
+		}
+		return out
+	}
 	switch {
 	case p.X.Name == AxisCoupling && p.Y.Name == AxisG2:
 		other, omegaIsX = p.Y, true
@@ -407,9 +485,6 @@ func (p *MapProblem) ClosedFormBoundaries() []Boundary {
 		other = p.X
 	default:
 		return nil
-	}
-	if l.G1Set {
-		g1 = l.G1
 	}
 	lo, hi := other.Values[0], other.Values[len(other.Values)-1]
 	up := Boundary{Name: "stripe edge (closed form)"}

@@ -52,8 +52,10 @@ type mapOpts struct {
 	gpePoints, gpeStarts int
 	gpeLength, gpeTol    *quantity
 	// --levels (spin1.go)
-	lf    levelFlags
-	check *output.Spin1PointReport
+	lf                   levelFlags
+	check                *output.Spin1PointReport
+	stripeBox            string
+	excitations, gpeEdge bool
 }
 
 // addFlags registers the map flags.
@@ -71,6 +73,9 @@ func (o *mapOpts) addFlags(fs *pflag.FlagSet) {
 	o.tf.add(fs)
 	fs.IntVar(&o.gpeStarts, "starts", 0, "gpe: random starts per point besides the variational optimum and the competing phase")
 	o.gpeTol = qflag(fs, "tol", KindNumber, "1e-8", "gpe: residual to converge to, in E_R")
+	fs.StringVar(&o.stripeBox, "stripe-box", "optimise", "gpe: boxes of the stripe branch: optimise (the stripe period optimised per point, 2.5–6× the cost of fixed) or fixed (one box of the variational stripe period; the GPE stripe edge comes out early)")
+	fs.BoolVar(&o.excitations, "excitations", false, "also store the Bogoliubov observables of the uniform phases: roton_gap [E_R], roton_q [k_R], sound_velocity_x, sound_velocity_minus_x [ħk_R/m], bdg_unstable (NaN at stripe points; for --method gpe where the GPE state is uniform)")
+	fs.BoolVar(&o.gpeEdge, "gpe-edge", false, "variational one-axis map along omega: also compute the GPE-corrected upper stripe edge (bisection of GPE ground states over branches and boxes, ≈ 1–3 s) and state it in the table, JSON, HDF5 (/map attribute gpe_stripe_edge_omega_over_ER) and figure")
 	fs.IntVar(&o.workers, "workers", 0, "parallel workers (0 = all cores, or SLURM_CPUS_PER_TASK inside a Slurm job)")
 	fs.StringSliceVar(&o.outs, "out", nil, "write FILE.h5 (map), FILE.png, .svg or .pdf (phase diagram), FILE.json (repeatable)")
 	fs.StringSliceVar(&o.observables, "png-observable", nil, "also write one figure per observable NAME beside each figure --out (map.png → map-NAME.png): sequential colours (diverging for a signed one), colour bar with units, NaN cells grey; e.g. contrast,period")
@@ -99,7 +104,10 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 	default:
 		return nil, usagef("--hold-delta %q: allowed: balance, compensate", o.holdDelta)
 	}
-	p := &phases.MapProblem{Method: phases.Method(o.method), HoldDelta: phases.HoldMode(o.holdDelta)}
+	p := &phases.MapProblem{Method: phases.Method(o.method), HoldDelta: phases.HoldMode(o.holdDelta), Excitations: o.excitations}
+	if o.gpeEdge {
+		p.GPEEdge = &phases.GPEEdgeSettings{}
+	}
 	if p.Method == phases.MethodGPE {
 		if o.gpePoints != 0 && (o.gpePoints < 16 || o.gpePoints > 8192) {
 			return nil, usagef("--points %d: allowed 16 … 8192", o.gpePoints)
@@ -116,8 +124,11 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 		if o.gpeDims != 1 && o.gpeDims != 2 {
 			return nil, usagef("--dims %d: allowed 1, 2", o.gpeDims)
 		}
+		if sb := phases.StripeBox(o.stripeBox); sb != phases.StripeBoxOptimise && sb != phases.StripeBoxFixed {
+			return nil, usagef("--stripe-box %q: allowed: optimise, fixed", o.stripeBox)
+		}
 		p.GPE = phases.GPESettings{Points: o.gpePoints, Length: o.gpeLength.v, RandomStarts: o.gpeStarts,
-			Solver: gpe.Settings{Tol: o.gpeTol.v}, Dims: o.gpeDims}
+			Solver: gpe.Settings{Tol: o.gpeTol.v}, Dims: o.gpeDims, StripeBox: phases.StripeBox(o.stripeBox)}
 	} else if o.gpeDims != 1 {
 		return nil, usagef("--dims %d: a grid dimension is for --method gpe", o.gpeDims)
 	}
@@ -146,6 +157,12 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 		}
 	} else if err := o.inf.apply(&p.Lab, &o.mf.shake.atomFlags); err != nil {
 		return nil, err
+	}
+	if o.gpeEdge && (p.Method != phases.MethodVariational || p.X.Name != phases.AxisCoupling || p.Y.Len() > 0) {
+		return nil, usagef("--gpe-edge: for a one-axis map along %s with --method variational (a GPE map shows the GPE edge in its points)", phases.AxisCoupling)
+	}
+	if o.excitations && p.Trap != nil {
+		return nil, usagef("--excitations: the Bogoliubov observables are of uniform gases, not of a trapped cloud (--trap, --atoms)")
 	}
 	// The chain is validated at the corners before the run.
 	if err := p.Check(); err != nil {
@@ -314,6 +331,9 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 	if err != nil {
 		return err
 	}
+	if o.gpeEdge && (o.sbatch || o.shard != "") {
+		return usagef("--gpe-edge: not with --shard or --sbatch (run the variational map in one job: the edge is stored with the whole map)")
+	}
 	if o.sbatch {
 		return o.printSbatch(cmd, p, h5out, others)
 	}
@@ -343,6 +363,13 @@ func (o *mapOpts) run(cmd *cobra.Command) error {
 		return err
 	}
 	spec := output.NewMapSpec(p, shard, shards)
+	if p.GPEEdge != nil {
+		e, err := p.StripeEdgeGPE()
+		if err != nil {
+			return fmt.Errorf("--gpe-edge: %w", err)
+		}
+		output.SetGPEEdge(&spec, e)
+	}
 	workers := o.workers
 	if v, err := strconv.Atoi(os.Getenv("SLURM_CPUS_PER_TASK")); workers == 0 && err == nil && v > 0 {
 		workers = v // inside a Slurm job: the CPUs it was given
