@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
+	"runtime"
 
 	"socmap/gpe/fft"
 )
@@ -108,6 +109,11 @@ type RTSettings struct {
 	EMax float64
 	// Backend: FFT backend. Default fft.Default.
 	Backend fft.Backend
+	// Threads: goroutines for the passes of a step (Stepper.SetWorkers:
+	// local passes split over the grid, the two components transformed at
+	// once). Default 0: 2 on grids of at least ParallelMin points when
+	// GOMAXPROCS ≥ 2, else 1; negative: 1. The result does not depend on it.
+	Threads int
 }
 
 // RealTime is a real-time spinor GPE evolution on a grid: the state, its
@@ -171,6 +177,17 @@ func NewRealTime(init *State, s RTSettings) (*RealTime, error) {
 	if err != nil {
 		return nil, err
 	}
+	th := s.Threads
+	if th == 0 {
+		th = 1
+		if g.Size >= ParallelMin && runtime.GOMAXPROCS(0) >= 2 {
+			th = 2
+		}
+	}
+	if err := st.SetWorkers(th); err != nil {
+		st.Close()
+		return nil, err
+	}
 	copy(st.Psi[0], init.Psi[0])
 	copy(st.Psi[1], init.Psi[1])
 	r := &RealTime{Grid: g, Dt: dt, EMax: s.EMax, st: st, inner: g.Size / g.N[0],
@@ -179,8 +196,11 @@ func NewRealTime(init *State, s RTSettings) (*RealTime, error) {
 	return r, nil
 }
 
-// Close releases the FFT plan.
+// Close releases the FFT plans and the goroutines of the step.
 func (r *RealTime) Close() { r.st.Close() }
+
+// Workers is the number of goroutines a step runs on (RTSettings.Threads).
+func (r *RealTime) Workers() int { return r.st.Workers() }
 
 // Psi returns the two components (position space; the stepper's buffers,
 // valid until the next Evolve).
