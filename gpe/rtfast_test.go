@@ -139,9 +139,11 @@ func TestRTWorkersSameResult(t *testing.T) {
 	}
 }
 
-// The local pass with its written-out phase polynomial equals, point by
-// point, ψ + (F − 1)ψ with F − 1 from cisMinus1 (and within 1e-15 the
-// two-sine form), on phases inside and beyond the polynomial's range.
+// The local pass with its written-out polynomial and rotations equals,
+// point by point, rotPure · (ψ + (F − 1)ψ with F − 1 from cisMinus1) ·
+// rotPure, and within 1e-15 the plain complex form (two-sine phase, full
+// complex SU(2) products), on phases inside and beyond the polynomial's
+// range.
 func TestLocalMatchesCisMinus1(t *testing.T) {
 	g := MustGrid([]int{512}, []float64{40})
 	st, err := NewStepper(g.Shape(), fft.Default, fft.Options{})
@@ -158,23 +160,32 @@ func TestLocalMatchesCisMinus1(t *testing.T) {
 	up0 := append([]complex128(nil), st.Psi[0]...)
 	dn0 := append([]complex128(nil), st.Psi[1]...)
 	d := DiagonalPhase{Tau: 0.05, V: v, Guu: 3, Gdd: 2.5, Gud: 2}
-	st.Local(Identity2, &d, Identity2)
+	b, a := CouplingSU2(1.2, 0.3, 0.01), CouplingSU2(1.2, 0.3, 0.02)
+	st.Local(b, &d, a)
 	inRange, out := 0, 0
+	bm, am := b.am1(), a.am1()
 	for j := range up0 {
-		nu, nd := abs2(up0[j]), abs2(dn0[j])
+		u, w := rotPure(up0[j], dn0[j], real(bm), imag(bm), imag(b.B))
+		// plain complex form
+		pu, pw := up0[j]+(bm*up0[j]-cmplx.Conj(b.B)*dn0[j]), dn0[j]+(b.B*up0[j]+cmplx.Conj(bm)*dn0[j])
+		nu, nd := abs2(u), abs2(w)
 		xu, xd := d.Tau*(v[j]+d.Guu*nu+d.Gud*nd), d.Tau*(v[j]+d.Gdd*nd+d.Gud*nu)
 		if math.Abs(xu) <= 2*cisMaxHalf && math.Abs(xd) <= 2*cisMaxHalf {
 			inRange++
 		} else {
 			out++
 		}
-		wu, wd := up0[j]+up0[j]*cisMinus1(xu), dn0[j]+dn0[j]*cisMinus1(xd)
-		if st.Psi[0][j] != wu || st.Psi[1][j] != wd {
-			t.Fatalf("point %d: (%v, %v), want (%v, %v)", j, st.Psi[0][j], st.Psi[1][j], wu, wd)
+		u, w = u+u*cisMinus1(xu), w+w*cisMinus1(xd)
+		u, w = rotPure(u, w, real(am), imag(am), imag(a.B))
+		if st.Psi[0][j] != u || st.Psi[1][j] != w {
+			t.Fatalf("point %d: (%v, %v), want (%v, %v)", j, st.Psi[0][j], st.Psi[1][j], u, w)
 		}
-		ou, od := up0[j]+up0[j]*phaseMinus1(xu), dn0[j]+dn0[j]*phaseMinus1(xd)
-		if cmplx.Abs(wu-ou) > 1e-15 || cmplx.Abs(wd-od) > 1e-15 {
-			t.Errorf("point %d: differs from the two-sine form by %.2e, %.2e", j, cmplx.Abs(wu-ou), cmplx.Abs(wd-od))
+		nu, nd = abs2(pu), abs2(pw)
+		xu, xd = d.Tau*(v[j]+d.Guu*nu+d.Gud*nd), d.Tau*(v[j]+d.Gdd*nd+d.Gud*nu)
+		pu, pw = pu+pu*phaseMinus1(xu), pw+pw*phaseMinus1(xd)
+		pu, pw = pu+(am*pu-cmplx.Conj(a.B)*pw), pw+(a.B*pu+cmplx.Conj(am)*pw)
+		if cmplx.Abs(u-pu) > 1e-15 || cmplx.Abs(w-pw) > 1e-15 {
+			t.Errorf("point %d: differs from the plain complex form by %.2e, %.2e", j, cmplx.Abs(u-pu), cmplx.Abs(w-pw))
 		}
 	}
 	if inRange == 0 || out == 0 {

@@ -9,6 +9,7 @@ import (
 
 	"socmap/dispersion"
 	"socmap/gpe"
+	"socmap/gpe/fft"
 )
 
 // A lab sequence in real time: ramps of lab settings, holds and a release,
@@ -102,12 +103,38 @@ func ParseStart(s string) (StartKind, error) {
 	return 0, badInputf("start %q: allowed ground, up, down (or a GPE result file)", s)
 }
 
-// BraggProbe is a weak light probe at the Bragg angle of the 2k₁ grating.
+// BraggProbe are the two Bragg probes of the detection: light scattered
+// off the density grating (Saturation, Duration) and atoms diffracted by a
+// two-photon Bragg pulse at 2k₁ (Rabi, PulseDuration, Frequency, Phases).
 type BraggProbe struct {
-	// Saturation s of the resonant probe and its Duration (s): photons
-	// scattered per atom n = (Γ/2)·s/(1 + s)·τ (two-level atom, common
-	// practice, no source). Default 0.1 and 10 µs.
+	// Saturation s of the resonant light probe and its Duration (s):
+	// photons scattered per atom n = (Γ/2)·s/(1 + s)·τ (two-level atom,
+	// common practice, no source). Default 0.1 and 10 µs.
 	Saturation, Duration float64
+	// Rabi: two-photon Rabi frequency Ω_B/2π of the atomic Bragg pulse, Hz
+	// (the moving lattice ħΩ_B cos(2k₁x − ω_B t + φ), spin independent;
+	// ħΩ_B/E_R for a direct model). Default 100 Hz (0.01 E_R direct); < 0:
+	// no atomic Bragg pulse.
+	Rabi float64
+	// PulseDuration: its length, s (ħ/E_R direct). Default 0.5 ms (20 ħ/E_R
+	// direct).
+	PulseDuration float64
+	// Frequency: ω_B/2π of the lattice, Hz (E_R/ħ direct). Default (NaN or
+	// unset with FrequencySet false): the resonance of the exchange
+	// −k₁ → +k₁ between the stripe's two momentum components,
+	// ħω_B = E₋(k₁) − E₋(−k₁) of the lower band at the final settings (0 at
+	// δ = 0).
+	Frequency    float64
+	FrequencySet bool
+	// Phases: lattice phases φ, evenly over [0, π), over which the
+	// diffracted fraction of the final state is averaged (the stripe's
+	// position is not fixed from shot to shot; through second order in
+	// Ω_Bτ the fraction has period π in φ: the first-order exchange
+	// between ±k₁ changes sign, the second order does not depend on φ).
+	// Default 4 (the plane-wave cloud takes the same phases: the
+	// harmonics an interacting state carries, e.g. at 3k₁, make even its
+	// fraction depend on φ).
+	Phases int
 }
 
 // SequenceProblem is a lab sequence: the set-up of a ground-state problem
@@ -195,12 +222,29 @@ type Detection struct {
 	// Bragg: BraggFraction of the stripe and of the envelope (plane-wave
 	// reference); Enhancement N·fraction; PhotonsPerAtom of the probe.
 	BraggFraction, BraggPlaneWave, BraggEnhancement, PhotonsPerAtom float64
+	// Atomic Bragg diffraction (gpe.BraggTransfer; NaN when not run):
+	// the diffracted fraction of the final state, its mean and largest
+	// value over the lattice phases, and the mean for the plane-wave cloud
+	// of the same envelope (the final state's momentum components on the
+	// side of its largest peak, renormalised); the pulse used (SI: Hz,
+	// s; direct: E_R/ħ, ħ/E_R).
+	AtomBraggStripe, AtomBraggStripeMax, AtomBraggPlaneWave float64
+	AtomBraggRabi, AtomBraggDuration, AtomBraggFrequency    float64
 	// TOF: mechanical momentum distribution per component (1/m or k_ref)
 	// after Stern–Gerlach separation, and the TOF duration (0: none).
 	TOFQ, TOFW [2][]float64
 	TOF        float64
-	// TOFX: positions ħq t/m of the momentum classes after the TOF (m).
+	// TOFX: positions ħq t/m of the momentum classes after the TOF (m):
+	// the far field.
 	TOFX [2][]float64
+	// The finite time of flight (gpe.FreeFlight, exact free propagation of
+	// the released state, after the interacting part if any): positions
+	// (m) and the density along x per component (atoms per m), its rms
+	// width (m) and the method used.
+	FlightX       []float64
+	FlightDensity [2][]float64
+	FlightWidth   [2]float64
+	FlightMethod  string
 }
 
 // Verdicts of the detection report.
@@ -871,6 +915,9 @@ func (p *SequenceProblem) detect(ctx context.Context, rt *gpe.RealTime, h gpe.RT
 		d.Verdict = VerdictUnresolvable
 	}
 	d.BraggFraction, d.BraggPlaneWave = gpe.BraggFraction(d.X, d.Profile, k1)
+	if err := p.atomBragg(ctx, rt, h, res, d); err != nil {
+		return nil, err
+	}
 	N := 0.0
 	for _, v := range d.Profile {
 		N += v
@@ -898,6 +945,10 @@ func (p *SequenceProblem) detect(ctx context.Context, rt *gpe.RealTime, h gpe.RT
 			tof = last.DurationER
 		}
 		d.TOF = tof
+		flyT := tof // internal units
+		if res.Units != nil {
+			flyT = tof / res.Units.TimeSI(1)
+		}
 		if last.Interacting {
 			// Interacting expansion in the box while it stays well inside.
 			free := h
@@ -917,6 +968,31 @@ func (p *SequenceProblem) detect(ctx context.Context, rt *gpe.RealTime, h gpe.RT
 			}
 			res.Notes = append(res.Notes, fmt.Sprintf("time of flight: interacting in the box for %.3g of %.3g, then ballistic", done/tin*tof, tof))
 			st = rt.State()
+			flyT = math.Max(0, tin-done)
+		}
+		method := gpe.FlightAuto
+		if p.Ground.Trap == nil {
+			method = gpe.FlightPeriodic
+		}
+		fl, err := gpe.FreeFlight(st, h.Kappa, flyT, method)
+		if err != nil {
+			return nil, err
+		}
+		d.FlightMethod = fl.Method.String()
+		d.FlightX = make([]float64, len(fl.X))
+		for i, x := range fl.X {
+			d.FlightX[i] = x * lx
+		}
+		for c := 0; c < 2; c++ {
+			d.FlightDensity[c] = make([]float64, len(fl.X))
+			for i, v := range fl.Density[c] {
+				d.FlightDensity[c][i] = v / lx
+			}
+			_, _, w := fl.Moments(c)
+			d.FlightWidth[c] = w * lx
+		}
+		if method == gpe.FlightPeriodic {
+			res.Notes = append(res.Notes, "time of flight from a periodic box: the free expansion of an infinitely extended gas (the density along x in the same box)")
 		}
 		Q, W, err := gpe.TOFMomentum(st, h.Kappa)
 		if err != nil {
@@ -936,6 +1012,129 @@ func (p *SequenceProblem) detect(ctx context.Context, rt *gpe.RealTime, h gpe.RT
 		}
 	}
 	return d, nil
+}
+
+// atomBragg simulates the two-photon Bragg pulse at 2k₁ on the final state
+// and on the plane-wave cloud of the same envelope (BraggProbe), under the
+// final Hamiltonian h (trap, coupling and interactions on: in situ).
+func (p *SequenceProblem) atomBragg(ctx context.Context, rt *gpe.RealTime, h gpe.RTHamiltonian, res *SequenceResult, d *Detection) error {
+	d.AtomBraggStripe, d.AtomBraggStripeMax, d.AtomBraggPlaneWave = math.NaN(), math.NaN(), math.NaN()
+	d.AtomBraggRabi, d.AtomBraggDuration, d.AtomBraggFrequency = math.NaN(), math.NaN(), math.NaN()
+	b := p.Bragg
+	if b.Rabi < 0 || d.K1 == 0 {
+		return nil
+	}
+	if ctx != nil && ctx.Err() != nil {
+		return nil
+	}
+	// SI ↔ internal: frequencies in E_ref/ħ, times in ħ/E_ref.
+	toRate, toTime := 1.0, 1.0 // internal per (Hz·2π | E_R/ħ), per (s | ħ/E_R)
+	if res.Units != nil {
+		toTime = 1 / res.Units.TimeSI(1)
+		toRate = 2 * math.Pi * res.Units.TimeSI(1)
+	}
+	if b.Rabi == 0 {
+		b.Rabi = 0.01
+		if res.Units != nil {
+			b.Rabi = 100
+		}
+	}
+	if b.PulseDuration == 0 {
+		b.PulseDuration = 20
+		if res.Units != nil {
+			b.PulseDuration = 0.5e-3
+		}
+	}
+	if b.Phases == 0 {
+		b.Phases = 4
+	}
+	if b.Phases < 1 || !(b.PulseDuration > 0) || math.IsInf(b.PulseDuration, 0) || math.IsInf(b.Rabi, 0) {
+		return badInputf("Bragg pulse: Rabi frequency %g, duration %g, phases %d: need a finite Rabi frequency, a duration > 0 and ≥ 1 phase", b.Rabi, b.PulseDuration, b.Phases)
+	}
+	k1 := d.K1
+	omega := b.Frequency * toRate
+	if !b.FrequencySet || math.IsNaN(b.Frequency) {
+		// E₋(k) = k² + κ² − √((δ/2 − 2κk)² + Ω²/4): the lower band of
+		// (k − κσz)² + (Ω/2)σx + (δ/2)σz (closed-form 2×2 eigenvalue).
+		lower := func(k float64) float64 {
+			return k*k + h.Kappa*h.Kappa - math.Hypot(h.Delta/2-2*h.Kappa*k, h.Omega/2)
+		}
+		omega = lower(k1) - lower(-k1)
+	}
+	pulse := gpe.BraggPulse{Q: 2 * k1, Rabi: b.Rabi * toRate, Frequency: omega, Duration: b.PulseDuration * toTime}
+	phis := make([]float64, b.Phases)
+	for j := range phis {
+		phis[j] = math.Pi * float64(j) / float64(b.Phases)
+	}
+	st := rt.State()
+	set := gpe.RTSettings{EMax: rt.EMax}
+	ds, err := gpe.BraggTransfer(st, h, pulse, phis, set)
+	if err != nil {
+		return err
+	}
+	pw, err := planeWaveOf(st)
+	if err != nil {
+		return err
+	}
+	dp, err := gpe.BraggTransfer(pw, h, pulse, phis, set)
+	if err != nil {
+		return err
+	}
+	mean := func(v []float64) float64 {
+		t := 0.0
+		for _, x := range v {
+			t += x
+		}
+		return t / float64(len(v))
+	}
+	d.AtomBraggStripe, d.AtomBraggPlaneWave = mean(ds), mean(dp)
+	d.AtomBraggStripeMax = 0
+	for _, v := range ds {
+		d.AtomBraggStripeMax = math.Max(d.AtomBraggStripeMax, v)
+	}
+	d.AtomBraggRabi, d.AtomBraggDuration, d.AtomBraggFrequency = b.Rabi, b.PulseDuration, omega/toRate
+	return nil
+}
+
+// planeWaveOf returns the plane-wave cloud of the same envelope as st: its
+// momentum components with k_x on the side (sign) of its largest peak,
+// renormalised to the same atom number (a stripe's one wave; a plane wave
+// itself).
+func planeWaveOf(st *gpe.State) (*gpe.State, error) {
+	g := st.Grid
+	tr, err := fft.New(g.Shape(), fft.Default, fft.Options{})
+	if err != nil {
+		return nil, err
+	}
+	defer tr.Close()
+	out := gpe.NewState(g)
+	inner := g.Size / g.N[0]
+	best, side := -1.0, 1.0
+	for c := 0; c < 2; c++ {
+		copy(out.Psi[c], st.Psi[c])
+		tr.Forward(out.Psi[c])
+		for i, v := range out.Psi[c] {
+			if a := abs2c(v); a > best {
+				best, side = a, math.Copysign(1, g.K[0][i/inner])
+			}
+		}
+	}
+	nu, nd := st.Norms()
+	norm := nu + nd
+	inv := complex(1/float64(g.Size), 0)
+	for c := 0; c < 2; c++ {
+		for i := range out.Psi[c] {
+			if g.K[0][i/inner]*side <= 0 {
+				out.Psi[c][i] = 0
+			}
+			out.Psi[c][i] *= inv
+		}
+		tr.Backward(out.Psi[c])
+	}
+	if err := out.Normalize(norm); err != nil {
+		return nil, err
+	}
+	return out, nil
 }
 
 // ScanPoint is one ramp duration of an adiabaticity scan.
