@@ -1,6 +1,7 @@
 package gpe
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -29,12 +30,26 @@ type BraggPulse struct {
 	Frequency float64 // beam frequency difference ω_B (E_ref/ħ)
 	Duration  float64 // pulse length (ħ/E_ref); rectangular
 	Phase     float64 // lattice phase φ at the start of the pulse (rad)
+	// Order, OrderWidth (k_ref): the momentum order whose population
+	// change BraggTransfer also reports, the canonical k_x within
+	// OrderWidth of Order (OrderWidth 0: none).
+	Order, OrderWidth float64
+}
+
+// BraggResult is the outcome of one pulse.
+type BraggResult struct {
+	// Moved: the fraction of the atoms whose momentum the lattice changed,
+	// ½ Σ_{σ,k} |P_σ(k) − P⁰_σ(k)| (see BraggTransfer).
+	Moved float64
+	// Order: the change of the population of the order BraggPulse.Order
+	// (signed, fraction of the atoms; 0 without an order).
+	Order float64
 }
 
 // BraggTransfer applies the pulse p to st (under h, the Hamiltonian held
 // during the pulse) for each lattice phase in phases (p.Phase ignored) and
-// returns the diffracted fraction of each: the fraction of the atoms whose
-// momentum the lattice changed,
+// returns for each the diffracted fraction — the fraction of the atoms
+// whose momentum the lattice changed,
 //
 //	D = ½ Σ_{σ,k} |P_σ(k) − P⁰_σ(k)|,
 //
@@ -44,9 +59,11 @@ type BraggPulse struct {
 // counted). D is the total-variation distance of the two distributions; for
 // a weak resonant pulse on a single plane wave it is the population of the
 // diffracted order, (Ω_B τ/2)²·|⟨χ(p + Q)|χ(p)⟩|² (first-order perturbation
-// theory, textbook), χ the spinors. s: settings of the evolution (EMax is
-// raised to that of h with the lattice when smaller).
-func BraggTransfer(st *State, h RTHamiltonian, p BraggPulse, phases []float64, s RTSettings) ([]float64, error) {
+// theory, textbook), χ the spinors — and the population change of the
+// order p.Order. s: settings of the evolution (EMax is raised to that of h
+// with the lattice when smaller). ctx (may be nil) interrupts it (the
+// error is then ctx.Err()).
+func BraggTransfer(ctx context.Context, st *State, h RTHamiltonian, p BraggPulse, phases []float64, s RTSettings) ([]BraggResult, error) {
 	if st == nil || st.Grid == nil {
 		return nil, errors.New("gpe: Bragg pulse: no state")
 	}
@@ -91,7 +108,7 @@ func BraggTransfer(st *State, h RTHamiltonian, p BraggPulse, phases []float64, s
 			return nil, err
 		}
 		defer r.Close()
-		if _, err := r.Evolve(nil, p.Duration, sched); err != nil {
+		if _, err := r.Evolve(ctx, p.Duration, sched); err != nil {
 			return nil, err
 		}
 		return r.State(), nil
@@ -103,7 +120,8 @@ func BraggTransfer(st *State, h RTHamiltonian, p BraggPulse, phases []float64, s
 	p0 := [2][]float64{make([]float64, g.Size), make([]float64, g.Size)}
 	p1 := [2][]float64{make([]float64, g.Size), make([]float64, g.Size)}
 	dist(ref, p0)
-	out := make([]float64, len(phases))
+	out := make([]BraggResult, len(phases))
+	inner := g.Size / g.N[0]
 	for j, phi := range phases {
 		phi := phi
 		x, err := evolve(func(t float64) RTHamiltonian {
@@ -115,13 +133,16 @@ func BraggTransfer(st *State, h RTHamiltonian, p BraggPulse, phases []float64, s
 			return nil, err
 		}
 		dist(x, p1)
-		d := 0.0
+		d, o := 0.0, 0.0
 		for c := 0; c < 2; c++ {
 			for i := range p1[c] {
 				d += math.Abs(p1[c][i] - p0[c][i])
+				if p.OrderWidth > 0 && math.Abs(g.K[0][i/inner]-p.Order) < p.OrderWidth {
+					o += p1[c][i] - p0[c][i]
+				}
 			}
 		}
-		out[j] = d / 2
+		out[j] = BraggResult{Moved: d / 2, Order: o}
 	}
 	return out, nil
 }

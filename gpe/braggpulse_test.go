@@ -24,18 +24,19 @@ func TestBraggTransferRabi(t *testing.T) {
 	res := (k0+q)*(k0+q) - k0*k0
 	for _, c := range []struct{ det, tau float64 }{{0, math.Pi / om}, {0, math.Pi / (2 * om)}, {0.1, 20}, {-0.3, 7}} {
 		p := BraggPulse{Q: q, Rabi: om, Frequency: res + c.det, Duration: c.tau}
-		d, err := BraggTransfer(st, h, p, []float64{0, 1.3}, RTSettings{EMax: RTMaxEnergy(g, h, 1)})
+		d, err := BraggTransfer(nil, st, h, p, []float64{0, 1.3}, RTSettings{EMax: RTMaxEnergy(g, h, 1)})
 		if err != nil {
 			t.Fatal(err)
 		}
 		w := math.Hypot(om, c.det)
 		want := om * om / (w * w) * math.Pow(math.Sin(w*c.tau/2), 2)
-		for j, v := range d {
+		for j, r := range d {
+			v := r.Moved
 			if math.Abs(v-want) > 2e-3 {
 				t.Errorf("Δ = %g, τ = %.4g, phase %d: diffracted %.5f, want %.5f (Rabi formula)", c.det, c.tau, j, v, want)
 			}
 		}
-		t.Logf("Δ = %g, τ = %.4g: diffracted %.5f, Rabi formula %.5f", c.det, c.tau, d[0], want)
+		t.Logf("Δ = %g, τ = %.4g: diffracted %.5f, Rabi formula %.5f", c.det, c.tau, d[0].Moved, want)
 	}
 }
 
@@ -77,34 +78,40 @@ func TestBraggTransferStripeVsPlaneWave(t *testing.T) {
 	}
 	h := RTHamiltonian{Omega: om, Kappa: 1}
 	ob, tau := 0.002, 20.0 // long and weak: off-resonant orders (detuned ≳ 2 E_R) stay below 1 %
-	p := BraggPulse{Q: 2 * k1, Rabi: ob, Frequency: 0, Duration: tau}
+	// the order −k₁ (the stripe's second wave, the plane wave's empty one)
+	p := BraggPulse{Q: 2 * k1, Rabi: ob, Frequency: 0, Duration: tau, Order: -k1, OrderWidth: k1}
 	phases := make([]float64, 16)
 	for j := range phases {
 		phases[j] = 2 * math.Pi * float64(j) / 16
 	}
 	set := RTSettings{EMax: RTMaxEnergy(g, h, 1)}
-	ds, err := BraggTransfer(mk(1/math.Sqrt2, 1/math.Sqrt2), h, p, phases, set)
+	ds, err := BraggTransfer(nil, mk(1/math.Sqrt2, 1/math.Sqrt2), h, p, phases, set)
 	if err != nil {
 		t.Fatal(err)
 	}
-	dp, err := BraggTransfer(mk(1, 0), h, p, phases, set)
+	dp, err := BraggTransfer(nil, mk(1, 0), h, p, phases, set)
 	if err != nil {
 		t.Fatal(err)
 	}
 	mx, mean := 0.0, 0.0
-	for j, v := range ds {
+	for j, r := range ds {
+		v := r.Moved
 		mx = math.Max(mx, v)
 		mean += v / 16
 		// |sin(φ + β)| with β = 0 for this stripe
 		if w := ob * tau * math.Abs(s) / 2 * math.Abs(math.Sin(phases[j])); math.Abs(v-w) > 0.02*ob*tau*math.Abs(s)/2 {
 			t.Errorf("stripe, φ = %.3f: diffracted %.3e, first order %.3e", phases[j], v, w)
 		}
-	}
-	wantPW := math.Pow(math.Sin(ob*tau*s/2), 2)
-	for _, v := range dp {
-		if math.Abs(v-wantPW) > 0.02*wantPW {
-			t.Errorf("plane wave: diffracted %.3e, want sin²(Ω_Bτs/2) = %.3e", v, wantPW)
+		// signed: the −k₁ order gains Ω_Bτ s a b sin φ (s > 0 here)
+		if w := -ob * tau * s / 2 * math.Sin(phases[j]); math.Abs(r.Order-w) > 0.02*ob*tau*math.Abs(s)/2 {
+			t.Errorf("stripe, φ = %.3f: order −k₁ changed by %.3e, first order %.3e", phases[j], r.Order, w)
 		}
 	}
-	t.Logf("s = %.4f (contrast %.4f): stripe max %.3e (first order %.3e), mean over φ %.3e; plane wave %.3e", s, math.Abs(s), mx, ob*tau*math.Abs(s)/2, mean, dp[0])
+	wantPW := math.Pow(math.Sin(ob*tau*s/2), 2)
+	for _, r := range dp {
+		if math.Abs(r.Moved-wantPW) > 0.02*wantPW || math.Abs(r.Order-wantPW) > 0.02*wantPW {
+			t.Errorf("plane wave: diffracted %.3e, into −k₁ %.3e, want sin²(Ω_Bτs/2) = %.3e", r.Moved, r.Order, wantPW)
+		}
+	}
+	t.Logf("s = %.4f (contrast %.4f): stripe max %.3e (first order %.3e), mean over φ %.3e; plane wave %.3e", s, math.Abs(s), mx, ob*tau*math.Abs(s)/2, mean, dp[0].Moved)
 }

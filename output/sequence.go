@@ -68,8 +68,9 @@ func (r *SequenceResult) Table() *Table {
 			if r.Units == nil {
 				ru, tu, rs, ts = "E_R/ħ", "ħ/E_R", 1, 1
 			}
-			t.RowNote("Bragg atoms diffracted (mean over φ)", N(d.AtomBraggStripe, 3), "", fmt.Sprintf("largest %s; plane-wave cloud %s (pulse Ω_B = %s %s, τ = %s %s, ω_B = %s %s)",
+			t.RowNote("Bragg atoms: |ΔP| of the other order", N(d.AtomBraggStripe, 3), "", fmt.Sprintf("mean over the lattice phase, largest %s; plane-wave cloud %s (pulse Ω_B/2π = %s %s, τ = %s %s, ω_B/2π = %s %s)",
 				N(d.AtomBraggStripeMax, 3), N(d.AtomBraggPlaneWave, 3), N(d.AtomBraggRabi*rs, 3), ru, N(d.AtomBraggDuration*ts, 3), tu, N(d.AtomBraggFrequency*rs, 3), ru))
+			t.RowNote("Bragg atoms: momentum changed at all", N(d.AtomBraggMoved, 3), "", "plane-wave cloud "+N(d.AtomBraggMovedPlaneWave, 3))
 		}
 		if d.TOF > 0 {
 			t.Row("time of flight", N(d.TOF*r.tofScale(), 4), r.tofUnit())
@@ -144,6 +145,8 @@ func (r *SequenceResult) JSON() map[string]any {
 		doc["bragg_atoms_fraction"] = n(d.AtomBraggStripe)
 		doc["bragg_atoms_fraction_max"] = n(d.AtomBraggStripeMax)
 		doc["bragg_atoms_fraction_plane_wave"] = n(d.AtomBraggPlaneWave)
+		doc["bragg_atoms_moved"] = n(d.AtomBraggMoved)
+		doc["bragg_atoms_moved_plane_wave"] = n(d.AtomBraggMovedPlaneWave)
 		if r.Units != nil {
 			doc["bragg_atoms_rabi_hz"] = n(d.AtomBraggRabi)
 			doc["bragg_atoms_duration_s"] = n(d.AtomBraggDuration)
@@ -222,9 +225,11 @@ func (r *SequenceResult) WriteH5(w *Writer) {
 			if r.Units == nil {
 				ru, tu2 = "E_R", "ħ/E_R"
 			}
-			w.Scalar("/detection/bragg_atoms_fraction", d.AtomBraggStripe, "dimensionless", "atoms diffracted by the two-photon Bragg pulse at 2k₁, mean over the lattice phases")
+			w.Scalar("/detection/bragg_atoms_fraction", d.AtomBraggStripe, "dimensionless", "two-photon Bragg pulse at 2k₁: |population change| of the order opposite the largest momentum peak, mean over the lattice phases")
 			w.Scalar("/detection/bragg_atoms_fraction_max", d.AtomBraggStripeMax, "dimensionless", "the same, largest over the lattice phases")
 			w.Scalar("/detection/bragg_atoms_fraction_plane_wave", d.AtomBraggPlaneWave, "dimensionless", "the same for the plane-wave cloud of the same envelope, mean over the phases")
+			w.Scalar("/detection/bragg_atoms_moved", d.AtomBraggMoved, "dimensionless", "fraction of the atoms whose momentum the pulse changed (total-variation distance), mean over the phases")
+			w.Scalar("/detection/bragg_atoms_moved_plane_wave", d.AtomBraggMovedPlaneWave, "dimensionless", "the same for the plane-wave cloud")
 			w.Scalar("/detection/bragg_atoms_rabi", d.AtomBraggRabi, ru, "two-photon Rabi frequency Ω_B/2π of the pulse (ħΩ_B/E_R direct)")
 			w.Scalar("/detection/bragg_atoms_duration", d.AtomBraggDuration, tu2, "pulse duration")
 			w.Scalar("/detection/bragg_atoms_frequency", d.AtomBraggFrequency, ru, "beam frequency difference ω_B/2π (ħω_B/E_R direct)")

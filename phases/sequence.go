@@ -113,11 +113,11 @@ type BraggProbe struct {
 	Saturation, Duration float64
 	// Rabi: two-photon Rabi frequency Ω_B/2π of the atomic Bragg pulse, Hz
 	// (the moving lattice ħΩ_B cos(2k₁x − ω_B t + φ), spin independent;
-	// ħΩ_B/E_R for a direct model). Default 100 Hz (0.01 E_R direct); < 0:
-	// no atomic Bragg pulse.
+	// ħΩ_B/E_R for a direct model). Default BraggDefaultRabi E_R/ħ (E_R at
+	// t = 0); < 0: no atomic Bragg pulse.
 	Rabi float64
-	// PulseDuration: its length, s (ħ/E_R direct). Default 0.5 ms (20 ħ/E_R
-	// direct).
+	// PulseDuration: its length, s (ħ/E_R direct). Default
+	// BraggDefaultDuration ħ/E_R.
 	PulseDuration float64
 	// Frequency: ω_B/2π of the lattice, Hz (E_R/ħ direct). Default (NaN or
 	// unset with FrequencySet false): the resonance of the exchange
@@ -136,6 +136,16 @@ type BraggProbe struct {
 	// fraction depend on φ).
 	Phases int
 }
+
+// Defaults of the atomic Bragg pulse in recoil units (a choice of this
+// project): Ω_B = 0.01 E_R/ħ (weak: the resonant transfer of a plane wave
+// is ~(Ω_Bτ/2)²) for τ = 20 ħ/E_R (spectral width 1/τ = 0.05 E_R/ħ, well
+// below the detuning ≈ 8k₁²E_R of the order +3k₁, so that the probe selects
+// the ±k₁ exchange).
+const (
+	BraggDefaultRabi     = 0.01
+	BraggDefaultDuration = 20.0
+)
 
 // SequenceProblem is a lab sequence: the set-up of a ground-state problem
 // (lab, dimension, trap or box, grid) and the steps.
@@ -222,13 +232,17 @@ type Detection struct {
 	// Bragg: BraggFraction of the stripe and of the envelope (plane-wave
 	// reference); Enhancement N·fraction; PhotonsPerAtom of the probe.
 	BraggFraction, BraggPlaneWave, BraggEnhancement, PhotonsPerAtom float64
-	// Atomic Bragg diffraction (gpe.BraggTransfer; NaN when not run):
-	// the diffracted fraction of the final state, its mean and largest
-	// value over the lattice phases, and the mean for the plane-wave cloud
-	// of the same envelope (the final state's momentum components on the
-	// side of its largest peak, renormalised); the pulse used (SI: Hz,
-	// s; direct: E_R/ħ, ħ/E_R).
+	// Atomic Bragg diffraction (gpe.BraggTransfer; NaN when not run): the
+	// population change |ΔP| of the order opposite the largest momentum
+	// peak k_p (canonical k_x within k₁ of k_p − 2k₁·sgn k_p: the stripe's
+	// second wave, a plane wave's empty order), as a fraction of the atoms,
+	// mean and largest over the lattice phases, and the mean for the
+	// plane-wave cloud of the same envelope (the final state's momentum
+	// components within k₁ of k_p, renormalised); the fractions of the
+	// atoms whose momentum changed at all (gpe.BraggResult.Moved, means);
+	// the pulse used (SI: Hz, s; direct: E_R/ħ, ħ/E_R).
 	AtomBraggStripe, AtomBraggStripeMax, AtomBraggPlaneWave float64
+	AtomBraggMoved, AtomBraggMovedPlaneWave                 float64
 	AtomBraggRabi, AtomBraggDuration, AtomBraggFrequency    float64
 	// TOF: mechanical momentum distribution per component (1/m or k_ref)
 	// after Stern–Gerlach separation, and the TOF duration (0: none).
@@ -1019,6 +1033,7 @@ func (p *SequenceProblem) detect(ctx context.Context, rt *gpe.RealTime, h gpe.RT
 // final Hamiltonian h (trap, coupling and interactions on: in situ).
 func (p *SequenceProblem) atomBragg(ctx context.Context, rt *gpe.RealTime, h gpe.RTHamiltonian, res *SequenceResult, d *Detection) error {
 	d.AtomBraggStripe, d.AtomBraggStripeMax, d.AtomBraggPlaneWave = math.NaN(), math.NaN(), math.NaN()
+	d.AtomBraggMoved, d.AtomBraggMovedPlaneWave = math.NaN(), math.NaN()
 	d.AtomBraggRabi, d.AtomBraggDuration, d.AtomBraggFrequency = math.NaN(), math.NaN(), math.NaN()
 	b := p.Bragg
 	if b.Rabi < 0 || d.K1 == 0 {
@@ -1033,17 +1048,15 @@ func (p *SequenceProblem) atomBragg(ctx context.Context, rt *gpe.RealTime, h gpe
 		toTime = 1 / res.Units.TimeSI(1)
 		toRate = 2 * math.Pi * res.Units.TimeSI(1)
 	}
+	// Defaults in E_ref: weak (Ω_B ≪ E_R/ħ) and long (1/τ ≪ E_R/ħ), so
+	// that the pulse resolves the resonances of the orders (the Bragg
+	// regime, not the short-pulse Kapitza–Dirac one, where every cloud
+	// diffracts alike).
 	if b.Rabi == 0 {
-		b.Rabi = 0.01
-		if res.Units != nil {
-			b.Rabi = 100
-		}
+		b.Rabi = BraggDefaultRabi / toRate
 	}
 	if b.PulseDuration == 0 {
-		b.PulseDuration = 20
-		if res.Units != nil {
-			b.PulseDuration = 0.5e-3
-		}
+		b.PulseDuration = BraggDefaultDuration / toTime
 	}
 	if b.Phases == 0 {
 		b.Phases = 4
@@ -1061,61 +1074,76 @@ func (p *SequenceProblem) atomBragg(ctx context.Context, rt *gpe.RealTime, h gpe
 		}
 		omega = lower(k1) - lower(-k1)
 	}
-	pulse := gpe.BraggPulse{Q: 2 * k1, Rabi: b.Rabi * toRate, Frequency: omega, Duration: b.PulseDuration * toTime}
+	st := rt.State()
+	pw, kp, err := planeWaveOf(st, k1)
+	if err != nil {
+		return err
+	}
+	// The other order: the stripe's second wave at ≈ −k_peak, the plane
+	// wave's empty one.
+	other := kp - math.Copysign(2*k1, kp)
+	pulse := gpe.BraggPulse{Q: 2 * k1, Rabi: b.Rabi * toRate, Frequency: omega, Duration: b.PulseDuration * toTime, Order: other, OrderWidth: k1}
 	phis := make([]float64, b.Phases)
 	for j := range phis {
 		phis[j] = math.Pi * float64(j) / float64(b.Phases)
 	}
-	st := rt.State()
 	set := gpe.RTSettings{EMax: rt.EMax}
-	ds, err := gpe.BraggTransfer(st, h, pulse, phis, set)
-	if err != nil {
-		return err
+	steps := int(math.Ceil(pulse.Duration / (gpe.RTStepPhase / rt.EMax)))
+	if rt.Grid.Size*steps*2*(b.Phases+1) > 1e9 {
+		res.Notes = append(res.Notes, fmt.Sprintf("atomic Bragg pulse: %d evolutions of ≈ %d steps on %d points (--bragg-rabi off skips it, --bragg-phases 1 shortens it)", 2*(b.Phases+1), steps, rt.Grid.Size))
 	}
-	pw, err := planeWaveOf(st)
-	if err != nil {
-		return err
-	}
-	dp, err := gpe.BraggTransfer(pw, h, pulse, phis, set)
-	if err != nil {
-		return err
-	}
-	mean := func(v []float64) float64 {
-		t := 0.0
-		for _, x := range v {
-			t += x
+	interrupted := func(err error) error {
+		if ctx != nil && ctx.Err() != nil && errors.Is(err, ctx.Err()) {
+			res.Status = SequenceInterrupted
+			res.Notes = append(res.Notes, "interrupted during the atomic Bragg pulse: its figures are not given")
+			return nil
 		}
-		return t / float64(len(v))
+		return err
 	}
-	d.AtomBraggStripe, d.AtomBraggPlaneWave = mean(ds), mean(dp)
-	d.AtomBraggStripeMax = 0
-	for _, v := range ds {
-		d.AtomBraggStripeMax = math.Max(d.AtomBraggStripeMax, v)
+	ds, err := gpe.BraggTransfer(ctx, st, h, pulse, phis, set)
+	if err != nil {
+		return interrupted(err)
 	}
+	dp, err := gpe.BraggTransfer(ctx, pw, h, pulse, phis, set)
+	if err != nil {
+		return interrupted(err)
+	}
+	var mo, mop, mx, mov, movp float64
+	for j := range ds {
+		mo += math.Abs(ds[j].Order) / float64(len(ds))
+		mop += math.Abs(dp[j].Order) / float64(len(dp))
+		mov += ds[j].Moved / float64(len(ds))
+		movp += dp[j].Moved / float64(len(dp))
+		mx = math.Max(mx, math.Abs(ds[j].Order))
+	}
+	d.AtomBraggStripe, d.AtomBraggStripeMax, d.AtomBraggPlaneWave = mo, mx, mop
+	d.AtomBraggMoved, d.AtomBraggMovedPlaneWave = mov, movp
 	d.AtomBraggRabi, d.AtomBraggDuration, d.AtomBraggFrequency = b.Rabi, b.PulseDuration, omega/toRate
 	return nil
 }
 
 // planeWaveOf returns the plane-wave cloud of the same envelope as st: its
-// momentum components with k_x on the side (sign) of its largest peak,
-// renormalised to the same atom number (a stripe's one wave; a plane wave
-// itself).
-func planeWaveOf(st *gpe.State) (*gpe.State, error) {
+// momentum components within k₁ of its largest peak (|k_x − k_peak| < k₁,
+// both spin components), renormalised to the same atom number — a
+// stripe's one wave without the other and without the harmonics at ±3k₁
+// (which beat with it at 2k₁: a density grating of their own); a plane
+// wave itself.
+func planeWaveOf(st *gpe.State, k1 float64) (*gpe.State, float64, error) {
 	g := st.Grid
 	tr, err := fft.New(g.Shape(), fft.Default, fft.Options{})
 	if err != nil {
-		return nil, err
+		return nil, 0, err
 	}
 	defer tr.Close()
 	out := gpe.NewState(g)
 	inner := g.Size / g.N[0]
-	best, side := -1.0, 1.0
+	best, kp := -1.0, 0.0
 	for c := 0; c < 2; c++ {
 		copy(out.Psi[c], st.Psi[c])
 		tr.Forward(out.Psi[c])
 		for i, v := range out.Psi[c] {
 			if a := abs2c(v); a > best {
-				best, side = a, math.Copysign(1, g.K[0][i/inner])
+				best, kp = a, g.K[0][i/inner]
 			}
 		}
 	}
@@ -1124,7 +1152,7 @@ func planeWaveOf(st *gpe.State) (*gpe.State, error) {
 	inv := complex(1/float64(g.Size), 0)
 	for c := 0; c < 2; c++ {
 		for i := range out.Psi[c] {
-			if g.K[0][i/inner]*side <= 0 {
+			if math.Abs(g.K[0][i/inner]-kp) >= k1 {
 				out.Psi[c][i] = 0
 			}
 			out.Psi[c][i] *= inv
@@ -1132,9 +1160,9 @@ func planeWaveOf(st *gpe.State) (*gpe.State, error) {
 		tr.Backward(out.Psi[c])
 	}
 	if err := out.Normalize(norm); err != nil {
-		return nil, err
+		return nil, 0, err
 	}
-	return out, nil
+	return out, kp, nil
 }
 
 // ScanPoint is one ramp duration of an adiabaticity scan.

@@ -113,8 +113,8 @@ func TestSequenceAtomBragg(t *testing.T) {
 	d := r.Detection
 	c := d.Image.ContrastInSitu
 	first := d.AtomBraggRabi * d.AtomBraggDuration * c / 2
-	t.Logf("contrast %.4f, Ω_Bτ = %.3g, ω_B = %.3g: stripe mean %.3e, max %.3e (first order %.3e); plane wave %.3e; light: stripe %.3e, envelope %.3e",
-		c, d.AtomBraggRabi*d.AtomBraggDuration, d.AtomBraggFrequency, d.AtomBraggStripe, d.AtomBraggStripeMax, first, d.AtomBraggPlaneWave, d.BraggFraction, d.BraggPlaneWave)
+	t.Logf("contrast %.4f, Ω_Bτ = %.3g, ω_B = %.3g: other order: stripe mean %.3e, max %.3e (first order %.3e), plane wave %.3e; moved at all: stripe %.3e, plane wave %.3e; light: stripe %.3e, envelope %.3e",
+		c, d.AtomBraggRabi*d.AtomBraggDuration, d.AtomBraggFrequency, d.AtomBraggStripe, d.AtomBraggStripeMax, first, d.AtomBraggPlaneWave, d.AtomBraggMoved, d.AtomBraggMovedPlaneWave, d.BraggFraction, d.BraggPlaneWave)
 	if math.Abs(d.AtomBraggStripeMax/first-1) > 0.25 {
 		t.Errorf("stripe: largest diffracted fraction %.3e, first order Ω_Bτ C/2 = %.3e", d.AtomBraggStripeMax, first)
 	}
