@@ -18,6 +18,7 @@ func stripeBoxSequence(rampER float64) SequenceProblem {
 			{Name: "ramp", DurationER: rampER, Ramps: []Ramp{{Setting: AxisCoupling, From: 0, To: 1}}, Shape: RampS},
 			{Name: "hold", DurationER: 2},
 		},
+		Bragg: BraggProbe{Rabi: -1}, // no atomic Bragg pulse (TestSequenceAtomBragg has one)
 	}
 }
 
@@ -106,6 +107,7 @@ func TestSequenceHoldEnergy(t *testing.T) {
 // fraction of the stripe is (C/2)² (gpe.BraggFraction).
 func TestSequenceAtomBragg(t *testing.T) {
 	p := stripeBoxSequence(40)
+	p.Bragg.Rabi = 0 // the default pulse
 	r, err := p.Run(context.Background(), &SequenceSettings{Samples: 5, Snapshots: 2, OverlapEvery: -1})
 	if err != nil {
 		t.Fatal(err)

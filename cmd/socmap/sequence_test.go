@@ -25,7 +25,7 @@ func TestSequencePlanSteps(t *testing.T) {
 		t.Errorf("unknown step key: exit %d, %q", code, errs)
 	}
 	// A short direct-model sequence from flags, JSON keys of the issue.
-	code, out, errs = runArgs(t, "sequence", "--omega-er", "0", "--G1", "1", "--G2", "0.1", "--ramp", "omega=0:1:2", "--hold", "0.5", "--samples", "5", "--snapshots", "2", "--json")
+	code, out, errs = runArgs(t, "sequence", "--omega-er", "0", "--G1", "1", "--G2", "0.1", "--ramp", "omega=0:1:2", "--hold", "0.5", "--tof", "3", "--samples", "5", "--snapshots", "2", "--json")
 	if code != 0 {
 		t.Fatalf("sequence: exit %d: %s", code, errs)
 	}
@@ -34,7 +34,7 @@ func TestSequencePlanSteps(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, k := range []string{"times_s", "overlap_ground", "energy_over_ER", "contrast_insitu", "contrast_imaged", "snr_2k1", "verdict", "bragg_fraction", "stripe_period_m",
-		"bragg_atoms_fraction", "bragg_atoms_fraction_plane_wave", "verdict_probe"} {
+		"bragg_atoms_fraction", "bragg_atoms_fraction_plane_wave", "verdict_probe", "tof_method", "tof_width_up_m"} {
 		if _, ok := doc[k]; !ok {
 			t.Errorf("JSON key %q missing", k)
 		}
