@@ -1,6 +1,7 @@
 package gpe
 
 import (
+	"context"
 	"math"
 	"math/cmplx"
 	"testing"
@@ -24,7 +25,7 @@ func TestBraggTransferRabi(t *testing.T) {
 	res := (k0+q)*(k0+q) - k0*k0
 	for _, c := range []struct{ det, tau float64 }{{0, math.Pi / om}, {0, math.Pi / (2 * om)}, {0.1, 20}, {-0.3, 7}} {
 		p := BraggPulse{Q: q, Rabi: om, Frequency: res + c.det, Duration: c.tau}
-		d, err := BraggTransfer(nil, st, h, p, []float64{0, 1.3}, RTSettings{EMax: RTMaxEnergy(g, h, 1)})
+		d, err := BraggTransfer(context.Background(), st, h, p, []float64{0, 1.3}, RTSettings{EMax: RTMaxEnergy(g, h, 1)})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -85,11 +86,11 @@ func TestBraggTransferStripeVsPlaneWave(t *testing.T) {
 		phases[j] = 2 * math.Pi * float64(j) / 16
 	}
 	set := RTSettings{EMax: RTMaxEnergy(g, h, 1)}
-	ds, err := BraggTransfer(nil, mk(1/math.Sqrt2, 1/math.Sqrt2), h, p, phases, set)
+	ds, err := BraggTransfer(context.Background(), mk(1/math.Sqrt2, 1/math.Sqrt2), h, p, phases, set)
 	if err != nil {
 		t.Fatal(err)
 	}
-	dp, err := BraggTransfer(nil, mk(1, 0), h, p, phases, set)
+	dp, err := BraggTransfer(context.Background(), mk(1, 0), h, p, phases, set)
 	if err != nil {
 		t.Fatal(err)
 	}

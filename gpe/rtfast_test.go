@@ -1,6 +1,7 @@
 package gpe
 
 import (
+	"context"
 	"math"
 	"math/big"
 	"math/cmplx"
@@ -112,10 +113,10 @@ func TestRTWorkersSameResult(t *testing.T) {
 		if r.Workers() != th {
 			t.Fatalf("Threads %d: %d workers", th, r.Workers())
 		}
-		if _, err := r.Evolve(nil, 40*r.Dt, sched); err != nil {
+		if _, err := r.Evolve(context.Background(), 40*r.Dt, sched); err != nil {
 			t.Fatal(err)
 		}
-		if _, err := r.Evolve(nil, 40*r.Dt, constH(h)); err != nil {
+		if _, err := r.Evolve(context.Background(), 40*r.Dt, constH(h)); err != nil {
 			t.Fatal(err)
 		}
 		held, ramped := constH(h), RTSchedule(sched)
@@ -123,7 +124,7 @@ func TestRTWorkersSameResult(t *testing.T) {
 			name string
 			s    RTSchedule
 		}{{"held", held}, {"ramped", ramped}} {
-			if a := testing.AllocsPerRun(3, func() { r.Evolve(nil, 5*r.Dt, c.s) }); a != 0 {
+			if a := testing.AllocsPerRun(3, func() { r.Evolve(context.Background(), 5*r.Dt, c.s) }); a != 0 {
 				t.Errorf("Threads %d, %s: %v allocations per Evolve of 5 steps, want 0", th, c.name, a)
 			}
 		}
