@@ -64,14 +64,36 @@ func (r LocalRotation) SetXY(j int, cosHalf, sinHalf float64, e complex128) {
 }
 
 // Stepper is the state and FFT plan of one real-time evolution. Use it from
-// one goroutine at a time; make one Stepper per goroutine.
+// one goroutine at a time; make one Stepper per goroutine. SetWorkers lets
+// one Stepper spread its own passes over goroutines.
 type Stepper struct {
 	// Psi holds ψ↑, ψ↓ in position space between calls (row-major on the
 	// shape given to NewStepper, buffers from fft.Aligned).
 	Psi [2][]complex128
 	tr  fft.Transform
+	tr2 fft.Transform // the transform of ψ↓ when the components run in parallel (else tr)
 	tmp []complex128
+
+	shape []int
+	b     fft.Backend
+	opt   fft.Options
+	pool  *pool // nil: serial
+	// arguments of the pass the pool runs
+	la    localArgs
+	kf    *KineticFactors
+	kz    [2]complex128
+	kbase []complex128
+	kshft *[2][]complex128
+	kin   int
 }
+
+// Pass codes of a Stepper's pool.
+const (
+	stOpLocal = iota // localRange over a chunk
+	stOpKin          // Kinetic of component w
+	stOpKinX         // KineticX of component w
+	stOpKinM1        // KineticMinus1 of component w
+)
 
 // NewStepper makes a stepper for arrays of the given shape (1 to 3 axes) with
 // its own FFT plan on the backend b (fft.Default: FFTW unless built with the
@@ -82,11 +104,89 @@ func NewStepper(shape []int, b fft.Backend, opt fft.Options) (*Stepper, error) {
 		return nil, fmt.Errorf("gpe: real-time stepper: %w", err)
 	}
 	n := tr.Len()
-	return &Stepper{Psi: [2][]complex128{fft.Aligned(n), fft.Aligned(n)}, tr: tr, tmp: fft.Aligned(n)}, nil
+	return &Stepper{Psi: [2][]complex128{fft.Aligned(n), fft.Aligned(n)}, tr: tr, tr2: tr, tmp: fft.Aligned(n),
+		shape: append([]int(nil), shape...), b: b, opt: opt}, nil
 }
 
-// Close releases the FFT plan.
-func (s *Stepper) Close() { s.tr.Close() }
+// SetWorkers spreads the stepper's passes over n goroutines (n ≤ 1:
+// serial, the default): local passes in n chunks of the grid, the two
+// components' transforms and kinetic factors on two goroutines at once
+// (each with its own transform). Every pass is pointwise or per component,
+// so the result is the same for any n, bit for bit. The goroutines live
+// until Close. Call it before stepping.
+func (s *Stepper) SetWorkers(n int) error {
+	if s.pool != nil {
+		s.pool.close()
+		s.pool = nil
+	}
+	if n <= 1 {
+		if s.tr2 != s.tr {
+			s.tr2.Close()
+		}
+		s.tr2 = s.tr
+		return nil
+	}
+	n = max(2, min(n, 8))
+	if s.tr2 == s.tr {
+		t, err := fft.New(s.shape, s.b, s.opt)
+		if err != nil {
+			return fmt.Errorf("gpe: real-time stepper: %w", err)
+		}
+		s.tr2 = t
+	}
+	s.pool = newPool(n, s.run)
+	return nil
+}
+
+// Workers is the number of goroutines of the passes (1: serial).
+func (s *Stepper) Workers() int {
+	if s.pool == nil {
+		return 1
+	}
+	return s.pool.nw
+}
+
+func (s *Stepper) run(j job) {
+	switch j.op {
+	case stOpLocal:
+		s.localRange(&s.la, j.lo, j.hi)
+	case stOpKin:
+		s.kineticC(j.w)
+	case stOpKinX:
+		s.kineticXC(j.w)
+	case stOpKinM1:
+		s.kineticMinus1C(j.w)
+	}
+}
+
+// pair runs a per-component pass for both components.
+func (s *Stepper) pair(op int) {
+	if s.pool != nil {
+		s.pool.pair(op)
+		return
+	}
+	s.run(job{op: op, w: 0})
+	s.run(job{op: op, w: 1})
+}
+
+func (s *Stepper) trFor(c int) fft.Transform {
+	if c == 1 {
+		return s.tr2
+	}
+	return s.tr
+}
+
+// Close releases the FFT plans and the stepper's goroutines.
+func (s *Stepper) Close() {
+	if s.pool != nil {
+		s.pool.close()
+		s.pool = nil
+	}
+	if s.tr2 != s.tr {
+		s.tr2.Close()
+	}
+	s.tr.Close()
+}
 
 // Len is the number of grid points.
 func (s *Stepper) Len() int { return len(s.tmp) }
@@ -95,16 +195,21 @@ func (s *Stepper) Len() int { return len(s.tmp) }
 // with z_σ a constant factor per component (e.g. the phase of a uniform
 // detuning over the step; 1 for none).
 func (s *Stepper) Kinetic(f *KineticFactors, z [2]complex128) {
-	for c := range s.Psi {
-		buf := s.Psi[c]
-		s.tr.Forward(buf)
-		k := f[c][:len(buf)]
-		zs := z[c]
-		for j := range buf {
-			buf[j] *= k[j] * zs
-		}
-		s.tr.Backward(buf)
+	s.kf, s.kz = f, z
+	s.pair(stOpKin)
+	s.kf = nil
+}
+
+func (s *Stepper) kineticC(c int) {
+	tr := s.trFor(c)
+	buf := s.Psi[c]
+	tr.Forward(buf)
+	k := s.kf[c][:len(buf)]
+	zs := s.kz[c]
+	for j := range buf {
+		buf[j] *= k[j] * zs
 	}
+	tr.Backward(buf)
 }
 
 // Rotate applies a local SU(2) factor at every point.

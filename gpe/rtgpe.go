@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
+	"runtime"
 
 	"socmap/gpe/fft"
 )
@@ -49,6 +50,11 @@ type RTHamiltonian struct {
 	TrapAngular [3]float64
 	// Couplings in E_ref·(1/k_ref)^d for ψ normalised to the atom number.
 	Guu, Gdd, Gud float64
+	// A spin-independent lattice along x, V_L = LatticeAmp·cos(LatticeQ·x
+	// + LatticePhase) (E_ref, k_ref, rad; 0: none): the moving lattice of a
+	// Bragg probe has LatticePhase = φ − ω_B t (BraggPulse). Its matrix
+	// element between plane waves p and p + Q is LatticeAmp/2.
+	LatticeAmp, LatticeQ, LatticePhase float64
 }
 
 // RTSchedule returns the Hamiltonian at time t (ħ/E_ref since the start of
@@ -95,7 +101,7 @@ func RTMaxEnergy(g *Grid, h RTHamiltonian, nPeak float64) float64 {
 		v += h.TrapAngular[a] * h.TrapAngular[a] * xm * xm / 4
 	}
 	mf := (math.Max(math.Abs(h.Guu), math.Abs(h.Gdd)) + math.Abs(h.Gud)) * nPeak
-	return kin + 0.5*math.Hypot(h.Omega, h.Delta) + v + mf
+	return kin + 0.5*math.Hypot(h.Omega, h.Delta) + v + mf + math.Abs(h.LatticeAmp)
 }
 
 // RTSettings configure RealTime. Zero fields take the documented defaults.
@@ -108,6 +114,11 @@ type RTSettings struct {
 	EMax float64
 	// Backend: FFT backend. Default fft.Default.
 	Backend fft.Backend
+	// Threads: goroutines for the passes of a step (Stepper.SetWorkers:
+	// local passes split over the grid, the two components transformed at
+	// once). Default 0: 2 on grids of at least ParallelMin points when
+	// GOMAXPROCS ≥ 2, else 1; negative: 1. The result does not depend on it.
+	Threads int
 }
 
 // RealTime is a real-time spinor GPE evolution on a grid: the state, its
@@ -143,6 +154,9 @@ type RealTime struct {
 	v      []float64
 	vTrap  [3]float64
 	vValid bool
+	// trap + lattice (vl), with cos Qx, sin Qx of the lattice wavenumber latQ.
+	vl, latC, latS []float64
+	latQ           float64
 }
 
 // NewRealTime starts an evolution of init (copied; normalisation kept) on
@@ -171,6 +185,17 @@ func NewRealTime(init *State, s RTSettings) (*RealTime, error) {
 	if err != nil {
 		return nil, err
 	}
+	th := s.Threads
+	if th == 0 {
+		th = 1
+		if g.Size >= ParallelMin && runtime.GOMAXPROCS(0) >= 2 {
+			th = 2
+		}
+	}
+	if err := st.SetWorkers(th); err != nil {
+		st.Close()
+		return nil, err
+	}
 	copy(st.Psi[0], init.Psi[0])
 	copy(st.Psi[1], init.Psi[1])
 	r := &RealTime{Grid: g, Dt: dt, EMax: s.EMax, st: st, inner: g.Size / g.N[0],
@@ -179,8 +204,11 @@ func NewRealTime(init *State, s RTSettings) (*RealTime, error) {
 	return r, nil
 }
 
-// Close releases the FFT plan.
+// Close releases the FFT plans and the goroutines of the step.
 func (r *RealTime) Close() { r.st.Close() }
+
+// Workers is the number of goroutines a step runs on (RTSettings.Threads).
+func (r *RealTime) Workers() int { return r.st.Workers() }
 
 // Psi returns the two components (position space; the stepper's buffers,
 // valid until the next Evolve).
@@ -241,8 +269,39 @@ func (r *RealTime) setShift(kappa, tau float64) {
 	r.shiftKap, r.shiftTau = kappa, tau
 }
 
-// potential returns the trap table for h (nil without a trap).
+// potential returns the potential table for h: the trap, plus the lattice
+// when h has one (nil: no potential).
 func (r *RealTime) potential(h *RTHamiltonian) []float64 {
+	v := r.trapTable(h)
+	if h.LatticeAmp == 0 {
+		return v
+	}
+	g := r.Grid
+	if r.vl == nil {
+		r.vl, r.latC, r.latS = make([]float64, g.Size), make([]float64, g.Size), make([]float64, g.Size)
+		r.latQ = math.NaN()
+	}
+	if h.LatticeQ != r.latQ {
+		for idx := range r.latC {
+			r.latS[idx], r.latC[idx] = math.Sincos(h.LatticeQ * g.X[0][idx/r.inner])
+		}
+		r.latQ = h.LatticeQ
+	}
+	// cos(Qx + φ) = cos Qx cos φ − sin Qx sin φ
+	sp, cp := math.Sincos(h.LatticePhase)
+	a, b := h.LatticeAmp*cp, h.LatticeAmp*sp
+	for idx := range r.vl {
+		w := a*r.latC[idx] - b*r.latS[idx]
+		if v != nil {
+			w += v[idx]
+		}
+		r.vl[idx] = w
+	}
+	return r.vl
+}
+
+// trapTable returns the trap table for h (nil without a trap).
+func (r *RealTime) trapTable(h *RTHamiltonian) []float64 {
 	g := r.Grid
 	any := false
 	for a := 0; a < g.Dim; a++ {

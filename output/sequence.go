@@ -58,13 +58,25 @@ func (r *SequenceResult) Table() *Table {
 		t.RowNote("contrast imaged", N(d.Image.ContrastImaged, 4), "", fmt.Sprintf("(PSF σ = %s %s, pixel %s %s in the object plane; transfer %s)", N(d.Image.PSFSig*sc, 3), unit, N(d.Image.PixelOb*sc, 3), unit, N(d.Image.Transfer, 3)))
 		t.Row("SNR of the 2k₁ peak", N(d.Image.SNR2K1, 3), "")
 		t.Row("verdict", d.Verdict, "")
-		t.RowNote("Bragg fraction |ñ(2k₁)/ñ(0)|²", N(d.BraggFraction, 3), "", "plane-wave cloud: "+N(d.BraggPlaneWave, 3))
+		t.RowNote("Bragg light |ñ(2k₁)/ñ(0)|²", N(d.BraggFraction, 3), "", "plane-wave cloud: "+N(d.BraggPlaneWave, 3)+" (the verdict's probe)")
 		t.Row("Bragg enhancement N·fraction", N(d.BraggEnhancement, 3), "")
 		if d.PhotonsPerAtom > 0 {
 			t.Row("probe photons scattered per atom", N(d.PhotonsPerAtom, 3), "")
 		}
+		if !math.IsNaN(d.AtomBraggStripe) {
+			ru, tu, rs, ts := "Hz", "ms", 1.0, 1e3
+			if r.Units == nil {
+				ru, tu, rs, ts = "E_R/ħ", "ħ/E_R", 1, 1
+			}
+			t.RowNote("Bragg atoms: |ΔP| of the other order", N(d.AtomBraggStripe, 3), "", fmt.Sprintf("mean over the lattice phase, largest %s; plane-wave cloud %s (pulse Ω_B/2π = %s %s, τ = %s %s, ω_B/2π = %s %s)",
+				N(d.AtomBraggStripeMax, 3), N(d.AtomBraggPlaneWave, 3), N(d.AtomBraggRabi*rs, 3), ru, N(d.AtomBraggDuration*ts, 3), tu, N(d.AtomBraggFrequency*rs, 3), ru))
+			t.RowNote("Bragg atoms: momentum changed at all", N(d.AtomBraggMoved, 3), "", "plane-wave cloud "+N(d.AtomBraggMovedPlaneWave, 3))
+		}
 		if d.TOF > 0 {
-			t.Row("time of flight", N(d.TOF*1e3, 4), "ms")
+			t.Row("time of flight", N(d.TOF*r.tofScale(), 4), r.tofUnit())
+			if d.FlightMethod != "" {
+				t.RowNote("cloud rms width after it (↑, ↓)", N(d.FlightWidth[0]*sc, 4)+", "+N(d.FlightWidth[1]*sc, 4), unit, "("+d.FlightMethod+")")
+			}
 		}
 	}
 	t.Text(fmt.Sprintf("verdict rule: visible in situ at SNR ≥ %g; needs Bragg when the in-situ contrast is ≥ %g but the SNR is lower; otherwise not resolvable", phases.SNRVisible, phases.MinStripeContrast))
@@ -72,6 +84,20 @@ func (r *SequenceResult) Table() *Table {
 		t.Text(n)
 	}
 	return t
+}
+
+func (r *SequenceResult) tofScale() float64 {
+	if r.Units != nil {
+		return 1e3
+	}
+	return 1
+}
+
+func (r *SequenceResult) tofUnit() string {
+	if r.Units != nil {
+		return "ms"
+	}
+	return "ħ/E_R"
 }
 
 func (r *SequenceResult) dtUnit() float64 {
@@ -116,6 +142,26 @@ func (r *SequenceResult) JSON() map[string]any {
 		doc["stripe_period_m"] = n(d.StripePeriod)
 		doc["k1_over_kR"] = n(d.K1)
 		doc["tof_s"] = n(d.TOF)
+		doc["bragg_atoms_fraction"] = n(d.AtomBraggStripe)
+		doc["bragg_atoms_fraction_max"] = n(d.AtomBraggStripeMax)
+		doc["bragg_atoms_fraction_plane_wave"] = n(d.AtomBraggPlaneWave)
+		doc["bragg_atoms_moved"] = n(d.AtomBraggMoved)
+		doc["bragg_atoms_moved_plane_wave"] = n(d.AtomBraggMovedPlaneWave)
+		if r.Units != nil {
+			doc["bragg_atoms_rabi_hz"] = n(d.AtomBraggRabi)
+			doc["bragg_atoms_duration_s"] = n(d.AtomBraggDuration)
+			doc["bragg_atoms_frequency_hz"] = n(d.AtomBraggFrequency)
+		} else {
+			doc["bragg_atoms_rabi_over_ER"] = n(d.AtomBraggRabi)
+			doc["bragg_atoms_duration_s"] = n(d.AtomBraggDuration)
+			doc["bragg_atoms_frequency_over_ER"] = n(d.AtomBraggFrequency)
+		}
+		doc["verdict_probe"] = "bragg light scattering"
+		if d.FlightMethod != "" {
+			doc["tof_method"] = d.FlightMethod
+			doc["tof_width_up_m"] = n(d.FlightWidth[0])
+			doc["tof_width_down_m"] = n(d.FlightWidth[1])
+		}
 	}
 	return doc
 }
@@ -174,6 +220,20 @@ func (r *SequenceResult) WriteH5(w *Writer) {
 		w.Scalar("/detection/bragg_fraction", d.BraggFraction, "dimensionless", "|ñ(2k₁)/ñ(0)|² of the stripe")
 		w.Scalar("/detection/bragg_fraction_plane_wave", d.BraggPlaneWave, "dimensionless", "the same for the envelope (plane-wave cloud)")
 		w.Scalar("/detection/stripe_period", d.StripePeriod, lu, "π/k₁")
+		if !math.IsNaN(d.AtomBraggStripe) {
+			ru, tu2 := "Hz", "s"
+			if r.Units == nil {
+				ru, tu2 = "E_R", "ħ/E_R"
+			}
+			w.Scalar("/detection/bragg_atoms_fraction", d.AtomBraggStripe, "dimensionless", "two-photon Bragg pulse at 2k₁: |population change| of the order opposite the largest momentum peak, mean over the lattice phases")
+			w.Scalar("/detection/bragg_atoms_fraction_max", d.AtomBraggStripeMax, "dimensionless", "the same, largest over the lattice phases")
+			w.Scalar("/detection/bragg_atoms_fraction_plane_wave", d.AtomBraggPlaneWave, "dimensionless", "the same for the plane-wave cloud of the same envelope, mean over the phases")
+			w.Scalar("/detection/bragg_atoms_moved", d.AtomBraggMoved, "dimensionless", "fraction of the atoms whose momentum the pulse changed (total-variation distance), mean over the phases")
+			w.Scalar("/detection/bragg_atoms_moved_plane_wave", d.AtomBraggMovedPlaneWave, "dimensionless", "the same for the plane-wave cloud")
+			w.Scalar("/detection/bragg_atoms_rabi", d.AtomBraggRabi, ru, "two-photon Rabi frequency Ω_B/2π of the pulse (ħΩ_B/E_R direct)")
+			w.Scalar("/detection/bragg_atoms_duration", d.AtomBraggDuration, tu2, "pulse duration")
+			w.Scalar("/detection/bragg_atoms_frequency", d.AtomBraggFrequency, ru, "beam frequency difference ω_B/2π (ħω_B/E_R direct)")
+		}
 		w.Attr("/detection", "verdict", d.Verdict)
 		if d.TOF > 0 {
 			for c, name := range []string{"up", "down"} {
@@ -182,6 +242,13 @@ func (r *SequenceResult) WriteH5(w *Writer) {
 				w.Array("/tof/x_"+name, d.TOFX[c], nil, lu, "position ħq t/m after the time of flight")
 			}
 			w.Scalar("/tof/duration", d.TOF, tu, "time of flight")
+			if d.FlightMethod != "" {
+				w.Array("/tof/flight_x", d.FlightX, nil, lu, "position along x after the finite time of flight (exact free propagation)")
+				for c, name := range []string{"up", "down"} {
+					w.Array("/tof/flight_density_"+name, d.FlightDensity[c], nil, "1/"+lu, "density along x of component "+name+" after the time of flight (integrated over the transverse axes)")
+				}
+				w.Attr("/tof", "flight_method", d.FlightMethod)
+			}
 		}
 	}
 }

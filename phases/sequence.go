@@ -9,6 +9,7 @@ import (
 
 	"socmap/dispersion"
 	"socmap/gpe"
+	"socmap/gpe/fft"
 )
 
 // A lab sequence in real time: ramps of lab settings, holds and a release,
@@ -102,13 +103,49 @@ func ParseStart(s string) (StartKind, error) {
 	return 0, badInputf("start %q: allowed ground, up, down (or a GPE result file)", s)
 }
 
-// BraggProbe is a weak light probe at the Bragg angle of the 2k₁ grating.
+// BraggProbe are the two Bragg probes of the detection: light scattered
+// off the density grating (Saturation, Duration) and atoms diffracted by a
+// two-photon Bragg pulse at 2k₁ (Rabi, PulseDuration, Frequency, Phases).
 type BraggProbe struct {
-	// Saturation s of the resonant probe and its Duration (s): photons
-	// scattered per atom n = (Γ/2)·s/(1 + s)·τ (two-level atom, common
-	// practice, no source). Default 0.1 and 10 µs.
+	// Saturation s of the resonant light probe and its Duration (s):
+	// photons scattered per atom n = (Γ/2)·s/(1 + s)·τ (two-level atom,
+	// common practice, no source). Default 0.1 and 10 µs.
 	Saturation, Duration float64
+	// Rabi: two-photon Rabi frequency Ω_B/2π of the atomic Bragg pulse, Hz
+	// (the moving lattice ħΩ_B cos(2k₁x − ω_B t + φ), spin independent;
+	// ħΩ_B/E_R for a direct model). Default BraggDefaultRabi E_R/ħ (E_R at
+	// t = 0); < 0: no atomic Bragg pulse.
+	Rabi float64
+	// PulseDuration: its length, s (ħ/E_R direct). Default
+	// BraggDefaultDuration ħ/E_R.
+	PulseDuration float64
+	// Frequency: ω_B/2π of the lattice, Hz (E_R/ħ direct). Default (NaN or
+	// unset with FrequencySet false): the resonance of the exchange
+	// −k₁ → +k₁ between the stripe's two momentum components,
+	// ħω_B = E₋(k₁) − E₋(−k₁) of the lower band at the final settings (0 at
+	// δ = 0).
+	Frequency    float64
+	FrequencySet bool
+	// Phases: lattice phases φ, evenly over [0, π), over which the
+	// diffracted fraction of the final state is averaged (the stripe's
+	// position is not fixed from shot to shot; through second order in
+	// Ω_Bτ the fraction has period π in φ: the first-order exchange
+	// between ±k₁ changes sign, the second order does not depend on φ).
+	// Default 4 (the plane-wave cloud takes the same phases: the
+	// harmonics an interacting state carries, e.g. at 3k₁, make even its
+	// fraction depend on φ).
+	Phases int
 }
+
+// Defaults of the atomic Bragg pulse in recoil units (a choice of this
+// project): Ω_B = 0.01 E_R/ħ (weak: the resonant transfer of a plane wave
+// is ~(Ω_Bτ/2)²) for τ = 20 ħ/E_R (spectral width 1/τ = 0.05 E_R/ħ, well
+// below the detuning ≈ 8k₁²E_R of the order +3k₁, so that the probe selects
+// the ±k₁ exchange).
+const (
+	BraggDefaultRabi     = 0.01
+	BraggDefaultDuration = 20.0
+)
 
 // SequenceProblem is a lab sequence: the set-up of a ground-state problem
 // (lab, dimension, trap or box, grid) and the steps.
@@ -195,12 +232,33 @@ type Detection struct {
 	// Bragg: BraggFraction of the stripe and of the envelope (plane-wave
 	// reference); Enhancement N·fraction; PhotonsPerAtom of the probe.
 	BraggFraction, BraggPlaneWave, BraggEnhancement, PhotonsPerAtom float64
+	// Atomic Bragg diffraction (gpe.BraggTransfer; NaN when not run): the
+	// population change |ΔP| of the order opposite the largest momentum
+	// peak k_p (canonical k_x within k₁ of k_p − 2k₁·sgn k_p: the stripe's
+	// second wave, a plane wave's empty order), as a fraction of the atoms,
+	// mean and largest over the lattice phases, and the mean for the
+	// plane-wave cloud of the same envelope (the final state's momentum
+	// components within k₁ of k_p, renormalised); the fractions of the
+	// atoms whose momentum changed at all (gpe.BraggResult.Moved, means);
+	// the pulse used (SI: Hz, s; direct: E_R/ħ, ħ/E_R).
+	AtomBraggStripe, AtomBraggStripeMax, AtomBraggPlaneWave float64
+	AtomBraggMoved, AtomBraggMovedPlaneWave                 float64
+	AtomBraggRabi, AtomBraggDuration, AtomBraggFrequency    float64
 	// TOF: mechanical momentum distribution per component (1/m or k_ref)
 	// after Stern–Gerlach separation, and the TOF duration (0: none).
 	TOFQ, TOFW [2][]float64
 	TOF        float64
-	// TOFX: positions ħq t/m of the momentum classes after the TOF (m).
+	// TOFX: positions ħq t/m of the momentum classes after the TOF (m):
+	// the far field.
 	TOFX [2][]float64
+	// The finite time of flight (gpe.FreeFlight, exact free propagation of
+	// the released state, after the interacting part if any): positions
+	// (m) and the density along x per component (atoms per m), its rms
+	// width (m) and the method used.
+	FlightX       []float64
+	FlightDensity [2][]float64
+	FlightWidth   [2]float64
+	FlightMethod  string
 }
 
 // Verdicts of the detection report.
@@ -871,6 +929,9 @@ func (p *SequenceProblem) detect(ctx context.Context, rt *gpe.RealTime, h gpe.RT
 		d.Verdict = VerdictUnresolvable
 	}
 	d.BraggFraction, d.BraggPlaneWave = gpe.BraggFraction(d.X, d.Profile, k1)
+	if err := p.atomBragg(ctx, rt, h, res, d); err != nil {
+		return nil, err
+	}
 	N := 0.0
 	for _, v := range d.Profile {
 		N += v
@@ -898,6 +959,10 @@ func (p *SequenceProblem) detect(ctx context.Context, rt *gpe.RealTime, h gpe.RT
 			tof = last.DurationER
 		}
 		d.TOF = tof
+		flyT := tof // internal units
+		if res.Units != nil {
+			flyT = tof / res.Units.TimeSI(1)
+		}
 		if last.Interacting {
 			// Interacting expansion in the box while it stays well inside.
 			free := h
@@ -917,6 +982,31 @@ func (p *SequenceProblem) detect(ctx context.Context, rt *gpe.RealTime, h gpe.RT
 			}
 			res.Notes = append(res.Notes, fmt.Sprintf("time of flight: interacting in the box for %.3g of %.3g, then ballistic", done/tin*tof, tof))
 			st = rt.State()
+			flyT = math.Max(0, tin-done)
+		}
+		method := gpe.FlightAuto
+		if p.Ground.Trap == nil {
+			method = gpe.FlightPeriodic
+		}
+		fl, err := gpe.FreeFlight(st, h.Kappa, flyT, method)
+		if err != nil {
+			return nil, err
+		}
+		d.FlightMethod = fl.Method.String()
+		d.FlightX = make([]float64, len(fl.X))
+		for i, x := range fl.X {
+			d.FlightX[i] = x * lx
+		}
+		for c := 0; c < 2; c++ {
+			d.FlightDensity[c] = make([]float64, len(fl.X))
+			for i, v := range fl.Density[c] {
+				d.FlightDensity[c][i] = v / lx
+			}
+			_, _, w := fl.Moments(c)
+			d.FlightWidth[c] = w * lx
+		}
+		if method == gpe.FlightPeriodic {
+			res.Notes = append(res.Notes, "time of flight from a periodic box: the free expansion of an infinitely extended gas (the density along x in the same box)")
 		}
 		Q, W, err := gpe.TOFMomentum(st, h.Kappa)
 		if err != nil {
@@ -938,6 +1028,143 @@ func (p *SequenceProblem) detect(ctx context.Context, rt *gpe.RealTime, h gpe.RT
 	return d, nil
 }
 
+// atomBragg simulates the two-photon Bragg pulse at 2k₁ on the final state
+// and on the plane-wave cloud of the same envelope (BraggProbe), under the
+// final Hamiltonian h (trap, coupling and interactions on: in situ).
+func (p *SequenceProblem) atomBragg(ctx context.Context, rt *gpe.RealTime, h gpe.RTHamiltonian, res *SequenceResult, d *Detection) error {
+	d.AtomBraggStripe, d.AtomBraggStripeMax, d.AtomBraggPlaneWave = math.NaN(), math.NaN(), math.NaN()
+	d.AtomBraggMoved, d.AtomBraggMovedPlaneWave = math.NaN(), math.NaN()
+	d.AtomBraggRabi, d.AtomBraggDuration, d.AtomBraggFrequency = math.NaN(), math.NaN(), math.NaN()
+	b := p.Bragg
+	if b.Rabi < 0 || d.K1 == 0 {
+		return nil
+	}
+	if ctx != nil && ctx.Err() != nil {
+		return nil
+	}
+	// SI ↔ internal: frequencies in E_ref/ħ, times in ħ/E_ref.
+	toRate, toTime := 1.0, 1.0 // internal per (Hz·2π | E_R/ħ), per (s | ħ/E_R)
+	if res.Units != nil {
+		toTime = 1 / res.Units.TimeSI(1)
+		toRate = 2 * math.Pi * res.Units.TimeSI(1)
+	}
+	// Defaults in E_ref: weak (Ω_B ≪ E_R/ħ) and long (1/τ ≪ E_R/ħ), so
+	// that the pulse resolves the resonances of the orders (the Bragg
+	// regime, not the short-pulse Kapitza–Dirac one, where every cloud
+	// diffracts alike).
+	if b.Rabi == 0 {
+		b.Rabi = BraggDefaultRabi / toRate
+	}
+	if b.PulseDuration == 0 {
+		b.PulseDuration = BraggDefaultDuration / toTime
+	}
+	if b.Phases == 0 {
+		b.Phases = 4
+	}
+	if b.Phases < 1 || !(b.PulseDuration > 0) || math.IsInf(b.PulseDuration, 0) || math.IsInf(b.Rabi, 0) {
+		return badInputf("Bragg pulse: Rabi frequency %g, duration %g, phases %d: need a finite Rabi frequency, a duration > 0 and ≥ 1 phase", b.Rabi, b.PulseDuration, b.Phases)
+	}
+	k1 := d.K1
+	omega := b.Frequency * toRate
+	if !b.FrequencySet || math.IsNaN(b.Frequency) {
+		// E₋(k) = k² + κ² − √((δ/2 − 2κk)² + Ω²/4): the lower band of
+		// (k − κσz)² + (Ω/2)σx + (δ/2)σz (closed-form 2×2 eigenvalue).
+		lower := func(k float64) float64 {
+			return k*k + h.Kappa*h.Kappa - math.Hypot(h.Delta/2-2*h.Kappa*k, h.Omega/2)
+		}
+		omega = lower(k1) - lower(-k1)
+	}
+	st := rt.State()
+	pw, kp, err := planeWaveOf(st, k1)
+	if err != nil {
+		return err
+	}
+	// The other order: the stripe's second wave at ≈ −k_peak, the plane
+	// wave's empty one.
+	other := kp - math.Copysign(2*k1, kp)
+	pulse := gpe.BraggPulse{Q: 2 * k1, Rabi: b.Rabi * toRate, Frequency: omega, Duration: b.PulseDuration * toTime, Order: other, OrderWidth: k1}
+	phis := make([]float64, b.Phases)
+	for j := range phis {
+		phis[j] = math.Pi * float64(j) / float64(b.Phases)
+	}
+	set := gpe.RTSettings{EMax: rt.EMax}
+	steps := int(math.Ceil(pulse.Duration / (gpe.RTStepPhase / rt.EMax)))
+	if rt.Grid.Size*steps*2*(b.Phases+1) > 1e9 {
+		res.Notes = append(res.Notes, fmt.Sprintf("atomic Bragg pulse: %d evolutions of ≈ %d steps on %d points (--bragg-rabi off skips it, --bragg-phases 1 shortens it)", 2*(b.Phases+1), steps, rt.Grid.Size))
+	}
+	interrupted := func(err error) error {
+		if ctx != nil && ctx.Err() != nil && errors.Is(err, ctx.Err()) {
+			res.Status = SequenceInterrupted
+			res.Notes = append(res.Notes, "interrupted during the atomic Bragg pulse: its figures are not given")
+			return nil
+		}
+		return err
+	}
+	ds, err := gpe.BraggTransfer(ctx, st, h, pulse, phis, set)
+	if err != nil {
+		return interrupted(err)
+	}
+	dp, err := gpe.BraggTransfer(ctx, pw, h, pulse, phis, set)
+	if err != nil {
+		return interrupted(err)
+	}
+	var mo, mop, mx, mov, movp float64
+	for j := range ds {
+		mo += math.Abs(ds[j].Order) / float64(len(ds))
+		mop += math.Abs(dp[j].Order) / float64(len(dp))
+		mov += ds[j].Moved / float64(len(ds))
+		movp += dp[j].Moved / float64(len(dp))
+		mx = math.Max(mx, math.Abs(ds[j].Order))
+	}
+	d.AtomBraggStripe, d.AtomBraggStripeMax, d.AtomBraggPlaneWave = mo, mx, mop
+	d.AtomBraggMoved, d.AtomBraggMovedPlaneWave = mov, movp
+	d.AtomBraggRabi, d.AtomBraggDuration, d.AtomBraggFrequency = b.Rabi, b.PulseDuration, omega/toRate
+	return nil
+}
+
+// planeWaveOf returns the plane-wave cloud of the same envelope as st: its
+// momentum components within k₁ of its largest peak (|k_x − k_peak| < k₁,
+// both spin components), renormalised to the same atom number — a
+// stripe's one wave without the other and without the harmonics at ±3k₁
+// (which beat with it at 2k₁: a density grating of their own); a plane
+// wave itself.
+func planeWaveOf(st *gpe.State, k1 float64) (*gpe.State, float64, error) {
+	g := st.Grid
+	tr, err := fft.New(g.Shape(), fft.Default, fft.Options{})
+	if err != nil {
+		return nil, 0, err
+	}
+	defer tr.Close()
+	out := gpe.NewState(g)
+	inner := g.Size / g.N[0]
+	best, kp := -1.0, 0.0
+	for c := 0; c < 2; c++ {
+		copy(out.Psi[c], st.Psi[c])
+		tr.Forward(out.Psi[c])
+		for i, v := range out.Psi[c] {
+			if a := abs2c(v); a > best {
+				best, kp = a, g.K[0][i/inner]
+			}
+		}
+	}
+	nu, nd := st.Norms()
+	norm := nu + nd
+	inv := complex(1/float64(g.Size), 0)
+	for c := 0; c < 2; c++ {
+		for i := range out.Psi[c] {
+			if math.Abs(g.K[0][i/inner]-kp) >= k1 {
+				out.Psi[c][i] = 0
+			}
+			out.Psi[c][i] *= inv
+		}
+		tr.Backward(out.Psi[c])
+	}
+	if err := out.Normalize(norm); err != nil {
+		return nil, 0, err
+	}
+	return out, kp, nil
+}
+
 // ScanPoint is one ramp duration of an adiabaticity scan.
 type ScanPoint struct {
 	Duration   float64 // s (ħ/E_R direct)
@@ -949,7 +1176,9 @@ type ScanPoint struct {
 // ScanRampDuration repeats the sequence with the duration of its first
 // ramping step set to each value of durations (s; ħ/E_R for a direct
 // model), and reports the final overlap with the ground state and the
-// excitation energy above it.
+// excitation energy above it. The detections of the scan leave out the
+// atomic Bragg pulse (its figures NaN; it would cost ten evolutions per
+// point): run the chosen duration alone for it.
 func (p SequenceProblem) ScanRampDuration(ctx context.Context, durations []float64, s *SequenceSettings) ([]ScanPoint, error) {
 	first := -1
 	for i, st := range p.Steps {
@@ -964,6 +1193,7 @@ func (p SequenceProblem) ScanRampDuration(ctx context.Context, durations []float
 	var out []ScanPoint
 	for _, d := range durations {
 		q := p
+		q.Bragg.Rabi = -1
 		q.Steps = append([]Step(nil), p.Steps...)
 		if q.Ground.Lab.Scheme != nil && q.Ground.Lab.Scheme.Atom() == nil {
 			q.Steps[first].DurationER = d

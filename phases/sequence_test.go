@@ -18,6 +18,7 @@ func stripeBoxSequence(rampER float64) SequenceProblem {
 			{Name: "ramp", DurationER: rampER, Ramps: []Ramp{{Setting: AxisCoupling, From: 0, To: 1}}, Shape: RampS},
 			{Name: "hold", DurationER: 2},
 		},
+		Bragg: BraggProbe{Rabi: -1}, // no atomic Bragg pulse (TestSequenceAtomBragg has one)
 	}
 }
 
@@ -90,5 +91,39 @@ func TestSequenceHoldEnergy(t *testing.T) {
 	}
 	if n := len(r.Times); n != 11 || math.Abs(r.Times[n-1]-20) > 1e-9 {
 		t.Errorf("times %v", r.Times)
+	}
+}
+
+// Atomic Bragg diffraction of the final state (a stripe after a slow ramp,
+// G1 = 1, G2 = 0.1) at the resonance of its ±k₁ exchange (ω_B = 0 at δ = 0)
+// against the plane-wave cloud of the same envelope. First-order
+// perturbation theory (derived in gpe.BraggTransfer's tests, textbook):
+// the stripe moves the fraction Ω_Bτ·(C/2)·|sin(φ + β)| between its two
+// momentum components (C its contrast, φ the lattice position), the plane
+// wave only (Ω_Bτ s/2)² into its empty order (s = ⟨χ₊|χ₋⟩ = C for a
+// balanced stripe), so the stripe's largest transfer is Ω_Bτ C/2 (within
+// 25 %: interactions and the second order shift it) and its mean over the
+// lattice phases is far above the plane wave's. The light-scattering
+// fraction of the stripe is (C/2)² (gpe.BraggFraction).
+func TestSequenceAtomBragg(t *testing.T) {
+	p := stripeBoxSequence(40)
+	p.Bragg.Rabi = 0 // the default pulse
+	r, err := p.Run(context.Background(), &SequenceSettings{Samples: 5, Snapshots: 2, OverlapEvery: -1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	d := r.Detection
+	c := d.Image.ContrastInSitu
+	first := d.AtomBraggRabi * d.AtomBraggDuration * c / 2
+	t.Logf("contrast %.4f, Ω_Bτ = %.3g, ω_B = %.3g: other order: stripe mean %.3e, max %.3e (first order %.3e), plane wave %.3e; moved at all: stripe %.3e, plane wave %.3e; light: stripe %.3e, envelope %.3e",
+		c, d.AtomBraggRabi*d.AtomBraggDuration, d.AtomBraggFrequency, d.AtomBraggStripe, d.AtomBraggStripeMax, first, d.AtomBraggPlaneWave, d.AtomBraggMoved, d.AtomBraggMovedPlaneWave, d.BraggFraction, d.BraggPlaneWave)
+	if math.Abs(d.AtomBraggStripeMax/first-1) > 0.25 {
+		t.Errorf("stripe: largest diffracted fraction %.3e, first order Ω_Bτ C/2 = %.3e", d.AtomBraggStripeMax, first)
+	}
+	if math.Abs(d.BraggFraction/(c*c/4)-1) > 0.05 {
+		t.Errorf("light: stripe fraction %.3e, (C/2)² = %.3e", d.BraggFraction, c*c/4)
+	}
+	if !(d.AtomBraggStripe > 10*d.AtomBraggPlaneWave) {
+		t.Errorf("stripe %.3e not clearly above the plane wave %.3e", d.AtomBraggStripe, d.AtomBraggPlaneWave)
 	}
 }

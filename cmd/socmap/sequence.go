@@ -28,6 +28,8 @@ type seqFlags struct {
 	samples, snapshots                        int
 	resolution, pixel, magnification, photons *quantity
 	braggSat, braggDur                        *quantity
+	braggRabi, braggPulse, braggFreq          string
+	braggPhases                               int
 	outs                                      []string
 }
 
@@ -84,6 +86,10 @@ plan file. --x "ramp=LO:HI:N" scans the first ramp's duration (adiabaticity).`,
 	f.photons = qflag(fs, "photons", KindNumber, "1000", "detected probe photons per pixel (absorption imaging)")
 	f.braggSat = qflag(fs, "bragg-saturation", KindNumber, "0.1", "saturation parameter of the Bragg light probe")
 	f.braggDur = qflag(fs, "bragg-duration", KindTime, "10 us", "duration of the Bragg light probe")
+	fs.StringVar(&f.braggRabi, "bragg-rabi", "", `two-photon Rabi frequency Ω_B/2π of the atomic Bragg pulse at 2k₁, e.g. "1 Hz" (direct model: ħΩ_B/E_R); "off": no pulse; default 0.01 E_R/h`)
+	fs.StringVar(&f.braggPulse, "bragg-pulse", "", `duration of the atomic Bragg pulse, e.g. "20 ms" (direct model: ħ/E_R); default 20 ħ/E_R`)
+	fs.StringVar(&f.braggFreq, "bragg-frequency", "", `frequency difference ω_B/2π of the Bragg beams, e.g. "0 Hz" (direct model: ħω_B/E_R); default: the resonance of the stripe's −k₁ → +k₁ exchange`)
+	fs.IntVar(&f.braggPhases, "bragg-phases", 4, "lattice phases over [0, π) the atomic Bragg fraction is averaged over")
 	fs.StringVar(&f.x, "x", "", `adiabaticity scan "ramp=LO:HI:N": the first ramp's duration from LO to HI`)
 	fs.StringSliceVar(&f.outs, "out", nil, "write FILE.h5 (series, snapshots, images), FILE.png, FILE.gif (density animation), FILE.json (repeatable)")
 	return c
@@ -111,6 +117,62 @@ func parseSeqDuration(flag, s string, direct bool) (float64, error) {
 		return 0, usagef("--%s %q: durations must be ≥ 0", flag, s)
 	}
 	return v, nil
+}
+
+// braggPulseFlags reads the light and atomic Bragg probe flags.
+func braggPulseFlags(f *seqFlags, direct bool) (phases.BraggProbe, error) {
+	b := phases.BraggProbe{Saturation: f.braggSat.v, Duration: f.braggDur.v, Phases: f.braggPhases}
+	if f.braggPhases < 1 || f.braggPhases > 64 {
+		return b, usagef("--bragg-phases %d: allowed 1 … 64", f.braggPhases)
+	}
+	// A rate: SI frequency with a unit, or a plain number in E_R/ħ for a
+	// direct model.
+	rate := func(flag, s string, signed bool) (float64, error) {
+		s = strings.TrimSpace(s)
+		var v float64
+		var err error
+		if direct {
+			v, err = strconv.ParseFloat(s, 64)
+		} else {
+			v, err = parseQuantity(s, KindFrequency)
+		}
+		if err != nil || math.IsInf(v, 0) || math.IsNaN(v) || (!signed && v <= 0) {
+			what := "a frequency with a unit, e.g. \"100 Hz\""
+			if direct {
+				what = "a plain number in E_R (direct model)"
+			}
+			if !signed {
+				what += ", > 0"
+			}
+			return 0, usagef("--%s %q: allowed %s", flag, s, what)
+		}
+		return v, nil
+	}
+	var err error
+	switch strings.TrimSpace(f.braggRabi) {
+	case "":
+	case "off":
+		b.Rabi = -1
+	default:
+		if b.Rabi, err = rate("bragg-rabi", f.braggRabi, false); err != nil {
+			return b, err
+		}
+	}
+	if f.braggFreq != "" {
+		if b.Frequency, err = rate("bragg-frequency", f.braggFreq, true); err != nil {
+			return b, err
+		}
+		b.FrequencySet = true
+	}
+	if f.braggPulse != "" {
+		if b.PulseDuration, err = parseSeqDuration("bragg-pulse", f.braggPulse, direct); err != nil {
+			return b, err
+		}
+		if !(b.PulseDuration > 0) {
+			return b, usagef("--bragg-pulse %q: must be positive", f.braggPulse)
+		}
+	}
+	return b, nil
 }
 
 // parseRampValues reads "NAME=FROM:TO" (from a plan step) or
@@ -268,9 +330,13 @@ func runSequence(cmd *cobra.Command, mf *modelFlags, inf *interFlags, tf *trapFl
 			return usagef("--points %q: the grid of %.3g points needs ≈ %.3g GB, more than the %.3g GB available", gf.points, n, need/1e9, avail/1e9)
 		}
 	}
+	bragg, err := braggPulseFlags(f, direct)
+	if err != nil {
+		return err
+	}
 	p := phases.SequenceProblem{Ground: gp, Steps: steps,
 		Imaging: gpe.Imaging{ResolutionFWHM: f.resolution.v, Pixel: f.pixel.v, Magnification: f.magnification.v, Photons: f.photons.v, Seed: 1},
-		Bragg:   phases.BraggProbe{Saturation: f.braggSat.v, Duration: f.braggDur.v}}
+		Bragg:   bragg}
 	switch f.start {
 	case "ground", "up", "down":
 		p.Start, _ = phases.ParseStart(f.start)

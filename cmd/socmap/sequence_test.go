@@ -25,7 +25,7 @@ func TestSequencePlanSteps(t *testing.T) {
 		t.Errorf("unknown step key: exit %d, %q", code, errs)
 	}
 	// A short direct-model sequence from flags, JSON keys of the issue.
-	code, out, errs = runArgs(t, "sequence", "--omega-er", "0", "--G1", "1", "--G2", "0.1", "--ramp", "omega=0:1:2", "--hold", "0.5", "--samples", "5", "--snapshots", "2", "--json")
+	code, out, errs = runArgs(t, "sequence", "--omega-er", "0", "--G1", "1", "--G2", "0.1", "--ramp", "omega=0:1:2", "--hold", "0.5", "--tof", "3", "--samples", "5", "--snapshots", "2", "--json")
 	if code != 0 {
 		t.Fatalf("sequence: exit %d: %s", code, errs)
 	}
@@ -33,7 +33,8 @@ func TestSequencePlanSteps(t *testing.T) {
 	if err := json.Unmarshal([]byte(out), &doc); err != nil {
 		t.Fatal(err)
 	}
-	for _, k := range []string{"times_s", "overlap_ground", "energy_over_ER", "contrast_insitu", "contrast_imaged", "snr_2k1", "verdict", "bragg_fraction", "stripe_period_m"} {
+	for _, k := range []string{"times_s", "overlap_ground", "energy_over_ER", "contrast_insitu", "contrast_imaged", "snr_2k1", "verdict", "bragg_fraction", "stripe_period_m",
+		"bragg_atoms_fraction", "bragg_atoms_fraction_plane_wave", "verdict_probe", "tof_method", "tof_width_up_m"} {
 		if _, ok := doc[k]; !ok {
 			t.Errorf("JSON key %q missing", k)
 		}
@@ -52,6 +53,9 @@ func TestSequenceBadInputCLI(t *testing.T) {
 		"negative res":      {"--ramp", "omega=0:1:2", "--resolution", "-1 um"},
 		"huge grid":         {"--ramp", "omega=0:1:2", "--dims", "3", "--points", "4096"},
 		"no steps":          {},
+		"bragg rabi":        {"--ramp", "omega=0:1:2", "--bragg-rabi", "-3"},
+		"bragg phases":      {"--ramp", "omega=0:1:2", "--bragg-phases", "0"},
+		"bragg pulse":       {"--ramp", "omega=0:1:2", "--bragg-pulse", "0"},
 	} {
 		code, _, errs := runArgs(t, append(append([]string{}, base...), extra...)...)
 		if code != 2 || strings.Count(strings.TrimSpace(errs), "\n") != 0 {
