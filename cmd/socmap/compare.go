@@ -187,32 +187,41 @@ func comparisonProblem(sf *shakeFlags, rf *ramanFlags, inf *interFlags, tf *trap
 	if p.Couplings, err = inf.couplings(&sf.atomFlags); err != nil {
 		return p, err
 	}
+	if p.Density, p.Trap, err = densityOrTrap(inf, tf); err != nil {
+		return p, err
+	}
+	return p, nil
+}
+
+// densityOrTrap reads the gas of a comparison or a design: a mean density
+// (--density) or N atoms in a harmonic trap (--atoms, --trap: the
+// Thomas–Fermi peak density). A density from a plan yields to --atoms and
+// --trap given on the command line.
+func densityOrTrap(inf *interFlags, tf *trapFlags) (float64, *phases.CompareTrap, error) {
 	if inf.density.text != "" && tf.atoms.text != "" {
 		if !g.fromPlan["density"] {
-			return p, usagef("give --density or --atoms with --trap, not both")
+			return 0, nil, usagef("give --density or --atoms with --trap, not both")
 		}
 		inf.density.text = "" // the plan's density yields to --atoms/--trap
 	}
 	switch {
 	case inf.density.text != "":
 		if !(inf.density.v > 0) {
-			return p, usagef("--density %q: must be positive", inf.density.text)
+			return 0, nil, usagef("--density %q: must be positive", inf.density.text)
 		}
-		p.Density = inf.density.v
+		return inf.density.v, nil, nil
 	case tf.atoms.text != "":
 		if tf.trap == "" {
-			return p, usagef("--atoms needs --trap \"f_x,f_y,f_z\"")
+			return 0, nil, usagef("--atoms needs --trap \"f_x,f_y,f_z\"")
 		}
 		if !(tf.atoms.v >= 1) {
-			return p, usagef("--atoms %q: must be ≥ 1", tf.atoms.text)
+			return 0, nil, usagef("--atoms %q: must be ≥ 1", tf.atoms.text)
 		}
 		fr, err := tf.frequencies()
 		if err != nil {
-			return p, err
+			return 0, nil, err
 		}
-		p.Trap = &phases.CompareTrap{Atoms: tf.atoms.v, FreqHz: fr}
-	default:
-		return p, usagef("give --density, or --atoms and --trap")
+		return 0, &phases.CompareTrap{Atoms: tf.atoms.v, FreqHz: fr}, nil
 	}
-	return p, nil
+	return 0, nil, usagef("give --density, or --atoms and --trap")
 }

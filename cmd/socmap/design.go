@@ -447,33 +447,8 @@ func designProblem(cmd *cobra.Command, f *designFlags) (phases.DesignProblem, er
 	if p.Couplings, err = f.inf.couplings(&sf.atomFlags); err != nil {
 		return p, err
 	}
-	inf, tf := &f.inf, &f.tf
-	if inf.density.text != "" && tf.atoms.text != "" {
-		if !g.fromPlan["density"] {
-			return p, usagef("give --density or --atoms with --trap, not both")
-		}
-		inf.density.text = ""
-	}
-	switch {
-	case inf.density.text != "":
-		if !(inf.density.v > 0) {
-			return p, usagef("--density %q: must be positive", inf.density.text)
-		}
-		p.Density = inf.density.v
-	case tf.atoms.text != "":
-		if tf.trap == "" {
-			return p, usagef("--atoms needs --trap \"f_x,f_y,f_z\"")
-		}
-		if !(tf.atoms.v >= 1) {
-			return p, usagef("--atoms %q: must be ≥ 1", tf.atoms.text)
-		}
-		fr, err := tf.frequencies()
-		if err != nil {
-			return p, err
-		}
-		p.Trap = &phases.CompareTrap{Atoms: tf.atoms.v, FreqHz: fr}
-	default:
-		return p, usagef("give --density, or --atoms and --trap")
+	if p.Density, p.Trap, err = densityOrTrap(&f.inf, &f.tf); err != nil {
+		return p, err
 	}
 	p.Fixed = map[string]string{}
 	cmd.Flags().VisitAll(func(fl *pflag.Flag) {
