@@ -262,10 +262,15 @@ func errOr(err error, s string) string {
 
 // solveStage describes a running solve for the progress display: "start
 // 2/5: split step 140 (Δτ 0.005), residual 3.1e-04" or "start 2/5:
-// finisher iteration 40, residual 2.0e-07".
+// finisher iteration 40, residual 2.0e-07" ("… on a coarse grid" in the
+// coarse stages of a trapped solve).
 func solveStage(pr gpe.Progress, starts int) string {
-	if pr.Stage == "split" {
-		return fmt.Sprintf("start %d/%d: split step %d (Δτ %.3g), residual %.1e", pr.Start+1, starts, pr.Step, pr.Dtau, pr.Residual)
+	grid := ""
+	if pr.Coarse {
+		grid = " on a coarse grid"
 	}
-	return fmt.Sprintf("start %d/%d: finisher iteration %d, residual %.1e", pr.Start+1, starts, pr.Step, pr.Residual)
+	if pr.Stage == "split" {
+		return fmt.Sprintf("start %d/%d: split step %d%s (Δτ %.3g), residual %.1e", pr.Start+1, starts, pr.Step, grid, pr.Dtau, pr.Residual)
+	}
+	return fmt.Sprintf("start %d/%d: finisher iteration %d%s, residual %.1e", pr.Start+1, starts, pr.Step, grid, pr.Residual)
 }
