@@ -361,14 +361,6 @@ func runSequence(cmd *cobra.Command, mf *modelFlags, inf *interFlags, tf *trapFl
 			set.Dt = 0
 		}
 	}
-	if !g.quiet && isTerminal(os.Stderr) {
-		set.Progress = func(done, total float64) {
-			fmt.Fprintf(os.Stderr, "\rsequence: %5.1f %%", 100*done/math.Max(total, 1e-300))
-			if done >= total {
-				fmt.Fprintln(os.Stderr)
-			}
-		}
-	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
 	title := sequenceTitle(mf, gp, steps)
@@ -376,18 +368,47 @@ func runSequence(cmd *cobra.Command, mf *modelFlags, inf *interFlags, tf *trapFl
 	if direct {
 		unit = "ħ/E_R"
 	}
+	var durs []float64
 	if f.x != "" {
-		durs, err := parseScan(f.x, direct)
-		if err != nil {
+		if durs, err = parseScan(f.x, direct); err != nil {
 			return err
 		}
+	}
+	// Progress: per mille of the simulated in-trap time, per run (a scan
+	// has one run per duration: the callback's time restarting marks the
+	// next).
+	runs := max(1, len(durs))
+	bar := output.NewProgress(cmd.ErrOrStderr(), "sequence", 1000*runs, g.quiet, &output.ProgressOptions{Unit: "‰ simulated"})
+	defer bar.Finish()
+	if bar != nil {
+		run, last := 0, 0.0
+		set.Progress = func(done, total float64) {
+			if done < last {
+				run++
+			}
+			last = done
+			frac := math.Min(1, done/math.Max(total, 1e-300))
+			bar.Set(1000*run + int(math.Round(1000*frac)))
+			d := fmt.Sprintf("t = %.4g of %.4g %s", done, total, unit)
+			if runs > 1 {
+				d = fmt.Sprintf("ramp %d of %d, ", run+1, runs) + d
+			}
+			if frac >= 1 {
+				d += "; detection (imaging, Bragg pulse, time of flight)"
+			}
+			bar.Detail(d)
+		}
+	}
+	if f.x != "" {
 		pts, err := p.ScanRampDuration(ctx, durs, &set)
+		bar.Finish()
 		if err != nil {
 			return seqErr(err)
 		}
 		return emitRendered(cmd, f.outs, "sequence-scan", &output.SequenceScan{Points: pts, Unit: unit, Title: title})
 	}
 	r, err := p.Run(ctx, &set)
+	bar.Finish()
 	if err != nil {
 		return seqErr(err)
 	}
