@@ -119,32 +119,11 @@ func spin1Window(u Spin1Uniform, set func(*Spin1Uniform, float64), omegaMax floa
 		return IsSpin1Stripe(r.Phase), nil
 	}
 	lo := omegaMax * 1e-3 / 400
-	at := func(i int) float64 { return lo + (omegaMax-lo)*float64(i)/float64(n) }
-	var w Window
-	prev := false
-	for i := 0; i <= n; i++ {
-		st, err := isStripe(at(i))
-		if err != nil {
-			return w, err
-		}
-		if st && !w.Found {
-			w.Found, w.Lo = true, 0
-			if i > 0 {
-				if w.Lo, err = bisectEdge(isStripe, at(i-1), at(i), tol); err != nil {
-					return w, err
-				}
-			}
-		}
-		if !st && prev {
-			w.Hi, err = bisectEdge(isStripe, at(i-1), at(i), tol)
-			return w, err
-		}
-		prev = st
+	w, err := scanStripe(isStripe, lo, omegaMax, n, tol)
+	if err == nil && w.Found && w.Lo == lo {
+		w.Lo = 0 // a stripe from the first point: the window starts at Ω = 0
 	}
-	if w.Found {
-		w.Hi = math.Inf(1)
-	}
-	return w, nil
+	return w, err
 }
 
 // Spin1Side is the three-level answer for one scheme of a comparison, in

@@ -71,6 +71,14 @@ func scanWindow(u Uniform, set func(*Uniform, float64), lo, hi float64, n int, t
 		}
 		return r.Phase == label.Stripe, nil
 	}
+	return scanStripe(isStripe, lo, hi, n, tol)
+}
+
+// scanStripe scans x over [lo, hi] on n+1 points and returns the first
+// contiguous interval where isStripe holds, edges refined by bisection to
+// tol (Lo = lo when the first point is a stripe, Hi = +Inf when the last
+// is). It serves the two-level and the spin-1 windows.
+func scanStripe(isStripe func(float64) (bool, error), lo, hi float64, n int, tol float64) (Window, error) {
 	at := func(i int) float64 { return lo + (hi-lo)*float64(i)/float64(n) }
 	var w Window
 	prev := false
