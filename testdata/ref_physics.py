@@ -93,23 +93,7 @@ out["bands"] = bands
 path = os.path.join(os.path.dirname(os.path.abspath(__file__)), "ref_physics.json")
 
 
-def close(a, b, where):
-    """Compares fresh and committed values: numbers to 1e-12 relative (libm
-    differences in the last digits are not a change of the reference)."""
-    if isinstance(a, dict):
-        if set(a) != set(b):
-            return [f"{where}: keys differ"]
-        return [m for k in a for m in close(a[k], b[k], f"{where}.{k}")]
-    if isinstance(a, list):
-        if len(a) != len(b):
-            return [f"{where}: length {len(a)} vs {len(b)}"]
-        return [m for i, (x, y) in enumerate(zip(a, b)) for m in close(x, y, f"{where}[{i}]")]
-    if isinstance(a, float) or isinstance(b, float):
-        if abs(a - b) <= 1e-12 * max(1.0, abs(a), abs(b)):
-            return []
-        return [f"{where}: committed {b!r} fresh {a!r}"]
-    return [] if a == b else [f"{where}: committed {b!r} fresh {a!r}"]
-
+from refcheck import close
 
 if "--write" in sys.argv:
     tmp = path + ".tmp"
