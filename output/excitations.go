@@ -317,13 +317,7 @@ func (r *ExcitationsResult) WriteCSV(w io.Writer) error {
 }
 
 // WritePNG renders Figure as PNG.
-func (r *ExcitationsResult) WritePNG(w io.Writer) error {
-	f, err := r.Figure()
-	if err != nil {
-		return err
-	}
-	return f.WritePNG(w)
-}
+func (r *ExcitationsResult) WritePNG(w io.Writer) error { return pngOf(r.Figure, w) }
 
 // Figure is the spectrum along the grid with every mode shaded by its
 // share of the f-sum, ω·Z/q² (density weight: sequential colour scale, light

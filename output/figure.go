@@ -275,6 +275,16 @@ func (f *Figure) Render(w io.Writer, format string) error {
 // WritePNG renders the figure as PNG.
 func (f *Figure) WritePNG(w io.Writer) error { return f.Render(w, "png") }
 
+// pngOf builds a figure and renders it as PNG: the WritePNG of every result
+// type that has a Figure method.
+func pngOf(build func() (*Figure, error), w io.Writer) error {
+	f, err := build()
+	if err != nil {
+		return err
+	}
+	return f.WritePNG(w)
+}
+
 // NewColorBar returns a vertical colour-bar plot of cm over cm's range,
 // with label (the quantity and its unit) on its axis, for Panel.ColorBar.
 func NewColorBar(cm palette.ColorMap, label string) *plot.Plot {

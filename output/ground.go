@@ -247,13 +247,7 @@ func (r *GroundResult) WriteH5(w *Writer) {
 }
 
 // WritePNG renders Figure (groundplot.go) as PNG.
-func (r *GroundResult) WritePNG(w io.Writer) error {
-	f, err := r.Figure()
-	if err != nil {
-		return err
-	}
-	return f.WritePNG(w)
-}
+func (r *GroundResult) WritePNG(w io.Writer) error { return pngOf(r.Figure, w) }
 
 // iterationNote: the split steps and finisher iterations of a solve, with
 // its coarse-to-fine stages (gpe Settings.Coarsen) when it had them.

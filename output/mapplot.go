@@ -98,13 +98,7 @@ func (mp MapPlot) axes() (xl string, xv []float64, yl string, yv []float64) {
 }
 
 // WritePNG renders the figure as PNG.
-func (mp MapPlot) WritePNG(w io.Writer) error {
-	f, err := mp.Figure()
-	if err != nil {
-		return err
-	}
-	return f.WritePNG(w)
-}
+func (mp MapPlot) WritePNG(w io.Writer) error { return pngOf(mp.Figure, w) }
 
 // Figure builds the phase map: phases as colour cells (no gaps) with their
 // names written in their regions, a legend of the phases present, the

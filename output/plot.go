@@ -51,13 +51,7 @@ type BandsPlot struct {
 }
 
 // WritePNG renders the figure as PNG.
-func (bp BandsPlot) WritePNG(w io.Writer) error {
-	f, err := bp.Figure()
-	if err != nil {
-		return err
-	}
-	return f.WritePNG(w)
-}
+func (bp BandsPlot) WritePNG(w io.Writer) error { return pngOf(bp.Figure, w) }
 
 // Figure builds the two panels: E±(k) coloured by ⟨σz⟩ (a signed quantity:
 // the diverging blue–grey–red scale of spinColor) with the minima marked,

@@ -97,13 +97,7 @@ func (b *Spin1Bands) Figure() (*Figure, error) {
 }
 
 // WritePNG renders Figure as PNG.
-func (b *Spin1Bands) WritePNG(w io.Writer) error {
-	f, err := b.Figure()
-	if err != nil {
-		return err
-	}
-	return f.WritePNG(w)
-}
+func (b *Spin1Bands) WritePNG(w io.Writer) error { return pngOf(b.Figure, w) }
 
 // Figure of Spin1Ground: the densities of m = +1, 0, −1 and their sum along
 // x (integrated over the transverse axes of a 2D/3D grid), and the momentum
@@ -199,10 +193,4 @@ func (r Spin1Ground) Figure() (*Figure, error) {
 }
 
 // WritePNG renders Figure as PNG.
-func (r Spin1Ground) WritePNG(w io.Writer) error {
-	f, err := r.Figure()
-	if err != nil {
-		return err
-	}
-	return f.WritePNG(w)
-}
+func (r Spin1Ground) WritePNG(w io.Writer) error { return pngOf(r.Figure, w) }

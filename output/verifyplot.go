@@ -66,13 +66,7 @@ func errorBars(x, y, err []float64) (*plotter.YErrorBars, error) {
 }
 
 // WritePNG renders the figure as PNG.
-func (vp VerifyPlot) WritePNG(w io.Writer) error {
-	f, err := vp.Figure()
-	if err != nil {
-		return err
-	}
-	return f.WritePNG(w)
-}
+func (vp VerifyPlot) WritePNG(w io.Writer) error { return pngOf(vp.Figure, w) }
 
 // Figure builds the two panels.
 func (vp VerifyPlot) Figure() (*Figure, error) {
@@ -182,13 +176,7 @@ type CalibratePlot struct {
 }
 
 // WritePNG renders the figure as PNG.
-func (cp CalibratePlot) WritePNG(w io.Writer) error {
-	f, err := cp.Figure()
-	if err != nil {
-		return err
-	}
-	return f.WritePNG(w)
-}
+func (cp CalibratePlot) WritePNG(w io.Writer) error { return pngOf(cp.Figure, w) }
 
 // Figure builds the figure (k_t in units of 10⁶/m).
 func (cp CalibratePlot) Figure() (*Figure, error) {
@@ -276,13 +264,7 @@ type SweepPlot struct {
 }
 
 // WritePNG renders the sweep as PNG.
-func (sp SweepPlot) WritePNG(w io.Writer) error {
-	f, err := sp.Figure()
-	if err != nil {
-		return err
-	}
-	return f.WritePNG(w)
-}
+func (sp SweepPlot) WritePNG(w io.Writer) error { return pngOf(sp.Figure, w) }
 
 // Figure builds the sweep's figure.
 func (sp SweepPlot) Figure() (*Figure, error) {
