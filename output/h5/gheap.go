@@ -21,7 +21,8 @@ const GlobalHeapCheckLimit = 1 << 30
 // must be refused before libhdf5 parses it. A collection ("GCOL", version
 // 1, its size; then objects: index, reference count, reserved, size, data
 // padded to 8 bytes; index 0 is the free space, the last object, exactly
-// the rest, or fewer than 16 unused bytes) must fit the file and its
+// the rest, or fewer than 16 unused bytes) must be at least 4096 bytes
+// (minCollection), fit the file and its
 // objects tile the collection, with distinct indices. The
 // collections are found by their signature; 8-byte lengths are assumed
 // (every file this package writes, and libhdf5's default). A file larger
@@ -62,6 +63,14 @@ func checkGlobalHeaps(name string) error {
 	return nil
 }
 
+// minCollection is the smallest global heap collection the HDF5 file format
+// allows (4096 bytes: the format specification's "default (and minimum)
+// collection size", H5HG_MINALLOC in libhdf5). A shrunken size that still
+// ends on an object boundary passes the tiling check but hides the objects
+// past it, and libhdf5 1.10 dereferences a null pointer when an attribute
+// names one of them (found by FuzzDamagedMapFile).
+const minCollection = 4096
+
 // checkCollectionAt reads the collection at byte o of f (a file of size
 // bytes) and checks it.
 func checkCollectionAt(f *os.File, o, size int64) error {
@@ -70,7 +79,7 @@ func checkCollectionAt(f *os.File, o, size int64) error {
 		return fmt.Errorf("truncated")
 	}
 	n := binary.LittleEndian.Uint64(hdr[8:])
-	if n < 16 || n > uint64(size-o) {
+	if n < minCollection || n > uint64(size-o) {
 		return fmt.Errorf("collection of %d bytes in a file of %d", n, size)
 	}
 	data := make([]byte, n)
@@ -89,7 +98,10 @@ func checkCollection(data []byte, o int) error {
 		return fmt.Errorf("version %d", data[o+4])
 	}
 	size := binary.LittleEndian.Uint64(data[o+8:])
-	if size < hdr || size > uint64(len(data)-o) {
+	if size < minCollection {
+		return fmt.Errorf("collection of %d bytes, below the format's minimum of %d", size, minCollection)
+	}
+	if size > uint64(len(data)-o) {
 		return fmt.Errorf("collection of %d bytes in a file of %d", size, len(data))
 	}
 	end := o + int(size)
