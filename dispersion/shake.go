@@ -180,7 +180,7 @@ func (p Shake) Evaluate() (ShakeResult, error) {
 	if w == nil {
 		w = Sine{}
 	}
-	cyc, err := NewCycle(w)
+	cyc, err := cycleOf(w)
 	if err != nil {
 		return r, badf("%v", err)
 	}

@@ -3,7 +3,9 @@ package dispersion
 import (
 	"fmt"
 	"math"
+	"reflect"
 	"strings"
+	"sync"
 )
 
 // Waveform is a zero-mean, 2π-periodic shaking waveform s(φ), |s| ≤ 1, φ = ωt.
@@ -107,6 +109,32 @@ func NewCycle(w Waveform) (*Cycle, error) {
 	}
 	c.S2Mean = trapMean(sq, h)
 	return c, nil
+}
+
+// cycles caches the cycle integrals of comparable waveform values (the
+// built-in Sine and Square, and any user waveform whose type is comparable):
+// a Cycle depends only on its waveform, and recomputing its 3 × 2¹⁴ samples
+// was a third of the time of one Shake.Evaluate (design searches call it
+// thousands of times). Cached cycles are shared: they are never modified
+// after NewCycle returns.
+var cycles sync.Map // Waveform → *Cycle
+
+// cycleOf returns the cycle integrals of w, from the cache when w's type is
+// comparable and not a pointer (a pointer's target may change between
+// calls); other waveforms are integrated on every call.
+func cycleOf(w Waveform) (*Cycle, error) {
+	if t := reflect.TypeOf(w); !t.Comparable() || t.Kind() == reflect.Pointer {
+		return NewCycle(w)
+	}
+	if c, ok := cycles.Load(w); ok {
+		return c.(*Cycle), nil
+	}
+	c, err := NewCycle(w)
+	if err != nil {
+		return nil, err
+	}
+	got, _ := cycles.LoadOrStore(w, c)
+	return got.(*Cycle), nil
 }
 
 func cumTrap(f, out []float64, h float64) {
