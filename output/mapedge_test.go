@@ -69,8 +69,22 @@ func TestMapFigureGPEEdge(t *testing.T) {
 		t.Fatal(err)
 	}
 	back, ok := (&MapResult{Data: d}).GPEEdge()
-	if !ok || back.GPE != 2.1 || math.Abs(back.Tol-1e-3) > 1e-12 || !back.Found {
+	if !ok || back.GPE != 2.1 || math.Abs(back.Tol-1e-3) > 1e-12 || !back.Found || back.RecoilHz > 0 {
 		t.Errorf("read back %+v %v", back, ok)
+	}
+	// With a recoil (a scheme's map) the edges also read as Rabi
+	// frequencies: Ω/2π = Ω/E_R × E_R/h = 2.1 × 79.39 Hz = 166.72 Hz.
+	e.RecoilHz = 79.39
+	SetGPEEdge(&r.Data.Spec, e)
+	tb.Reset()
+	if err := r.Table().Write(&tb); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(tb.String(), "Ω/2π = 166.72 Hz ± 0.040 Hz") {
+		t.Errorf("table with a recoil:\n%s", tb.String())
+	}
+	if doc := r.JSON(); doc["stripe_edge_recoil_energy_hz"] != 79.39 {
+		t.Errorf("JSON recoil %v", doc["stripe_edge_recoil_energy_hz"])
 	}
 	// An edge outside the map's range is not drawn (the table still says it).
 	SetGPEEdge(&r.Data.Spec, &phases.MapGPEEdge{VariationalEdge: 1, GPE: phases.GPEEdge{Found: true, Omega: 7, Lo: 7, Hi: 7}})

@@ -230,6 +230,7 @@ func (r *MapResult) JSON() map[string]any {
 		doc["variational_stripe_edge_omega_over_ER"] = JSONNum(e.Variational)
 		doc["gpe_stripe_edge_omega_over_ER"] = JSONNum(e.GPE)
 		doc["gpe_stripe_edge_tol_over_ER"] = JSONNum(e.Tol)
+		doc["stripe_edge_recoil_energy_hz"] = JSONNum(e.RecoilHz)
 		if e.Note != "" {
 			doc["gpe_stripe_edge_note"] = e.Note
 		}
@@ -263,6 +264,7 @@ const (
 	attrVarEdge     = "variational_stripe_edge_omega_over_ER"
 	attrGPEEdgeTol  = "gpe_stripe_edge_tol_over_ER"
 	attrGPEEdgeNote = "gpe_stripe_edge_note"
+	attrEdgeRecoil  = "stripe_edge_recoil_energy_hz" // E_R/h: Ω/2π = Ω/E_R × this
 )
 
 // MapEdge is the GPE-corrected stripe edge stored with a map (E_R).
@@ -272,6 +274,7 @@ type MapEdge struct {
 	Tol         float64 // the bracket's width
 	Found       bool
 	Note        string // why there is no edge ("" when Found)
+	RecoilHz    float64 // E_R/h (Hz) of the map's scheme; NaN (or 0) for the direct model
 }
 
 // SetGPEEdge puts the GPE stripe edge e into the map's attributes (written
@@ -288,6 +291,7 @@ func SetGPEEdge(spec *MapSpec, e *phases.MapGPEEdge) {
 	spec.Attrs[attrGPEEdge] = gpe
 	spec.Attrs[attrGPEEdgeTol] = tol
 	spec.Attrs[attrGPEEdgeNote] = e.Note
+	spec.Attrs[attrEdgeRecoil] = e.RecoilHz
 }
 
 // GPEEdge returns the GPE stripe edge stored with the map (ok false when
@@ -308,7 +312,7 @@ func (r *MapResult) GPEEdge() (MapEdge, bool) {
 	if _, ok := a[attrGPEEdge]; !ok {
 		return MapEdge{}, false
 	}
-	e := MapEdge{Variational: num(attrVarEdge), GPE: num(attrGPEEdge), Tol: num(attrGPEEdgeTol)}
+	e := MapEdge{Variational: num(attrVarEdge), GPE: num(attrGPEEdge), Tol: num(attrGPEEdgeTol), RecoilHz: num(attrEdgeRecoil)}
 	e.Note, _ = a[attrGPEEdgeNote].(string)
 	e.Found = !math.IsNaN(e.GPE)
 	return e, true
@@ -353,9 +357,19 @@ func (r *MapResult) Table() *Table {
 	}
 	if e, ok := r.GPEEdge(); ok {
 		t.Section("Upper stripe edge along Ω")
-		t.Row("variational (two-wave ansatz)", Num(e.Variational, 5), "E_R")
+		hz := func(v float64) string { // the edge as a Rabi frequency
+			if !(e.RecoilHz > 0) || math.IsNaN(v) {
+				return ""
+			}
+			return "Ω/2π = " + Num(v*e.RecoilHz, 5) + " Hz"
+		}
+		t.RowNote("variational (two-wave ansatz)", Num(e.Variational, 5), "E_R", hz(e.Variational))
 		if e.Found {
-			t.Row("GPE (best state over branches and boxes)", Num(e.GPE, 5)+" ± "+Num(e.Tol/2, 2), "E_R")
+			note := hz(e.GPE)
+			if note != "" {
+				note += " ± " + Num(e.Tol/2*e.RecoilHz, 2) + " Hz"
+			}
+			t.RowNote("GPE (best state over branches and boxes)", Num(e.GPE, 5)+" ± "+Num(e.Tol/2, 2), "E_R", note)
 		} else {
 			t.Row("GPE", "not found: "+e.Note, "")
 		}

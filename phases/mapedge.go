@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"math"
+
+	"socmap/dispersion"
 )
 
 // MapGPEEdge is the GPE-corrected upper stripe edge of a one-axis map along
@@ -18,6 +20,10 @@ type MapGPEEdge struct {
 	GPE GPEEdge
 	// Note: why no edge was computed ("" when GPE was computed).
 	Note string
+	// RecoilHz: E_R/h (Hz) of the map's scheme at its first point, so that
+	// the edges read in Hz of Rabi frequency (Ω/2π = Ω/E_R × E_R/h); NaN for
+	// the direct model, which has no recoil in SI units.
+	RecoilHz float64
 }
 
 // StripeEdgeGPE returns the GPE-corrected upper stripe edge in Ω of a
@@ -35,7 +41,7 @@ func (p *MapProblem) StripeEdgeGPE() (*MapGPEEdge, error) {
 	}
 	u, err := p.Uniform(0, 0)
 	if errors.Is(err, ErrNoRecoil) {
-		return &MapGPEEdge{VariationalEdge: math.NaN(), Note: "the scheme gives no recoil at the map's settings"}, nil
+		return &MapGPEEdge{VariationalEdge: math.NaN(), RecoilHz: math.NaN(), Note: "the scheme gives no recoil at the map's settings"}, nil
 	}
 	if err != nil {
 		return nil, err
@@ -46,7 +52,7 @@ func (p *MapProblem) StripeEdgeGPE() (*MapGPEEdge, error) {
 	if err != nil {
 		return nil, err
 	}
-	e := &MapGPEEdge{VariationalEdge: math.NaN()}
+	e := &MapGPEEdge{VariationalEdge: math.NaN(), RecoilHz: p.recoilHz()}
 	switch {
 	case !w.Found:
 		e.Note = "no variational stripe window at these settings"
@@ -73,6 +79,20 @@ func (p *MapProblem) StripeEdgeGPE() (*MapGPEEdge, error) {
 		e.Note = e.GPE.Note
 	}
 	return e, nil
+}
+
+// recoilHz is E_R/h (Hz) of the lab at the map's first point, NaN without
+// one (the direct model, or a lab that does not resolve).
+func (p *MapProblem) recoilHz() float64 {
+	l, err := p.LabAt(0, 0)
+	if err != nil || l.Scheme == nil {
+		return math.NaN()
+	}
+	m, err := l.Model()
+	if err != nil || !(m.ER > 0) {
+		return math.NaN()
+	}
+	return m.ER / dispersion.Planck
 }
 
 // checkGPEEdge: the GPE edge is for one-axis variational maps along omega
