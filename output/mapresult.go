@@ -273,7 +273,7 @@ type MapEdge struct {
 	GPE         float64 // the GPE edge, midpoint of its last bracket (NaN: not found)
 	Tol         float64 // the bracket's width
 	Found       bool
-	Note        string // why there is no edge ("" when Found)
+	Note        string  // why there is no edge ("" when Found)
 	RecoilHz    float64 // E_R/h (Hz) of the map's scheme; NaN (or 0) for the direct model
 }
 
