@@ -71,8 +71,15 @@ type Spin1GroundProblem struct {
 	Lengths []float64
 	// Points per axis; nil: the smallest power of two from
 	// gpe.AutoPointsMin[dim] with k_max = πn/L ≥ 4 + max|K_m| (the offsets
-	// K_m shift the parabolas), at most gpe.AutoPointsMax[dim].
+	// K_m shift the parabolas), at most gpe.AutoPointsMax[dim]; when that
+	// ceiling does not reach 4 + max|K_m|, the smallest FFT-friendly size
+	// (gpe.FFTSize) that does, up to gpe.AutoPointsLimit[dim] (the
+	// escalation of gpe.ResolveBox). Spin1GroundSetup.Resolved says whether
+	// the grid reaches it.
 	Points []int
+	// RandomStarts: random starts (seeds 2…n+1) after the default guesses,
+	// which hold seed 1. Default 0.
+	RandomStarts int
 	// FixMagnetization, Magnetization: hold ⟨F_z⟩ = M (−1 < M < 1) in the
 	// variational theory and the GPE (gpe.Spin1Problem). Default: free.
 	FixMagnetization bool
@@ -125,12 +132,44 @@ type Spin1GroundResult struct {
 	Warnings []string
 }
 
+// Spin1GroundSetup is a Spin1GroundProblem set up, before any solve: the
+// GPE problem (grid and model), the variational answer and the starts.
+// Spin1Ground is Setup then Solve; the spin-1 GPE map points
+// (MethodSpin1GPE) use the two steps to label a point whose box is not
+// resolved before solving it.
+type Spin1GroundSetup struct {
+	// Result holds Problem, Trapped, Units, the variational answer, Notes
+	// and Warnings; Solve fills in the rest.
+	Result *Spin1GroundResult
+	// Guesses: the variational winner (when it has waves), then
+	// gpe.DefaultSpin1Guesses, then the RandomStarts (seeds 2…n+1).
+	Guesses []gpe.Spin1Guess
+	// KMaxNeeded = 4 + max|K_m| (k_R), the resolution the automatic points
+	// aim at; Resolved: every axis of the grid has π·n/L ≥ KMaxNeeded.
+	KMaxNeeded float64
+	Resolved   bool
+	model      dispersion.Spin1Model
+	vs         Spin1Settings
+}
+
 // Spin1Ground solves p: the variational theory first (its winner sizes a
-// box and is one of the starts), then gpe.Spin1MultiStart from the default
-// guesses plus the variational winner (in a trap under the Gaussian
-// envelope of gpe.Spin1Guess). Settings s are passed to the solver.
+// box and is one of the starts), then gpe.Spin1MultiStart from the
+// variational winner plus the default guesses (in a trap under the Gaussian
+// envelope of gpe.Spin1Guess) and the RandomStarts, whose rule keeps
+// degenerate states deterministically. Settings s are passed to the solver.
 // Errors of p's settings wrap dispersion.ErrBadInput.
 func Spin1Ground(p Spin1GroundProblem, s *gpe.Settings) (*Spin1GroundResult, error) {
+	su, err := p.Setup()
+	if err != nil {
+		return nil, err
+	}
+	return su.Solve(s)
+}
+
+// Setup checks p, runs the variational theory and sizes the grid (the
+// first step of Spin1Ground; nothing of the grid's size but the model's
+// arrays is allocated).
+func (p Spin1GroundProblem) Setup() (*Spin1GroundSetup, error) {
 	dims := p.Dims
 	if dims == 0 {
 		dims = 1
@@ -146,6 +185,9 @@ func Spin1Ground(p Spin1GroundProblem, s *gpe.Settings) (*Spin1GroundResult, err
 	}
 	if p.FixMagnetization && !(p.Magnetization > -1 && p.Magnetization < 1) {
 		return nil, fmt.Errorf("%w: magnetisation %g: allowed −1 < M < 1", dispersion.ErrBadInput, p.Magnetization)
+	}
+	if p.RandomStarts < 0 {
+		return nil, fmt.Errorf("%w: %d random starts: must be ≥ 0", dispersion.ErrBadInput, p.RandomStarts)
 	}
 	var vs Spin1Settings
 	if p.Variational != nil {
@@ -176,6 +218,12 @@ func Spin1Ground(p Spin1GroundProblem, s *gpe.Settings) (*Spin1GroundResult, err
 		return nil, fmt.Errorf("%w: %v", dispersion.ErrBadInput, err)
 	}
 	res.Problem = prob
+	su := &Spin1GroundSetup{Result: res, model: p.Model, vs: vs, KMaxNeeded: p.kmaxNeeded(), Resolved: true}
+	for a := 0; a < dims; a++ {
+		if g := prob.Grid; math.Pi*float64(g.N[a])/g.L[a] < su.KMaxNeeded*(1-1e-12) {
+			su.Resolved = false
+		}
+	}
 	vr := res.Variational
 	guesses := gpe.DefaultSpin1Guesses(p.Model)
 	vg := gpe.Spin1Guess{Name: "variational " + vr.Phase.String()}
@@ -186,20 +234,32 @@ func Spin1Ground(p Spin1GroundProblem, s *gpe.Settings) (*Spin1GroundResult, err
 	if len(vg.K) > 0 {
 		guesses = append([]gpe.Spin1Guess{vg}, guesses...)
 	}
-	mr, err := gpe.Spin1MultiStart(prob, p.Model, guesses, s)
+	for i := 2; i <= p.RandomStarts+1; i++ {
+		guesses = append(guesses, gpe.Spin1Guess{Name: fmt.Sprintf("random seed=%d", i), Random: true, Seed: uint64(i)})
+	}
+	su.Guesses = guesses
+	return su, nil
+}
+
+// Solve runs gpe.Spin1MultiStart from the set-up's guesses with solver
+// settings s and completes the result (the second step of Spin1Ground).
+func (su *Spin1GroundSetup) Solve(s *gpe.Settings) (*Spin1GroundResult, error) {
+	res := su.Result
+	prob, vr := res.Problem, res.Variational
+	mr, err := gpe.Spin1MultiStart(prob, su.model, su.Guesses, s)
 	if err != nil {
 		return nil, err
 	}
 	res.Multi = mr
 	res.Status = mr.Best.Status
-	ob, err := gpe.Spin1Observe(prob, mr.Best, p.Model, vs.withDefaults().Thresholds)
+	ob, err := gpe.Spin1Observe(prob, mr.Best, su.model, su.vs.withDefaults().Thresholds)
 	if err != nil {
 		return nil, err
 	}
 	res.Observed = ob
 	// two-level comparison at the variational densities
-	pm := p.Model.PairModel()
-	gg := spin1PairCouplings(p.Model.Up, p.Model.Down, res.VarG0, res.VarG2)
+	pm := su.model.PairModel()
+	gg := spin1PairCouplings(su.model.Up, su.model.Down, res.VarG0, res.VarG2)
 	r2, err := Variational(Uniform{Omega: pm.Omega, Delta: pm.Delta, Guu: gg[0], Gdd: gg[1], Gud: gg[2]}, nil)
 	if err == nil && vr.Status == Converged {
 		res.PairEnergyDiff = r2.Energy - vr.Energy
@@ -251,20 +311,34 @@ func (p Spin1GroundProblem) setupBox(res *Spin1GroundResult, dims int, vs *Spin1
 	return gpe.Spin1Problem{Grid: g, Model: gpe.Spin1UniformBox(g, p.Model, p.G0, p.G2)}, nil
 }
 
+// kmaxNeeded is the resolution the automatic points aim at, 4 + max|K_m|
+// (k_R).
+func (p Spin1GroundProblem) kmaxNeeded() float64 {
+	kk := 0.0
+	for _, k := range p.Model.K {
+		kk = math.Max(kk, math.Abs(k))
+	}
+	return gpe.ResolvedKMax + kk
+}
+
 // points: the given points or the automatic rule of Spin1GroundProblem.Points.
 func (p Spin1GroundProblem) points(L []float64, dims int) []int {
 	if p.Points != nil {
 		return p.Points
 	}
-	kk := 0.0
-	for _, k := range p.Model.K {
-		kk = math.Max(kk, math.Abs(k))
-	}
+	need := p.kmaxNeeded()
 	var pts []int
 	for _, l := range L {
 		n, max := gpe.AutoPointsMin[dims], gpe.AutoPointsMax[dims]
-		for math.Pi*float64(n)/l < 4+kk && 2*n <= max {
+		for math.Pi*float64(n)/l < need && 2*n <= max {
 			n *= 2
+		}
+		if math.Pi*float64(n)/l < need*(1-1e-12) { // beyond the ceiling: FFT-friendly sizes, as gpe.ResolveBox
+			if m := gpe.FFTSize(int(math.Ceil(need*l/math.Pi*(1-1e-12))), gpe.AutoPointsLimit[dims]); m > 0 {
+				n = m
+			} else {
+				n = gpe.AutoPointsLimit[dims]
+			}
 		}
 		pts = append(pts, n)
 	}
