@@ -127,6 +127,12 @@ type Spin1GroundResult struct {
 	// two-level energy is that of the free pair (its ⟨σ_z⟩ is not M).
 	PairEnergyDiff float64
 	PairPhase      string
+	// BoxAdmitsWaves (uniform box only): every wave momentum of the
+	// variational winner lies on the box's momentum grid (k·L/2π an
+	// integer to 1e-6). Otherwise finite-box quantisation moves a wave and
+	// the GPE energy can lie above the variational one (stripes of
+	// incommensurate momenta).
+	BoxAdmitsWaves bool
 	// Notes: what was chosen (box, reduced couplings), one line each.
 	Notes    []string
 	Warnings []string
@@ -218,6 +224,9 @@ func (p Spin1GroundProblem) Setup() (*Spin1GroundSetup, error) {
 		return nil, fmt.Errorf("%w: %v", dispersion.ErrBadInput, err)
 	}
 	res.Problem = prob
+	if p.Trap == nil {
+		res.BoxAdmitsWaves = admitsWaves(res.Variational.State, prob.Grid.L[0])
+	}
 	su := &Spin1GroundSetup{Result: res, model: p.Model, vs: vs, KMaxNeeded: p.kmaxNeeded(), Resolved: true}
 	for a := 0; a < dims; a++ {
 		if g := prob.Grid; math.Pi*float64(g.N[a])/g.L[a] < su.KMaxNeeded*(1-1e-12) {
@@ -287,13 +296,7 @@ func (p Spin1GroundProblem) setupBox(res *Spin1GroundResult, dims int, vs *Spin1
 		fits := false
 		for j := 1; j <= 8 && !fits; j++ { // the shortest multiple that holds every wave
 			lx = l0 * float64(j)
-			fits = true
-			for _, w := range vr.State.Waves {
-				q := w.K * lx / (2 * math.Pi)
-				if math.Abs(q-math.Round(q)) > 1e-6 {
-					fits = false
-				}
-			}
+			fits = admitsWaves(vr.State, lx)
 		}
 		if !fits {
 			lx = l0
@@ -309,6 +312,19 @@ func (p Spin1GroundProblem) setupBox(res *Spin1GroundResult, dims int, vs *Spin1
 		return gpe.Spin1Problem{}, fmt.Errorf("%w: %v", dispersion.ErrBadInput, err)
 	}
 	return gpe.Spin1Problem{Grid: g, Model: gpe.Spin1UniformBox(g, p.Model, p.G0, p.G2)}, nil
+}
+
+// admitsWaves reports whether every wave momentum of s lies on the
+// momentum grid of a periodic box of length lx (k·lx/2π an integer to
+// 1e-6).
+func admitsWaves(s Spin1State, lx float64) bool {
+	for _, w := range s.Waves {
+		q := w.K * lx / (2 * math.Pi)
+		if math.Abs(q-math.Round(q)) > 1e-6 {
+			return false
+		}
+	}
+	return true
 }
 
 // kmaxNeeded is the resolution the automatic points aim at, 4 + max|K_m|

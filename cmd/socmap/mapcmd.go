@@ -109,20 +109,8 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 		p.GPEEdge = &phases.GPEEdgeSettings{}
 	}
 	if p.Method == phases.MethodGPE {
-		if o.gpePoints != 0 && (o.gpePoints < 16 || o.gpePoints > 8192) {
-			return nil, usagef("--points %d: allowed 16 … 8192", o.gpePoints)
-		}
-		if o.gpeStarts < 0 || o.gpeStarts > 20 {
-			return nil, usagef("--starts %d: allowed 0 … 20", o.gpeStarts)
-		}
-		if o.gpeLength.text != "" && !(o.gpeLength.v > 0) {
-			return nil, usagef("--length-kr %q: must be positive", o.gpeLength.text)
-		}
-		if !(o.gpeTol.v > 0) {
-			return nil, usagef("--tol %q: must be positive", o.gpeTol.text)
-		}
-		if o.gpeDims != 1 && o.gpeDims != 2 {
-			return nil, usagef("--dims %d: allowed 1, 2", o.gpeDims)
+		if err := o.checkGPEFlags(); err != nil {
+			return nil, err
 		}
 		if sb := phases.StripeBox(o.stripeBox); sb != phases.StripeBoxOptimise && sb != phases.StripeBoxFixed {
 			return nil, usagef("--stripe-box %q: allowed: optimise, fixed", o.stripeBox)
@@ -170,6 +158,27 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 	}
 	o.check = spin1MapCheck(p)
 	return p, nil
+}
+
+// checkGPEFlags checks the grid and solver flags of --method gpe (two- and
+// three-level maps).
+func (o *mapOpts) checkGPEFlags() error {
+	if o.gpePoints != 0 && (o.gpePoints < 16 || o.gpePoints > 8192) {
+		return usagef("--points %d: allowed 16 … 8192", o.gpePoints)
+	}
+	if o.gpeStarts < 0 || o.gpeStarts > 20 {
+		return usagef("--starts %d: allowed 0 … 20", o.gpeStarts)
+	}
+	if o.gpeLength.text != "" && !(o.gpeLength.v > 0) {
+		return usagef("--length-kr %q: must be positive", o.gpeLength.text)
+	}
+	if !(o.gpeTol.v > 0) {
+		return usagef("--tol %q: must be positive", o.gpeTol.text)
+	}
+	if o.gpeDims != 1 && o.gpeDims != 2 {
+		return usagef("--dims %d: allowed 1, 2", o.gpeDims)
+	}
+	return nil
 }
 
 // lab is the scheme part of the map's lab setting (modelFlags.lab), with
