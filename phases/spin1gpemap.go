@@ -96,7 +96,10 @@ func (p *MapProblem) spin1GroundAt(u Spin1Uniform) Spin1GroundProblem {
 // keeps the lowest converged energy and decides degenerate starts by its
 // deterministic rule (largest ⟨F_z⟩, then largest ⟨k_x⟩, then the first
 // start), so every run, worker count, resume or shard gives the same
-// state. The phase is gpe.Spin1Observe's (the spin-1 labels).
+// state. (A mirror pair of the δ = 0 model, k ↔ 2K_0 − k with m ↔ −m, is
+// degenerate in the box only when its grid holds both momenta; the box is
+// sized for the variational winner's, so at Ω > 0 it usually holds that one
+// alone.) The phase is gpe.Spin1Observe's (the spin-1 labels).
 //
 // A point whose grid does not reach k_max = 4 + max|K_m|
 // (Spin1GroundSetup.Resolved: too few Points for the box, or a box beyond

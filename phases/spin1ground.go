@@ -64,7 +64,9 @@ type Spin1GroundProblem struct {
 	// Lengths (1/k_R) per axis; nil: automatic. Box: L_x = the shortest of
 	// j·gpe.AutoLength(k) (j = 1 … 8, k the largest wave momentum of the
 	// variational winner through gpe.BoxMomentum) that admits every wave
-	// momentum of the winner (else j = 1, with a warning); transverse axes
+	// momentum of the winner (else, with a warning, the j whose momentum
+	// grid is nearest to every wave: smallest largest |k − k_grid|, ties
+	// the shorter); transverse axes
 	// gpe.AutoTransverse. Trap: as the two-level GroundProblem, 2.6 × the
 	// larger of the Thomas–Fermi radius (of c0 + max(c2, 0), the widest
 	// cloud) and four oscillator lengths per axis.
@@ -293,14 +295,21 @@ func (p Spin1GroundProblem) setupBox(res *Spin1GroundResult, dims int, vs *Spin1
 		}
 		l0 := gpe.AutoLength(gpe.BoxMomentum(kmax))
 		lx := l0
-		fits := false
-		for j := 1; j <= 8 && !fits; j++ { // the shortest multiple that holds every wave
+		// The shortest multiple that holds every wave; else the multiple
+		// whose momentum grid is nearest to every wave (smallest largest
+		// |k − k_grid|; ties: the shorter).
+		fits, best, miss := false, l0, math.Inf(1)
+		for j := 1; j <= 8 && !fits; j++ {
 			lx = l0 * float64(j)
-			fits = admitsWaves(vr.State, lx)
+			if fits = admitsWaves(vr.State, lx); !fits {
+				if m := waveMisfit(vr.State, lx); m < miss*(1-1e-9) {
+					best, miss = lx, m
+				}
+			}
 		}
 		if !fits {
-			lx = l0
-			res.Warnings = append(res.Warnings, fmt.Sprintf("the box L = %.4g/k_R admits the largest variational momentum but not every one: finite-box quantisation moves the others", lx))
+			lx = best
+			res.Warnings = append(res.Warnings, fmt.Sprintf("the box L = %.4g/k_R admits the largest variational momentum but not every one (of 1…8 multiples of %.4g/k_R the nearest: a wave moves by up to %.2g k_R): finite-box quantisation moves the others", lx, l0, miss))
 		}
 		L = []float64{lx}
 		for a := 1; a < dims; a++ {
@@ -325,6 +334,16 @@ func admitsWaves(s Spin1State, lx float64) bool {
 		}
 	}
 	return true
+}
+
+// waveMisfit is the largest distance (k_R) of a wave momentum of s from
+// the momentum grid 2πj/lx of a periodic box of length lx.
+func waveMisfit(s Spin1State, lx float64) float64 {
+	m, dk := 0.0, 2*math.Pi/lx
+	for _, w := range s.Waves {
+		m = math.Max(m, math.Abs(w.K-dk*math.Round(w.K/dk)))
+	}
+	return m
 }
 
 // kmaxNeeded is the resolution the automatic points aim at, 4 + max|K_m|
