@@ -66,7 +66,7 @@ func (o *mapOpts) addFlags(fs *pflag.FlagSet) {
 	fs.StringVarP(&o.xs, "x", "x", "", "x axis NAME=LO:HI:N, or NAME=LO:HI:N:log (evenly spaced in log)") // shorthand = name: cobra completes one-letter flags only through it
 	fs.StringVarP(&o.ys, "y", "y", "", "y axis NAME=LO:HI:N or NAME=LO:HI:N:log (optional)")
 	fs.StringVar(&o.holdDelta, "hold-delta", "", "hold the detuning at every point: balance (δ = δ_b = (n g↓↓ − n g↑↑)/2) or compensate (δ/2π as at the base setting: the RF follows the micromotion shift); default: the scheme's detuning")
-	fs.StringVar(&o.method, "method", "variational", "method: variational (two-plane-wave mean-field theory) or gpe (1D GPE ground state per point)")
+	fs.StringVar(&o.method, "method", "variational", "method: variational (two-plane-wave mean-field theory) or gpe (1D GPE ground state per point; with --levels 3 the spin-1 variational theory or the three-component GPE)")
 	fs.IntVar(&o.gpePoints, "points", 0, "gpe: grid points along x (0: per point, the automatic-grid rule: k_max = π/dx ≥ 4 k_R; a given count is kept and the box shortened to fewer wavelengths; points that cannot be resolved are labelled under-resolved)")
 	o.gpeLength = qflag(fs, "length-kr", KindNumber, "", "gpe: box length in 1/k_R (default: per point, commensurate with the variational k₁)")
 	fs.IntVar(&o.gpeDims, "dims", 1, "gpe: dimension of the grid, 1 or 2 (a uniform box, or the trapped cloud with the other axes frozen out)")
