@@ -60,6 +60,7 @@ refs: deps
 	$(PY) testdata/ref_bdg.py
 	$(PY) testdata/ref_spin1.py
 	$(PY) testdata/ref_spin1_gpe.py
+	$(PY) testdata/ref_spin1_gpemap.py
 	$(PY) testdata/ref_spin1_magnetization.py
 	$(PY) testdata/ref_gpe_edge.py
 	$(PY) testdata/ref_raman.py

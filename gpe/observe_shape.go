@@ -137,7 +137,12 @@ func (d *dtftMarginal) refinePeak(k0, dk float64) float64 {
 // points x_j = −L/2 + j·Dx/2: ψ is interpolated along x by zero padding its
 // transform, so the samples are those of the continuous |ψ|².
 func fineDensityX(st *State) ([]float64, error) {
-	g := st.Grid
+	return fineDensityXOf(st.Grid, st.Psi[:])
+}
+
+// fineDensityXOf is fineDensityX of the components psi (each on g; two for
+// a pseudo-spin state, three for a spin-1 state).
+func fineDensityXOf(g *Grid, psi [][]complex128) ([]float64, error) {
 	nx := g.N[0]
 	t := g.Size / nx
 	m := 2 * nx
@@ -155,10 +160,10 @@ func fineDensityX(st *State) ([]float64, error) {
 	b := fft.Aligned(m)
 	n := make([]float64, m)
 	tv := g.DV / g.Dx[0]
-	for c := 0; c < 2; c++ {
+	for c := range psi {
 		for r := 0; r < t; r++ {
 			for i := 0; i < nx; i++ {
-				a[i] = st.Psi[c][i*t+r]
+				a[i] = psi[c][i*t+r]
 			}
 			tr1.Forward(a)
 			for i := range b {

@@ -135,6 +135,13 @@ type Spin1Observables struct {
 	// DensityRMS: √(⟨n²⟩/⟨n⟩² − 1) over the box (a measure of density
 	// modulation; meaningful as such only without a trap).
 	DensityRMS float64
+	// Contrast of the total density along x (integrated over the transverse
+	// axes), by the definitions of the two-component Observables.Contrast
+	// (ContrastDefinition of the potential): in a box (n_max − n_min)/(n_max
+	// + n_min) of the continuous density; in a harmonic trap the
+	// demodulated amplitude at the separation of the two largest momentum
+	// peaks (0 with fewer than two peaks).
+	Contrast float64
 	// Kx, MomentumX[c]: fraction of atoms of component c at k_x = Kx[i]
 	// (ascending), summed over k_⊥.
 	Kx        []float64
@@ -228,6 +235,24 @@ func Spin1Observe(p Spin1Problem, r *Spin1Result, d dispersion.Spin1Model, th la
 		ob.PeakK = append(ob.PeakK, q.k)
 		ob.PeakWeight = append(ob.PeakWeight, q.w)
 	}
+	nf, err := fineDensityXOf(g, st.Psi[:])
+	if err != nil {
+		return nil, err
+	}
+	h, x0 := g.Dx[0]/2, g.X[0][0]
+	switch pot := p.Model.Potential; {
+	case pot.Kind == Harmonic:
+		if len(peaks) >= 2 {
+			ob.Contrast, _ = contrastDemod(nf, x0, h, math.Abs(peaks[0].k-peaks[1].k)/2)
+		}
+	case pot.Kind == HardBox && pot.Width[0] > 0:
+		ob.Contrast, err = contrastMaxMin(nf, x0, h, -pot.Width[0]/4, pot.Width[0]/4)
+	default:
+		ob.Contrast, err = contrastMaxMin(nf, x0, h, math.Inf(-1), math.Inf(1))
+	}
+	if err != nil {
+		return nil, err
+	}
 	if r.Status != Converged {
 		ob.Phase = label.NotConverged
 		return ob, nil
@@ -272,6 +297,10 @@ type Spin1StartReport struct {
 	Residual   float64
 	SplitSteps int
 	Iterations int
+	// Fz: ⟨F_z⟩ per particle; Kx: the mean momentum ⟨k_x⟩ (k_R, over all
+	// components) of the start's state — the keys of the tie-break of
+	// Spin1MultiStart.
+	Fz, Kx float64
 }
 
 // Spin1MultiResult is the outcome of Spin1MultiStart.
@@ -283,16 +312,46 @@ type Spin1MultiResult struct {
 	Converged int
 }
 
+// Spin1DegenerateTol (E_R) is the energy difference below which
+// Spin1MultiStart treats two converged starts as degenerate (as
+// phases.DegenerateTol for the two-level maps: far above the rounding of
+// converged energies, ≈ 1e-14 E_R, far below the energy differences of
+// phases).
+const Spin1DegenerateTol = 1e-9
+
+// spin1TieTol: ⟨F_z⟩ and ⟨k_x⟩ values closer than this are equal for the
+// tie-break.
+const spin1TieTol = 1e-6
+
 // Spin1MultiStart solves p from each guess (DefaultSpin1Guesses(d) when
-// guesses is empty) and keeps the lowest energy among the converged starts;
-// a tie within 1e-12 E_R keeps the earlier start. Every start is reported.
+// guesses is empty) and keeps, by a deterministic rule (the same guesses
+// give the same kept state in every run):
+//
+//  1. the lowest converged energy E₀; every converged start with energy
+//     ≤ E₀ + Spin1DegenerateTol is a candidate (without a converged start:
+//     the lowest energy of all);
+//  2. among the candidates the largest ⟨F_z⟩ (values within 1e-6 equal):
+//     of the degenerate ferromagnetic states at M free the F_z > 0 one, of
+//     the mirror pair of plane waves k ↔ 2K_0 − k (m ↔ −m) the one with
+//     more m = +1;
+//  3. then the largest mean momentum ⟨k_x⟩ (within 1e-6 equal): the
+//     mirror pair at a fixed magnetisation;
+//  4. then the first in guess order.
+//
+// Every start is reported.
 func Spin1MultiStart(p Spin1Problem, d dispersion.Spin1Model, guesses []Spin1Guess, s *Settings) (*Spin1MultiResult, error) {
 	if len(guesses) == 0 {
 		guesses = DefaultSpin1Guesses(d)
 	}
+	e, err := newSpin1Engine(p.Grid, p.Model, 0)
+	if err != nil {
+		return nil, err
+	}
+	defer e.close()
 	mr := &Spin1MultiResult{BestIndex: -1}
+	var results []*Spin1Result
 	lo, hi := math.Inf(1), math.Inf(-1)
-	for i, gs := range guesses {
+	for _, gs := range guesses {
 		st, err := gs.Build(p, d)
 		if err != nil {
 			return nil, err
@@ -303,23 +362,67 @@ func Spin1MultiStart(p Spin1Problem, d dispersion.Spin1Model, guesses []Spin1Gue
 		}
 		rep := Spin1StartReport{Name: gs.Name, Status: r.Status, Energy: r.Energies.Total, Residual: r.Residual,
 			SplitSteps: r.SplitSteps, Iterations: r.Iterations}
+		rep.Fz, rep.Kx = e.fzKx(r.State)
 		mr.Starts = append(mr.Starts, rep)
-		conv := r.Status == Converged
-		if conv {
+		results = append(results, r)
+		if r.Status == Converged {
 			mr.Converged++
 			lo, hi = math.Min(lo, rep.Energy), math.Max(hi, rep.Energy)
 		}
-		better := mr.Best == nil || (conv && mr.Best.Status != Converged) ||
-			(conv == (mr.Best.Status == Converged) && rep.Energy < mr.Best.Energies.Total-1e-12)
-		if better {
-			mr.Best, mr.BestIndex = r, i
-		}
 	}
-	if mr.Best == nil {
+	if len(results) == 0 {
 		return nil, errors.New("gpe: no starts")
 	}
+	for i, rep := range mr.Starts {
+		if mr.Converged > 0 && (rep.Status != Converged || rep.Energy > lo+Spin1DegenerateTol) {
+			continue
+		}
+		if mr.BestIndex < 0 {
+			mr.BestIndex = i
+			continue
+		}
+		b := mr.Starts[mr.BestIndex]
+		switch {
+		case mr.Converged == 0:
+			if rep.Energy < b.Energy {
+				mr.BestIndex = i
+			}
+		case rep.Fz > b.Fz+spin1TieTol:
+			mr.BestIndex = i
+		case rep.Fz >= b.Fz-spin1TieTol && rep.Kx > b.Kx+spin1TieTol:
+			mr.BestIndex = i
+		}
+	}
+	mr.Best = results[mr.BestIndex]
 	if mr.Converged >= 2 {
 		mr.Spread = hi - lo
 	}
 	return mr, nil
+}
+
+// fzKx returns ⟨F_z⟩ per particle and the mean momentum ⟨k_x⟩ of st (its
+// transforms in e.tmp).
+func (e *spin1Engine) fzKx(st *Spin1State) (float64, float64) {
+	g := e.g
+	var fz, n, kx, nk float64
+	for c := 0; c < 3; c++ {
+		sign := float64(1 - c)
+		for _, v := range st.Psi[c] {
+			w := abs2(v)
+			fz += sign * w
+			n += w
+		}
+		copy(e.tmp[c], st.Psi[c])
+		e.tr.Forward(e.tmp[c])
+		for idx, v := range e.tmp[c] {
+			i, _, _ := g.Coords(idx)
+			w := abs2(v)
+			kx += g.K[0][i] * w
+			nk += w
+		}
+	}
+	if !(n > 0) || !(nk > 0) {
+		return 0, 0
+	}
+	return fz / n, kx / nk
 }

@@ -271,6 +271,17 @@ func lineOverX(xv []float64, mask []bool, v []float64, abs bool, xl, yl string) 
 	}
 	l.Width = vg.Points(2)
 	q.Add(plotter.NewGrid(), l)
+	// A constant line (to rounding: the contrast of uniform GPE states is
+	// ≈ 1e-15) gets a range of ±5 % of its value, at least ±0.05, instead of
+	// one that magnifies the rounding (not below 0 for a magnitude).
+	if q.Y.Max-q.Y.Min < 1e-9 {
+		mid := (q.Y.Max + q.Y.Min) / 2
+		h := math.Max(0.05*math.Abs(mid), 0.05)
+		q.Y.Min, q.Y.Max = mid-h, mid+h
+		if abs && q.Y.Min < 0 {
+			q.Y.Min, q.Y.Max = 0, 2*h
+		}
+	}
 	return q, true
 }
 

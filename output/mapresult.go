@@ -85,6 +85,13 @@ func (r *MapResult) Plot() MapPlot {
 	if d.Spec.Method == string(phases.MethodSpin1) {
 		title = fmt.Sprintf("Spin-1 (F = 1) variational phase diagram, %s", r.subtitle())
 	}
+	if d.Spec.Method == string(phases.MethodSpin1GPE) {
+		dims := 1
+		if r.Problem != nil && r.Problem.Spin1.GPE.Dims > 1 {
+			dims = r.Problem.Spin1.GPE.Dims
+		}
+		title = fmt.Sprintf("Spin-1 (F = 1) phase diagram from %dD GPE ground states, %s", dims, r.subtitle())
+	}
 	mp := MapPlot{Data: d, Title: r.titleWith(title)}
 	xs, ys := axisScale(d.Spec.Sweep.X), axisScale(d.Spec.Sweep.Y)
 	var bs []phases.Boundary
@@ -126,7 +133,7 @@ func (r *MapResult) titleWith(title string) string {
 		}
 	}
 	parts := SettingParts(r.Problem.Lab, except)
-	if r.Problem.Method == phases.MethodSpin1 {
+	if r.Problem.Method == phases.MethodSpin1 || r.Problem.Method == phases.MethodSpin1GPE {
 		parts = spin1SettingParts(r.Problem, parts)
 	}
 	return titleWith(title, parts, 110)
@@ -148,8 +155,13 @@ func (r *MapResult) WritePNG(w io.Writer) error { return r.Plot().WritePNG(w) }
 func (r *MapResult) ObservableFigure(name string) (*Figure, error) {
 	mp := r.Plot()
 	method := "variational"
-	if r.Data.Spec.Method == string(phases.MethodGPE) {
+	switch r.Data.Spec.Method {
+	case string(phases.MethodGPE):
 		method = "1D GPE"
+	case string(phases.MethodSpin1):
+		method = "spin-1 variational"
+	case string(phases.MethodSpin1GPE):
+		method = "spin-1 GPE"
 	}
 	mp.Title = r.titleWith(fmt.Sprintf("%s (%s), %s", name, method, r.subtitle()))
 	return mp.ObservableFigure(name)

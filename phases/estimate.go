@@ -66,6 +66,14 @@ const (
 	// per point with the start-up); BenchmarkGPEMap 5.9 ms per point of
 	// wall time under load.
 	CostGPEPoint256 = 4 * time.Millisecond
+	// CostSpin1GPEPoint256: one 1D spin-1 GPE map point (MethodSpin1GPE,
+	// the variational winner and gpe.DefaultSpin1Guesses: up to ten
+	// starts) on a 256-point grid on one worker; it scales with the grid
+	// points, and each random start adds a tenth. Measured: 28 points of a
+	// map over Ω = 0…3 at ε = 0.05…1.5 (direct model, n c0 = 1 E_R,
+	// n c2 = −0.1, −0.5 E_R), 0.17–1.6 s per point, mean 0.61 s of wall
+	// time at load ≈ 4 on the 2-core machine.
+	CostSpin1GPEPoint256 = 600 * time.Millisecond
 	// CostGroundPointStart: CPU time of one start of a ground-state solve
 	// per grid point (split steps then the finisher, ≈ 100 finisher
 	// iterations' worth). Measured: 2D 256² with 5 starts, 2.93 s of user
@@ -185,6 +193,17 @@ func (p *MapProblem) Estimate(s *RunSettings) Estimate {
 		perPoint = CostGPEPoint256.Seconds() * grid / 256 * starts / 3
 		mem += float64(workers) * CostGroundPointMemory(dims) * grid
 		what += fmt.Sprintf(", GPE (%dD, %.0f grid points)", dims, grid)
+	} else if p.method() == MethodSpin1GPE {
+		gs := p.Spin1.GPE
+		dims := gs.dims()
+		n := gs.Points
+		if n == 0 {
+			n = gpe.AutoPointsMax[dims] // the automatic rule's power-of-two ceiling per axis
+		}
+		grid := math.Pow(float64(n), float64(dims))
+		perPoint = CostSpin1GPEPoint256.Seconds() * grid / 256 * (1 + float64(gs.RandomStarts)/10)
+		mem += float64(workers) * 1.5 * CostGroundPointMemory(dims) * grid // three components for two
+		what += fmt.Sprintf(", spin-1 GPE (%dD, %.0f grid points)", dims, grid)
 	} else {
 		perPoint = CostVariationalPoint.Seconds()
 		what += ", variational"

@@ -95,8 +95,11 @@ func (p *MapProblem) method() Method {
 // ExcitationObservables (with Excitations) and LabObservables when the
 // lab's scheme has an atom (HasLabUnits).
 func (p *MapProblem) Sweep() Sweep {
-	if p.method() == MethodSpin1 {
+	switch p.method() {
+	case MethodSpin1:
 		return Sweep{X: p.X, Y: p.Y, Observables: Spin1Observables}
+	case MethodSpin1GPE:
+		return Sweep{X: p.X, Y: p.Y, Observables: Spin1GPEObservables}
 	}
 	obs := p.methodObservables()
 	if p.Excitations {
@@ -157,8 +160,8 @@ func labValues(u Uniform, m dispersion.Model, r PointResult) []float64 {
 // last point (a point without recoil, ErrNoRecoil, is allowed: it is
 // labelled label.NoCoupling).
 func (p *MapProblem) Check() error {
-	if m := p.method(); m != MethodVariational && m != MethodGPE && m != MethodSpin1 {
-		return fmt.Errorf("method %q: allowed: variational, gpe, %s", p.Method, MethodSpin1)
+	if m := p.method(); m != MethodVariational && m != MethodGPE && !m.isSpin1() {
+		return fmt.Errorf("method %q: allowed: variational, gpe, %s, %s", p.Method, MethodSpin1, MethodSpin1GPE)
 	}
 	if p.X.Len() == 0 {
 		return errors.New("the x axis has no points")
@@ -174,7 +177,7 @@ func (p *MapProblem) Check() error {
 	if p.Y.Len() > 0 && p.Y.Name == p.X.Name {
 		return fmt.Errorf("the y axis is the x axis (%s)", p.X.Name)
 	}
-	if p.method() == MethodSpin1 {
+	if p.method().isSpin1() {
 		return p.checkSpin1()
 	}
 	switch p.HoldDelta {
@@ -277,8 +280,11 @@ func (p *MapProblem) Uniform(ix, iy int) (Uniform, error) {
 // With lab units (HasLabUnits) each point's model is resolved once and
 // LabObservables follow the method's values.
 func (p *MapProblem) Points() PointFunc {
-	if p.method() == MethodSpin1 {
+	switch p.method() {
+	case MethodSpin1:
 		return p.Spin1Points()
+	case MethodSpin1GPE:
+		return p.Spin1GPEPoints()
 	}
 	if p.Trap != nil && p.method() == MethodGPE {
 		return p.trapPoints()
@@ -390,7 +396,7 @@ func (p *MapProblem) Identity() Identity {
 			add("stripe-box", string(p.GPE.stripeBox()))
 		}
 	}
-	if p.method() == MethodSpin1 {
+	if p.method().isSpin1() {
 		id = append(id, p.spin1Identity()...)
 	}
 	if p.Excitations {

@@ -64,15 +64,24 @@ type Spin1GroundProblem struct {
 	// Lengths (1/k_R) per axis; nil: automatic. Box: L_x = the shortest of
 	// j·gpe.AutoLength(k) (j = 1 … 8, k the largest wave momentum of the
 	// variational winner through gpe.BoxMomentum) that admits every wave
-	// momentum of the winner (else j = 1, with a warning); transverse axes
+	// momentum of the winner (else, with a warning, the j whose momentum
+	// grid is nearest to every wave: smallest largest |k − k_grid|, ties
+	// the shorter); transverse axes
 	// gpe.AutoTransverse. Trap: as the two-level GroundProblem, 2.6 × the
 	// larger of the Thomas–Fermi radius (of c0 + max(c2, 0), the widest
 	// cloud) and four oscillator lengths per axis.
 	Lengths []float64
 	// Points per axis; nil: the smallest power of two from
 	// gpe.AutoPointsMin[dim] with k_max = πn/L ≥ 4 + max|K_m| (the offsets
-	// K_m shift the parabolas), at most gpe.AutoPointsMax[dim].
+	// K_m shift the parabolas), at most gpe.AutoPointsMax[dim]; when that
+	// ceiling does not reach 4 + max|K_m|, the smallest FFT-friendly size
+	// (gpe.FFTSize) that does, up to gpe.AutoPointsLimit[dim] (the
+	// escalation of gpe.ResolveBox). Spin1GroundSetup.Resolved says whether
+	// the grid reaches it.
 	Points []int
+	// RandomStarts: random starts (seeds 2…n+1) after the default guesses,
+	// which hold seed 1. Default 0.
+	RandomStarts int
 	// FixMagnetization, Magnetization: hold ⟨F_z⟩ = M (−1 < M < 1) in the
 	// variational theory and the GPE (gpe.Spin1Problem). Default: free.
 	FixMagnetization bool
@@ -120,17 +129,55 @@ type Spin1GroundResult struct {
 	// two-level energy is that of the free pair (its ⟨σ_z⟩ is not M).
 	PairEnergyDiff float64
 	PairPhase      string
+	// BoxAdmitsWaves (uniform box only): every wave momentum of the
+	// variational winner lies on the box's momentum grid (k·L/2π an
+	// integer to 1e-6). Otherwise finite-box quantisation moves a wave and
+	// the GPE energy can lie above the variational one (stripes of
+	// incommensurate momenta).
+	BoxAdmitsWaves bool
 	// Notes: what was chosen (box, reduced couplings), one line each.
 	Notes    []string
 	Warnings []string
 }
 
+// Spin1GroundSetup is a Spin1GroundProblem set up, before any solve: the
+// GPE problem (grid and model), the variational answer and the starts.
+// Spin1Ground is Setup then Solve; the spin-1 GPE map points
+// (MethodSpin1GPE) use the two steps to label a point whose box is not
+// resolved before solving it.
+type Spin1GroundSetup struct {
+	// Result holds Problem, Trapped, Units, the variational answer, Notes
+	// and Warnings; Solve fills in the rest.
+	Result *Spin1GroundResult
+	// Guesses: the variational winner (when it has waves), then
+	// gpe.DefaultSpin1Guesses, then the RandomStarts (seeds 2…n+1).
+	Guesses []gpe.Spin1Guess
+	// KMaxNeeded = 4 + max|K_m| (k_R), the resolution the automatic points
+	// aim at; Resolved: every axis of the grid has π·n/L ≥ KMaxNeeded.
+	KMaxNeeded float64
+	Resolved   bool
+	model      dispersion.Spin1Model
+	vs         Spin1Settings
+}
+
 // Spin1Ground solves p: the variational theory first (its winner sizes a
-// box and is one of the starts), then gpe.Spin1MultiStart from the default
-// guesses plus the variational winner (in a trap under the Gaussian
-// envelope of gpe.Spin1Guess). Settings s are passed to the solver.
+// box and is one of the starts), then gpe.Spin1MultiStart from the
+// variational winner plus the default guesses (in a trap under the Gaussian
+// envelope of gpe.Spin1Guess) and the RandomStarts, whose rule keeps
+// degenerate states deterministically. Settings s are passed to the solver.
 // Errors of p's settings wrap dispersion.ErrBadInput.
 func Spin1Ground(p Spin1GroundProblem, s *gpe.Settings) (*Spin1GroundResult, error) {
+	su, err := p.Setup()
+	if err != nil {
+		return nil, err
+	}
+	return su.Solve(s)
+}
+
+// Setup checks p, runs the variational theory and sizes the grid (the
+// first step of Spin1Ground; nothing of the grid's size but the model's
+// arrays is allocated).
+func (p Spin1GroundProblem) Setup() (*Spin1GroundSetup, error) {
 	dims := p.Dims
 	if dims == 0 {
 		dims = 1
@@ -146,6 +193,9 @@ func Spin1Ground(p Spin1GroundProblem, s *gpe.Settings) (*Spin1GroundResult, err
 	}
 	if p.FixMagnetization && !(p.Magnetization > -1 && p.Magnetization < 1) {
 		return nil, fmt.Errorf("%w: magnetisation %g: allowed −1 < M < 1", dispersion.ErrBadInput, p.Magnetization)
+	}
+	if p.RandomStarts < 0 {
+		return nil, fmt.Errorf("%w: %d random starts: must be ≥ 0", dispersion.ErrBadInput, p.RandomStarts)
 	}
 	var vs Spin1Settings
 	if p.Variational != nil {
@@ -176,6 +226,15 @@ func Spin1Ground(p Spin1GroundProblem, s *gpe.Settings) (*Spin1GroundResult, err
 		return nil, fmt.Errorf("%w: %v", dispersion.ErrBadInput, err)
 	}
 	res.Problem = prob
+	if p.Trap == nil {
+		res.BoxAdmitsWaves = admitsWaves(res.Variational.State, prob.Grid.L[0])
+	}
+	su := &Spin1GroundSetup{Result: res, model: p.Model, vs: vs, KMaxNeeded: p.kmaxNeeded(), Resolved: true}
+	for a := 0; a < dims; a++ {
+		if g := prob.Grid; math.Pi*float64(g.N[a])/g.L[a] < su.KMaxNeeded*(1-1e-12) {
+			su.Resolved = false
+		}
+	}
 	vr := res.Variational
 	guesses := gpe.DefaultSpin1Guesses(p.Model)
 	vg := gpe.Spin1Guess{Name: "variational " + vr.Phase.String()}
@@ -186,20 +245,32 @@ func Spin1Ground(p Spin1GroundProblem, s *gpe.Settings) (*Spin1GroundResult, err
 	if len(vg.K) > 0 {
 		guesses = append([]gpe.Spin1Guess{vg}, guesses...)
 	}
-	mr, err := gpe.Spin1MultiStart(prob, p.Model, guesses, s)
+	for i := 2; i <= p.RandomStarts+1; i++ {
+		guesses = append(guesses, gpe.Spin1Guess{Name: fmt.Sprintf("random seed=%d", i), Random: true, Seed: uint64(i)})
+	}
+	su.Guesses = guesses
+	return su, nil
+}
+
+// Solve runs gpe.Spin1MultiStart from the set-up's guesses with solver
+// settings s and completes the result (the second step of Spin1Ground).
+func (su *Spin1GroundSetup) Solve(s *gpe.Settings) (*Spin1GroundResult, error) {
+	res := su.Result
+	prob, vr := res.Problem, res.Variational
+	mr, err := gpe.Spin1MultiStart(prob, su.model, su.Guesses, s)
 	if err != nil {
 		return nil, err
 	}
 	res.Multi = mr
 	res.Status = mr.Best.Status
-	ob, err := gpe.Spin1Observe(prob, mr.Best, p.Model, vs.withDefaults().Thresholds)
+	ob, err := gpe.Spin1Observe(prob, mr.Best, su.model, su.vs.withDefaults().Thresholds)
 	if err != nil {
 		return nil, err
 	}
 	res.Observed = ob
 	// two-level comparison at the variational densities
-	pm := p.Model.PairModel()
-	gg := spin1PairCouplings(p.Model.Up, p.Model.Down, res.VarG0, res.VarG2)
+	pm := su.model.PairModel()
+	gg := spin1PairCouplings(su.model.Up, su.model.Down, res.VarG0, res.VarG2)
 	r2, err := Variational(Uniform{Omega: pm.Omega, Delta: pm.Delta, Guu: gg[0], Gdd: gg[1], Gud: gg[2]}, nil)
 	if err == nil && vr.Status == Converged {
 		res.PairEnergyDiff = r2.Energy - vr.Energy
@@ -224,20 +295,21 @@ func (p Spin1GroundProblem) setupBox(res *Spin1GroundResult, dims int, vs *Spin1
 		}
 		l0 := gpe.AutoLength(gpe.BoxMomentum(kmax))
 		lx := l0
-		fits := false
-		for j := 1; j <= 8 && !fits; j++ { // the shortest multiple that holds every wave
+		// The shortest multiple that holds every wave; else the multiple
+		// whose momentum grid is nearest to every wave (smallest largest
+		// |k − k_grid|; ties: the shorter).
+		fits, best, miss := false, l0, math.Inf(1)
+		for j := 1; j <= 8 && !fits; j++ {
 			lx = l0 * float64(j)
-			fits = true
-			for _, w := range vr.State.Waves {
-				q := w.K * lx / (2 * math.Pi)
-				if math.Abs(q-math.Round(q)) > 1e-6 {
-					fits = false
+			if fits = admitsWaves(vr.State, lx); !fits {
+				if m := waveMisfit(vr.State, lx); m < miss*(1-1e-9) {
+					best, miss = lx, m
 				}
 			}
 		}
 		if !fits {
-			lx = l0
-			res.Warnings = append(res.Warnings, fmt.Sprintf("the box L = %.4g/k_R admits the largest variational momentum but not every one: finite-box quantisation moves the others", lx))
+			lx = best
+			res.Warnings = append(res.Warnings, fmt.Sprintf("the box L = %.4g/k_R admits the largest variational momentum but not every one (of 1…8 multiples of %.4g/k_R the nearest: a wave moves by up to %.2g k_R): finite-box quantisation moves the others", lx, l0, miss))
 		}
 		L = []float64{lx}
 		for a := 1; a < dims; a++ {
@@ -251,20 +323,57 @@ func (p Spin1GroundProblem) setupBox(res *Spin1GroundResult, dims int, vs *Spin1
 	return gpe.Spin1Problem{Grid: g, Model: gpe.Spin1UniformBox(g, p.Model, p.G0, p.G2)}, nil
 }
 
+// admitsWaves reports whether every wave momentum of s lies on the
+// momentum grid of a periodic box of length lx (k·lx/2π an integer to
+// 1e-6).
+func admitsWaves(s Spin1State, lx float64) bool {
+	for _, w := range s.Waves {
+		q := w.K * lx / (2 * math.Pi)
+		if math.Abs(q-math.Round(q)) > 1e-6 {
+			return false
+		}
+	}
+	return true
+}
+
+// waveMisfit is the largest distance (k_R) of a wave momentum of s from
+// the momentum grid 2πj/lx of a periodic box of length lx.
+func waveMisfit(s Spin1State, lx float64) float64 {
+	m, dk := 0.0, 2*math.Pi/lx
+	for _, w := range s.Waves {
+		m = math.Max(m, math.Abs(w.K-dk*math.Round(w.K/dk)))
+	}
+	return m
+}
+
+// kmaxNeeded is the resolution the automatic points aim at, 4 + max|K_m|
+// (k_R).
+func (p Spin1GroundProblem) kmaxNeeded() float64 {
+	kk := 0.0
+	for _, k := range p.Model.K {
+		kk = math.Max(kk, math.Abs(k))
+	}
+	return gpe.ResolvedKMax + kk
+}
+
 // points: the given points or the automatic rule of Spin1GroundProblem.Points.
 func (p Spin1GroundProblem) points(L []float64, dims int) []int {
 	if p.Points != nil {
 		return p.Points
 	}
-	kk := 0.0
-	for _, k := range p.Model.K {
-		kk = math.Max(kk, math.Abs(k))
-	}
+	need := p.kmaxNeeded()
 	var pts []int
 	for _, l := range L {
 		n, max := gpe.AutoPointsMin[dims], gpe.AutoPointsMax[dims]
-		for math.Pi*float64(n)/l < 4+kk && 2*n <= max {
+		for math.Pi*float64(n)/l < need && 2*n <= max {
 			n *= 2
+		}
+		if math.Pi*float64(n)/l < need*(1-1e-12) { // beyond the ceiling: FFT-friendly sizes, as gpe.ResolveBox
+			if m := gpe.FFTSize(int(math.Ceil(need*l/math.Pi*(1-1e-12))), gpe.AutoPointsLimit[dims]); m > 0 {
+				n = m
+			} else {
+				n = gpe.AutoPointsLimit[dims]
+			}
 		}
 		pts = append(pts, n)
 	}

@@ -1,7 +1,6 @@
 package phases
 
 import (
-	"context"
 	"fmt"
 	"math"
 
@@ -32,6 +31,9 @@ type Spin1MapSettings struct {
 	// Variational: settings of Spin1Variational (nil: defaults; the
 	// magnetisation fields above override its own).
 	Variational *Spin1Settings
+	// GPE: grid and solver of MethodSpin1GPE (spin1gpemap.go); not used by
+	// MethodSpin1.
+	GPE Spin1GPESettings
 }
 
 // Spin1Observables are the observables of a MethodSpin1 point, in the
@@ -66,6 +68,11 @@ func (p *MapProblem) checkSpin1() error {
 	s := p.Spin1
 	if s.FixMagnetization && !(s.Magnetization > -1 && s.Magnetization < 1) {
 		return fmt.Errorf("magnetisation %g: allowed −1 < M < 1", s.Magnetization)
+	}
+	if p.method() == MethodSpin1GPE {
+		if err := p.checkSpin1GPE(); err != nil {
+			return err
+		}
 	}
 	nx, ny := p.Sweep().Shape()
 	for _, c := range [][2]int{{0, 0}, {nx - 1, ny - 1}} {
@@ -125,35 +132,16 @@ func (p *MapProblem) spin1Settings() *Spin1Settings {
 // label.NotConverged; a point without recoil label.NoCoupling (values NaN).
 func (p *MapProblem) Spin1Points() PointFunc {
 	vs := p.spin1Settings()
-	nan := func(ph label.Phase) PointResult {
-		v := make([]float64, len(Spin1Observables))
-		for i := range v {
-			v[i] = math.NaN()
-		}
-		return PointResult{Phase: ph, Values: v}
-	}
-	return func(ctx context.Context, ix, iy int) (PointResult, error) {
-		if err := ctx.Err(); err != nil {
-			return PointResult{}, err
-		}
-		u, err := p.Spin1At(ix, iy)
-		if err != nil {
-			if m, e2 := p.LabAt(ix, iy); e2 == nil {
-				if mm, e3 := m.Model(); e3 == nil && mm.ER == 0 {
-					return nan(label.NoCoupling), nil
-				}
-			}
-			return PointResult{}, err
-		}
+	return spin1MapPoints(p, len(Spin1Observables), func(ix, iy int, u Spin1Uniform) (PointResult, error) {
 		r, err := Spin1Variational(u, vs)
 		if err != nil {
 			return PointResult{}, fmt.Errorf("point (%d, %d): %w", ix, iy, err)
 		}
 		if r.Status != Converged {
-			return nan(label.NotConverged), nil
+			return PointResult{Phase: label.NotConverged, Values: nanValues(len(Spin1Observables))}, nil
 		}
 		return r.Point(), nil
-	}
+	})
 }
 
 // spin1Identity: the settings MethodSpin1 adds to the map's identity.
@@ -174,6 +162,9 @@ func (p *MapProblem) spin1Identity() []dispersion.Setting {
 	}
 	if s.FixMagnetization {
 		add("magnetization", num(s.Magnetization))
+	}
+	if p.method() == MethodSpin1GPE {
+		id = append(id, p.spin1GPEIdentity()...)
 	}
 	return id
 }

@@ -101,37 +101,42 @@ def solve(case, starts=8):
     return float(e), float(mu), float(res), [float(v) for v in pops]
 
 
-cases = []
-K, E = raman_pair_gauge(1.5, 0.2, 0.5)
-cases.append({"name": "Raman box, ferromagnetic", "points": 32, "length": 4 * np.pi, "K": K, "E": E,
-              "omega": 1.5, "c0": 1.0, "c2": -0.3, "norm": 4 * np.pi, "trap_omega": 0.0})
-K, E = raman_pair_gauge(0.8, 0.0, -0.2)
-cases.append({"name": "Raman box, three minima, ferromagnetic", "points": 32, "length": 4 * np.pi, "K": K, "E": E,
-              "omega": 0.8, "c0": 2.0, "c2": -0.5, "norm": 4 * np.pi, "trap_omega": 0.0})
-K, E = raman_pair_gauge(2.0, 1.3, 1.0)
-cases.append({"name": "Raman trap, antiferromagnetic", "points": 64, "length": 24.0, "K": K, "E": E,
-              "omega": 2.0, "c0": 10.0, "c2": 1.0, "norm": 1.0, "trap_omega": 0.5})
-for c in cases:
-    e, mu, res, pops = solve(c)
-    c.update({"energy": e, "mu": mu, "residual": res, "populations": pops})
-
-out = {"cases": cases}
-path = os.path.join(os.path.dirname(os.path.abspath(__file__)), "ref_spin1_gpe.json")
-if "--write" in sys.argv:
-    tmp = path + ".tmp"
-    with open(tmp, "w") as f:
-        json.dump(out, f, indent=1)
-    os.replace(tmp, path)
+def main():
+    cases = []
+    K, E = raman_pair_gauge(1.5, 0.2, 0.5)
+    cases.append({"name": "Raman box, ferromagnetic", "points": 32, "length": 4 * np.pi, "K": K, "E": E,
+                  "omega": 1.5, "c0": 1.0, "c2": -0.3, "norm": 4 * np.pi, "trap_omega": 0.0})
+    K, E = raman_pair_gauge(0.8, 0.0, -0.2)
+    cases.append({"name": "Raman box, three minima, ferromagnetic", "points": 32, "length": 4 * np.pi, "K": K, "E": E,
+                  "omega": 0.8, "c0": 2.0, "c2": -0.5, "norm": 4 * np.pi, "trap_omega": 0.0})
+    K, E = raman_pair_gauge(2.0, 1.3, 1.0)
+    cases.append({"name": "Raman trap, antiferromagnetic", "points": 64, "length": 24.0, "K": K, "E": E,
+                  "omega": 2.0, "c0": 10.0, "c2": 1.0, "norm": 1.0, "trap_omega": 0.5})
     for c in cases:
-        print(f"ref_spin1_gpe.py: {c['name']}: E = {c['energy']:.12f} E_R, residual {c['residual']:.1e}")
-else:
-    with open(path) as f:
-        committed = json.load(f)
-    bad = 0
-    for a, b in zip(cases, committed["cases"]):
-        if abs(a["energy"] - b["energy"]) > 1e-9:
-            print(f"FAIL: {a['name']}: committed {b['energy']!r}, fresh {a['energy']!r}")
-            bad += 1
-    if bad or len(cases) != len(committed["cases"]):
-        sys.exit(1)
-    print(f"ref_spin1_gpe.py: {len(cases)} three-component GPE energies agree with {os.path.basename(path)}")
+        e, mu, res, pops = solve(c)
+        c.update({"energy": e, "mu": mu, "residual": res, "populations": pops})
+
+    out = {"cases": cases}
+    path = os.path.join(os.path.dirname(os.path.abspath(__file__)), "ref_spin1_gpe.json")
+    if "--write" in sys.argv:
+        tmp = path + ".tmp"
+        with open(tmp, "w") as f:
+            json.dump(out, f, indent=1)
+        os.replace(tmp, path)
+        for c in cases:
+            print(f"ref_spin1_gpe.py: {c['name']}: E = {c['energy']:.12f} E_R, residual {c['residual']:.1e}")
+    else:
+        with open(path) as f:
+            committed = json.load(f)
+        bad = 0
+        for a, b in zip(cases, committed["cases"]):
+            if abs(a["energy"] - b["energy"]) > 1e-9:
+                print(f"FAIL: {a['name']}: committed {b['energy']!r}, fresh {a['energy']!r}")
+                bad += 1
+        if bad or len(cases) != len(committed["cases"]):
+            sys.exit(1)
+        print(f"ref_spin1_gpe.py: {len(cases)} three-component GPE energies agree with {os.path.basename(path)}")
+
+
+if __name__ == "__main__":
+    main()

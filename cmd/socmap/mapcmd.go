@@ -66,7 +66,7 @@ func (o *mapOpts) addFlags(fs *pflag.FlagSet) {
 	fs.StringVarP(&o.xs, "x", "x", "", "x axis NAME=LO:HI:N, or NAME=LO:HI:N:log (evenly spaced in log)") // shorthand = name: cobra completes one-letter flags only through it
 	fs.StringVarP(&o.ys, "y", "y", "", "y axis NAME=LO:HI:N or NAME=LO:HI:N:log (optional)")
 	fs.StringVar(&o.holdDelta, "hold-delta", "", "hold the detuning at every point: balance (δ = δ_b = (n g↓↓ − n g↑↑)/2) or compensate (δ/2π as at the base setting: the RF follows the micromotion shift); default: the scheme's detuning")
-	fs.StringVar(&o.method, "method", "variational", "method: variational (two-plane-wave mean-field theory) or gpe (1D GPE ground state per point)")
+	fs.StringVar(&o.method, "method", "variational", "method: variational (two-plane-wave mean-field theory) or gpe (1D GPE ground state per point; with --levels 3 the spin-1 variational theory or the three-component GPE)")
 	fs.IntVar(&o.gpePoints, "points", 0, "gpe: grid points along x (0: per point, the automatic-grid rule: k_max = π/dx ≥ 4 k_R; a given count is kept and the box shortened to fewer wavelengths; points that cannot be resolved are labelled under-resolved)")
 	o.gpeLength = qflag(fs, "length-kr", KindNumber, "", "gpe: box length in 1/k_R (default: per point, commensurate with the variational k₁)")
 	fs.IntVar(&o.gpeDims, "dims", 1, "gpe: dimension of the grid, 1 or 2 (a uniform box, or the trapped cloud with the other axes frozen out)")
@@ -109,20 +109,8 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 		p.GPEEdge = &phases.GPEEdgeSettings{}
 	}
 	if p.Method == phases.MethodGPE {
-		if o.gpePoints != 0 && (o.gpePoints < 16 || o.gpePoints > 8192) {
-			return nil, usagef("--points %d: allowed 16 … 8192", o.gpePoints)
-		}
-		if o.gpeStarts < 0 || o.gpeStarts > 20 {
-			return nil, usagef("--starts %d: allowed 0 … 20", o.gpeStarts)
-		}
-		if o.gpeLength.text != "" && !(o.gpeLength.v > 0) {
-			return nil, usagef("--length-kr %q: must be positive", o.gpeLength.text)
-		}
-		if !(o.gpeTol.v > 0) {
-			return nil, usagef("--tol %q: must be positive", o.gpeTol.text)
-		}
-		if o.gpeDims != 1 && o.gpeDims != 2 {
-			return nil, usagef("--dims %d: allowed 1, 2", o.gpeDims)
+		if err := o.checkGPEFlags(); err != nil {
+			return nil, err
 		}
 		if sb := phases.StripeBox(o.stripeBox); sb != phases.StripeBoxOptimise && sb != phases.StripeBoxFixed {
 			return nil, usagef("--stripe-box %q: allowed: optimise, fixed", o.stripeBox)
@@ -170,6 +158,27 @@ func (o *mapOpts) problem() (*phases.MapProblem, error) {
 	}
 	o.check = spin1MapCheck(p)
 	return p, nil
+}
+
+// checkGPEFlags checks the grid and solver flags of --method gpe (two- and
+// three-level maps).
+func (o *mapOpts) checkGPEFlags() error {
+	if o.gpePoints != 0 && (o.gpePoints < 16 || o.gpePoints > 8192) {
+		return usagef("--points %d: allowed 16 … 8192", o.gpePoints)
+	}
+	if o.gpeStarts < 0 || o.gpeStarts > 20 {
+		return usagef("--starts %d: allowed 0 … 20", o.gpeStarts)
+	}
+	if o.gpeLength.text != "" && !(o.gpeLength.v > 0) {
+		return usagef("--length-kr %q: must be positive", o.gpeLength.text)
+	}
+	if !(o.gpeTol.v > 0) {
+		return usagef("--tol %q: must be positive", o.gpeTol.text)
+	}
+	if o.gpeDims != 1 && o.gpeDims != 2 {
+		return usagef("--dims %d: allowed 1, 2", o.gpeDims)
+	}
+	return nil
 }
 
 // lab is the scheme part of the map's lab setting (modelFlags.lab), with

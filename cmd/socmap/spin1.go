@@ -360,13 +360,32 @@ func spin1SchemeCheck(levels int, p dispersion.Shake, doc map[string]any, tab *o
 	return nil
 }
 
-// spin1Problem builds `map --levels 3`: the spin-1 variational theory per
-// point (phases.MethodSpin1).
+// spin1Problem builds `map --levels 3`: the spin-1 variational theory
+// (phases.MethodSpin1) or the three-component GPE ground state
+// (phases.MethodSpin1GPE, with the grid and solver flags of the two-level
+// GPE map: --points, --length-kr, --starts, --tol, --dims) per point.
 func (o *mapOpts) spin1Problem() (*phases.MapProblem, error) {
-	if o.method != "variational" {
-		return nil, usagef("--method %q: --levels 3 maps use the variational theory only", o.method)
-	}
 	p := &phases.MapProblem{Method: phases.MethodSpin1}
+	switch {
+	case o.holdDelta != "":
+		return nil, usagef("--hold-delta %q: not for --levels 3 maps (the omega and delta axes set Ω and the pair detuning)", o.holdDelta)
+	case o.excitations:
+		return nil, usagef("--excitations: the Bogoliubov observables are of the two-level model; not for --levels 3 maps")
+	case o.gpeEdge:
+		return nil, usagef("--gpe-edge: the GPE stripe edge is of the two-level model; not for --levels 3 maps")
+	case o.tf.trap != "" || o.tf.atoms.text != "":
+		return nil, usagef("--trap/--atoms: --levels 3 maps are of uniform gases (use ground --levels 3 for a trapped cloud)")
+	case o.stripeBox != string(phases.StripeBoxOptimise):
+		return nil, usagef("--stripe-box %q: for two-level GPE maps only (--levels 3 boxes follow the variational momenta)", o.stripeBox)
+	}
+	if o.method == "gpe" {
+		if err := o.checkGPEFlags(); err != nil {
+			return nil, err
+		}
+		p.Method = phases.MethodSpin1GPE
+	} else if o.gpeDims != 1 {
+		return nil, usagef("--dims %d: a grid dimension is for --method gpe", o.gpeDims)
+	}
 	var err error
 	if p.Lab, err = o.mf.lab(); err != nil {
 		return nil, err
@@ -401,6 +420,10 @@ func (o *mapOpts) spin1Problem() (*phases.MapProblem, error) {
 		p.Lab.HaveSI, p.Lab.Density = true, o.inf.density.v
 	default:
 		return nil, usagef("--levels 3: give --nc0-er and --nc2-er, or --density with an atom")
+	}
+	if p.Method == phases.MethodSpin1GPE {
+		s.GPE = phases.Spin1GPESettings{Points: o.gpePoints, Length: o.gpeLength.v, RandomStarts: o.gpeStarts,
+			Dims: o.gpeDims, Solver: gpe.Settings{Tol: o.gpeTol.v}}
 	}
 	p.Spin1 = s
 	if o.xs == "" {

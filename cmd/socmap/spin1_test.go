@@ -7,6 +7,9 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"socmap/output"
+	"socmap/phases/label"
 )
 
 // --levels 3 on bands and ground: the JSON keys of the issue, HDF5 with the
@@ -269,7 +272,8 @@ func TestMapLevels3(t *testing.T) {
 		want string
 	}{
 		{[]string{"map", "--levels", "3", "--omega-er", "1", "--epsilon-er", "0.5", "--nc0-er", "1", "--nc2-er", "-0.2", "--x", "G1=0:1:3"}, "G1"},
-		{[]string{"map", "--levels", "3", "--method", "gpe", "--omega-er", "1", "--epsilon-er", "0.5", "--nc0-er", "1", "--nc2-er", "-0.2", "--x", "omega=0:1:3"}, "--method"},
+		{[]string{"map", "--levels", "3", "--dims", "2", "--omega-er", "1", "--epsilon-er", "0.5", "--nc0-er", "1", "--nc2-er", "-0.2", "--x", "omega=0:1:3"}, "--dims"},
+		{[]string{"map", "--levels", "3", "--excitations", "--omega-er", "1", "--epsilon-er", "0.5", "--nc0-er", "1", "--nc2-er", "-0.2", "--x", "omega=0:1:3"}, "--excitations"},
 		{[]string{"map", "--levels", "3", "--omega-er", "1", "--nc0-er", "1", "--nc2-er", "-0.2", "--x", "omega=0:1:3"}, "quadratic Zeeman"},
 		{[]string{"map", "--levels", "3", "--omega-er", "1", "--epsilon-er", "0.5", "--x", "omega=0:1:3"}, "--nc0-er"},
 	} {
@@ -282,5 +286,66 @@ func TestMapLevels3(t *testing.T) {
 	code, stdout, errs = runArgs(t, "map", "--plan", "plans/demo.toml", "--density", "1e14 cm^-3", "--x", "rabi=0:40 Hz:3", "--json")
 	if code != 0 || !strings.Contains(stdout, `"three_level_check"`) {
 		t.Errorf("map --levels 2 on an F = 1 pair: exit %d, no three_level_check (%s)", code, errs)
+	}
+}
+
+// map --levels 3 --method gpe: three-component GPE ground states per point
+// (phases.MethodSpin1GPE) through the map writer (HDF5 read back with the
+// spin-1 observables, PNG), an existing map not overwritten by a run with
+// other --points (the identity by value is TestSpin1GPEMapIdentityEstimate's),
+// the flags that do not apply refused in one line, exit 2.
+func TestMapLevels3GPE(t *testing.T) {
+	dir := t.TempDir()
+	out, png := filepath.Join(dir, "m.h5"), filepath.Join(dir, "m.png")
+	base := []string{"map", "--levels", "3", "--method", "gpe", "--omega-er", "1", "--epsilon-er", "0.5", "--nc0-er", "1", "--nc2-er", "-0.1"}
+	args := append(base[:len(base):len(base)], "--x", "omega=0.5:2.5:3", "--points", "64", "--out", out, "--out", png, "--json", "--quiet")
+	code, stdout, errs := runArgs(t, args...)
+	if code != 0 {
+		t.Fatalf("map --levels 3 --method gpe: exit %d %s", code, errs)
+	}
+	var doc map[string]any
+	if err := json.Unmarshal([]byte(stdout), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if doc["points_computed"].(float64) != 3 || doc["method"] != "spin1-gpe" {
+		t.Errorf("points computed %v, method %v", doc["points_computed"], doc["method"])
+	}
+	d, _, err := output.ReadMap(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, n := range []string{"energy", "fz", "f_perp", "pop_p1", "pop_0", "pop_m1", "contrast", "k1", "period", "residual", "energy_variational", "phase_variational", "box_length", "grid_points", "spread"} {
+		if d.Observable(n) == nil {
+			t.Errorf("map file lacks %s", n)
+		}
+	}
+	if ph := d.Phase; ph[0] != label.PlaneWave || ph[2] != label.SingleMinimum {
+		t.Errorf("phases %v: want plane-wave at Ω = 0.5, single-minimum at 2.5", ph)
+	}
+	if st, err := os.Stat(png); err != nil || st.Size() == 0 {
+		t.Errorf("no PNG: %v", err)
+	}
+	code, _, errs = runArgs(t, append(base[:len(base):len(base)], "--x", "omega=0.5:2.5:3", "--points", "128", "--out", out, "--quiet")...)
+	if code != 2 {
+		t.Errorf("existing map with other --points: exit %d %s", code, errs)
+	}
+	for _, c := range []struct {
+		extra []string
+		want  string
+	}{
+		{[]string{"--stripe-box", "fixed"}, "--stripe-box"},
+		{[]string{"--trap", "40,400,400"}, "--trap"},
+		{[]string{"--gpe-edge"}, "--gpe-edge"},
+		{[]string{"--hold-delta", "balance"}, "--hold-delta"},
+		{[]string{"--points", "8"}, "--points"},
+		{[]string{"--dims", "3"}, "--dims"},
+		{[]string{"--starts", "-1"}, "--starts"},
+		{[]string{"--tol", "0"}, "--tol"},
+	} {
+		a := append(append(base[:len(base):len(base)], "--x", "omega=0:1:3"), c.extra...)
+		code, _, errs := runArgs(t, a...)
+		if code != 2 || !strings.Contains(errs, c.want) || strings.Count(strings.TrimSpace(errs), "\n") != 0 {
+			t.Errorf("%v: exit %d, message %q (want exit 2, one line with %q)", c.extra, code, errs, c.want)
+		}
 	}
 }
