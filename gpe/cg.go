@@ -43,6 +43,9 @@ func (e *engine) cg(set Settings, hist func(Energies)) (int, Status) {
 	fn := float64(e.n)
 	var lm lineModel
 	for it := 1; it <= set.MaxIter; it++ {
+		if set.isCanceled() {
+			return it - 1, canceled
+		}
 		// the sums of the last opK2 (with cgSums)
 		ks := &e.k2sum
 		rg := ks[4] - e.beta*ks[1] // Re⟨r̂, P(r̂ − βψ̂)⟩

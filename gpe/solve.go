@@ -1,6 +1,7 @@
 package gpe
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -36,7 +37,14 @@ const (
 	Converged     Status = iota // residual ≤ Tol and energy change ≤ EnergyTol
 	MaxIterations               // iteration budget spent first
 	Diverged                    // NaN/Inf energy or norm
+
+	// canceled: Settings.Context was canceled; never in a Result (Solve
+	// returns the context's error instead).
+	canceled Status = -1
 )
+
+// isCanceled reports whether the solve is to stop (Settings.Context).
+func (s *Settings) isCanceled() bool { return s.Context != nil && s.Context.Err() != nil }
 
 func (s Status) String() string {
 	switch s {
@@ -111,6 +119,12 @@ type Settings struct {
 	// Progress, if set, is called at every split-step check and every
 	// finisher iteration (from the solving goroutine; keep it cheap).
 	Progress func(Progress)
+
+	// Context, if set, interrupts a solve: it is checked at every
+	// split-step check and every finisher iteration, and a canceled
+	// context makes Solve, Spin1Solve and the multi-starts return its
+	// error (no result). Not part of any identity or file.
+	Context context.Context
 
 	startIndex int // set by MultiStart
 }
@@ -266,6 +280,9 @@ func Solve(p Problem, init *State, s *Settings) (*Result, error) {
 				res.Status = Diverged
 				break
 			}
+			if set.isCanceled() {
+				return nil, set.Context.Err()
+			}
 			if set.Method == SplitOnly && en.Residual <= set.Tol && math.Abs(en.Total-prev.Total) <= set.EnergyTol {
 				res.Status = Converged
 				break
@@ -285,6 +302,9 @@ func Solve(p Problem, init *State, s *Settings) (*Result, error) {
 	if set.Method != SplitOnly && res.Status != Diverged {
 		stage = "cg"
 		res.Iterations, res.Status = e.cg(set, hist)
+		if res.Status == canceled {
+			return nil, set.Context.Err()
+		}
 	}
 	res.State = NewState(p.Grid)
 	copy(res.State.Psi[0], e.psi[0])

@@ -606,6 +606,9 @@ func (e *spin1Engine) cg(set Settings, hist func(Spin1Energies)) (int, Status) {
 	}
 	pre := func(c, i int) float64 { return 1 / (e.alpha + e.kin[c][i]) }
 	for it := 1; it <= set.MaxIter; it++ {
+		if set.isCanceled() {
+			return it - 1, canceled
+		}
 		// g = P r − β P ψ
 		e.applyK(&e.gr, &e.r, pre)
 		e.applyK(&e.tmp, &e.psi, pre)
@@ -899,11 +902,21 @@ func Spin1Solve(p Spin1Problem, init *Spin1State, s *Settings) (*Spin1Result, er
 		return nil, err
 	}
 	res := &Spin1Result{Status: MaxIterations}
+	stage, tau, cgCalls := "split", set.Dtau, 0
 	hist := func(en Spin1Energies) {
 		res.EnergyHistory = append(res.EnergyHistory, en.Total)
 		res.ResidualHistory = append(res.ResidualHistory, en.Residual)
+		if set.Progress != nil { // as Solve's
+			pr := Progress{Start: set.startIndex, Stage: stage, Energy: en.Total, Residual: en.Residual}
+			if stage == "split" {
+				pr.Step, pr.Dtau = res.SplitSteps, tau
+			} else {
+				pr.Step = cgCalls
+				cgCalls++
+			}
+			set.Progress(pr)
+		}
 	}
-	tau := set.Dtau
 	if set.Method != CGOnly {
 		level := 0
 		prev := e.evaluate()
@@ -917,6 +930,9 @@ func Spin1Solve(p Spin1Problem, init *Spin1State, s *Settings) (*Spin1Result, er
 			if spin1Bad(en) {
 				res.Status = Diverged
 				break
+			}
+			if set.isCanceled() {
+				return nil, set.Context.Err()
 			}
 			if set.Method == SplitOnly && en.Residual <= set.Tol && math.Abs(en.Total-prev.Total) <= set.EnergyTol {
 				res.Status = Converged
@@ -934,7 +950,11 @@ func Spin1Solve(p Spin1Problem, init *Spin1State, s *Settings) (*Spin1Result, er
 		res.Dtau = tau
 	}
 	if set.Method != SplitOnly && res.Status != Diverged {
+		stage = "cg"
 		res.Iterations, res.Status = e.cg(set, hist)
+		if res.Status == canceled {
+			return nil, set.Context.Err()
+		}
 	}
 	res.State = NewSpin1State(p.Grid)
 	for c := 0; c < 3; c++ {

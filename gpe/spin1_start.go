@@ -351,12 +351,17 @@ func Spin1MultiStart(p Spin1Problem, d dispersion.Spin1Model, guesses []Spin1Gue
 	mr := &Spin1MultiResult{BestIndex: -1}
 	var results []*Spin1Result
 	lo, hi := math.Inf(1), math.Inf(-1)
-	for _, gs := range guesses {
+	var set Settings
+	if s != nil {
+		set = *s
+	}
+	for i, gs := range guesses {
 		st, err := gs.Build(p, d)
 		if err != nil {
 			return nil, err
 		}
-		r, err := Spin1Solve(p, st, s)
+		set.startIndex = i // for Progress, as MultiStart
+		r, err := Spin1Solve(p, st, &set)
 		if err != nil {
 			return nil, err
 		}

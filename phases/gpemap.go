@@ -221,6 +221,7 @@ func gpeSolve(s GPESettings) func(context.Context, Uniform) (PointResult, error)
 					return 0, false, false, err
 				}
 				sv := set
+				sv.Context = ctx // a canceled map stops the running solve
 				r, err := gpe.Solve(p, st, &sv)
 				if err != nil {
 					return 0, false, false, err

@@ -111,7 +111,7 @@ func (p *MapProblem) spin1GroundAt(u Spin1Uniform) Spin1GroundProblem {
 func (p *MapProblem) Spin1GPEPoints() PointFunc {
 	solver := p.Spin1.GPE.Solver
 	nan := math.NaN()
-	return spin1MapPoints(p, len(Spin1GPEObservables), func(ix, iy int, u Spin1Uniform) (PointResult, error) {
+	return spin1MapPoints(p, len(Spin1GPEObservables), func(ctx context.Context, ix, iy int, u Spin1Uniform) (PointResult, error) {
 		su, err := p.spin1GroundAt(u).Setup()
 		if err != nil {
 			return PointResult{}, fmt.Errorf("point (%d, %d): %w", ix, iy, err)
@@ -129,6 +129,7 @@ func (p *MapProblem) Spin1GPEPoints() PointFunc {
 			}}, nil
 		}
 		set := solver
+		set.Context = ctx // a canceled map stops the running solves
 		res, err := su.Solve(&set)
 		if err != nil {
 			return PointResult{}, fmt.Errorf("point (%d, %d): %w", ix, iy, err)
@@ -156,7 +157,7 @@ func (p *MapProblem) Spin1GPEPoints() PointFunc {
 // spin1MapPoints is the point loop shared by the spin-1 methods: the
 // point's uniform problem (Spin1At), label.NoCoupling with NaN values at a
 // point without recoil, else solve.
-func spin1MapPoints(p *MapProblem, nObs int, solve func(ix, iy int, u Spin1Uniform) (PointResult, error)) PointFunc {
+func spin1MapPoints(p *MapProblem, nObs int, solve func(ctx context.Context, ix, iy int, u Spin1Uniform) (PointResult, error)) PointFunc {
 	return func(ctx context.Context, ix, iy int) (PointResult, error) {
 		if err := ctx.Err(); err != nil {
 			return PointResult{}, err
@@ -170,7 +171,7 @@ func spin1MapPoints(p *MapProblem, nObs int, solve func(ix, iy int, u Spin1Unifo
 			}
 			return PointResult{}, err
 		}
-		return solve(ix, iy, u)
+		return solve(ctx, ix, iy, u)
 	}
 }
 

@@ -1,6 +1,7 @@
 package phases
 
 import (
+	"context"
 	"fmt"
 	"math"
 
@@ -132,7 +133,7 @@ func (p *MapProblem) spin1Settings() *Spin1Settings {
 // label.NotConverged; a point without recoil label.NoCoupling (values NaN).
 func (p *MapProblem) Spin1Points() PointFunc {
 	vs := p.spin1Settings()
-	return spin1MapPoints(p, len(Spin1Observables), func(ix, iy int, u Spin1Uniform) (PointResult, error) {
+	return spin1MapPoints(p, len(Spin1Observables), func(_ context.Context, ix, iy int, u Spin1Uniform) (PointResult, error) {
 		r, err := Spin1Variational(u, vs)
 		if err != nil {
 			return PointResult{}, fmt.Errorf("point (%d, %d): %w", ix, iy, err)

@@ -129,7 +129,9 @@ func (p *MapProblem) trapPoints() PointFunc {
 			r.Values = append(r.Values, labValues(u, m, r)...)
 			return r, nil
 		}
-		res, err := su.Solve(&GroundSettings{RandomStarts: s.RandomStarts, Solver: s.Solver, Variational: s.Variational})
+		solver := s.Solver
+		solver.Context = ctx // a canceled map stops the running solves
+		res, err := su.Solve(&GroundSettings{RandomStarts: s.RandomStarts, Solver: solver, Variational: s.Variational})
 		if err != nil {
 			return PointResult{}, err
 		}
