@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/font"
 	"gonum.org/v1/plot/palette"
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
@@ -120,7 +121,7 @@ func (mp MapPlot) Figure() (*Figure, error) {
 	for _, ph := range d.Phase {
 		counts[ph]++
 	}
-	if err := mp.regionNames(p, xv, yv); err != nil {
+	if err := mp.regionNames(p, xv, yv, mapDataWidth(oneAxis)); err != nil {
 		return nil, err
 	}
 	for _, ph := range mapPhases {
@@ -285,10 +286,42 @@ func lineOverX(xv []float64, mask []bool, v []float64, abs bool, xl, yl string) 
 	return q, true
 }
 
+// mapDataWidth is a lower bound of the phase map's data area width: about
+// 60 % of the figure's width (8.5 in with one axis, 10.5 in with two; the
+// rest is the axis, legend and margins).
+func mapDataWidth(oneAxis bool) vg.Length {
+	if oneAxis {
+		return 0.6 * 8.5 * vg.Inch
+	}
+	return 0.6 * 10.5 * vg.Inch
+}
+
 // regionNames writes each phase's name at its cell nearest to the phase's
 // centroid, aligned so that the text stays inside the data area at the
-// map's edges.
-func (mp MapPlot) regionNames(p *plot.Plot, xv, yv []float64) error {
+// map's edges. A name wider than its region's run of cells in that row
+// (dataW: the data area's width) is left out, so that names never overlap
+// a neighbour's: the legend names every phase present.
+func (mp MapPlot) regionNames(p *plot.Plot, xv, yv []float64, dataW vg.Length) error {
+	pts, names, xa, ya := mp.regionLabels(xv, yv, dataW)
+	if len(pts) == 0 {
+		return nil
+	}
+	lb, err := plotter.NewLabels(plotter.XYLabels{XYs: pts, Labels: names})
+	if err != nil {
+		return err
+	}
+	for i := range lb.TextStyle {
+		lb.TextStyle[i].Font.Size = vg.Points(13)
+		lb.TextStyle[i].XAlign = xa[i]
+		lb.TextStyle[i].YAlign = ya[i]
+	}
+	p.Add(lb)
+	return nil
+}
+
+// regionLabels are the names regionNames writes: positions, texts and
+// alignments.
+func (mp MapPlot) regionLabels(xv, yv []float64, dataW vg.Length) (plotter.XYs, []string, []draw.XAlignment, []draw.YAlignment) {
 	d := mp.Data
 	var pts plotter.XYs
 	var names []string
@@ -321,7 +354,6 @@ func (mp MapPlot) regionNames(p *plot.Plot, xv, yv []float64) error {
 		}
 		ix, iy := bi%d.NX, bi/d.NX
 		at := plotter.XY{X: xv[ix], Y: yv[iy]}
-		names = append(names, ph.String())
 		x, y := draw.XCenter, draw.YCenter
 		switch {
 		case d.NX > 1 && ix < d.NX/10:
@@ -329,6 +361,29 @@ func (mp MapPlot) regionNames(p *plot.Plot, xv, yv []float64) error {
 		case d.NX > 1 && ix >= d.NX-d.NX/10-1:
 			x = draw.XRight
 		}
+		// The run of this phase's cells in the label's row, [a, b], and
+		// the room the name has in it (cells are 1/NX of the width).
+		a, b := ix, ix
+		for a > 0 && d.Phase[iy*d.NX+a-1] == ph {
+			a--
+		}
+		for b < d.NX-1 && d.Phase[iy*d.NX+b+1] == ph {
+			b++
+		}
+		cell := dataW / vg.Length(d.NX)
+		left, right := (vg.Length(ix-a)+0.5)*cell, (vg.Length(b-ix)+0.5)*cell
+		room := 2 * min(left, right)
+		switch x {
+		case draw.XLeft:
+			room = right + 0.5*cell
+		case draw.XRight:
+			room = left + 0.5*cell
+		}
+		sty := draw.TextStyle{Font: font.From(plot.DefaultFont, vg.Points(13)), Handler: plot.DefaultTextHandler}
+		if sty.Width(ph.String()) > room {
+			continue
+		}
+		names = append(names, ph.String())
 		// In an edge row the name hangs from the map's edge into the region.
 		ylo, yhi := extent(yv)
 		switch {
@@ -340,20 +395,7 @@ func (mp MapPlot) regionNames(p *plot.Plot, xv, yv []float64) error {
 		pts = append(pts, at)
 		xa, ya = append(xa, x), append(ya, y)
 	}
-	if len(pts) == 0 {
-		return nil
-	}
-	lb, err := plotter.NewLabels(plotter.XYLabels{XYs: pts, Labels: names})
-	if err != nil {
-		return err
-	}
-	for i := range lb.TextStyle {
-		lb.TextStyle[i].Font.Size = vg.Points(13)
-		lb.TextStyle[i].XAlign = xa[i]
-		lb.TextStyle[i].YAlign = ya[i]
-	}
-	p.Add(lb)
-	return nil
+	return pts, names, xa, ya
 }
 
 // observableDisplay is how an observable is labelled in figures and
