@@ -243,25 +243,17 @@ type CondensateState struct {
 	HarmonicChange float64
 }
 
-// ExcitationResult is the spectrum of one state.
-type ExcitationResult struct {
-	Status      ExcitationStatus
-	Variational Result          // the variational theory at the problem
-	State       CondensateState // the state whose excitations these are
-	// Metastable: a lower state exists (the other branch was requested).
-	Metastable bool
-	// PlaneWaveEnergy, StripeEnergy: energies per particle (E_R) of the
-	// refined plane-wave state and of the stripe solved with harmonics (NaN
-	// when there is no stripe solution). BranchGround takes the lower, which
-	// can be a stripe where the two-wave ansatz prefers a plane wave (its
-	// missing harmonics lower the stripe near the transition).
-	PlaneWaveEnergy, StripeEnergy float64
+// Spectrum is the part of an excitation result that does not depend on the
+// kind of state: the modes on the grid and the observables derived from
+// them (shared by ExcitationResult and Spin1ExcitationResult).
+type Spectrum struct {
+	Status ExcitationStatus
 
 	Q     []float64 // the grid (k_R), as given
 	Axis  QAxis
-	Modes [][]Mode // per q, ascending in Re ω: 2 for uniform states, Bands for a stripe
+	Modes [][]Mode // per q, ascending in Re ω: 2 for the two-level uniform states, 3 for spin-1, Bands for a stripe
 	// StaticS: S(q) = Σ_modes Density (the static structure factor), and
-	// FSum: Σ_modes ω·Density (= q² by the f-sum rule), per q.
+	// FSum: Σ_modes ω·Density (m1(q) + m1(−q) = 2q² by the f-sum rule), per q.
 	StaticS, FSum []float64
 
 	Unstable   bool    // a complex frequency on the grid or in the scans
@@ -281,6 +273,22 @@ type ExcitationResult struct {
 	RotonQ, RotonGap float64
 
 	Bragg *BraggResult // nil unless requested
+}
+
+// ExcitationResult is the spectrum of one state.
+type ExcitationResult struct {
+	Variational Result          // the variational theory at the problem
+	State       CondensateState // the state whose excitations these are
+	// Metastable: a lower state exists (the other branch was requested).
+	Metastable bool
+	// PlaneWaveEnergy, StripeEnergy: energies per particle (E_R) of the
+	// refined plane-wave state and of the stripe solved with harmonics (NaN
+	// when there is no stripe solution). BranchGround takes the lower, which
+	// can be a stripe where the two-wave ansatz prefers a plane wave (its
+	// missing harmonics lower the stripe near the transition).
+	PlaneWaveEnergy, StripeEnergy float64
+
+	Spectrum
 }
 
 // Excitations computes the Bogoliubov spectrum of the state selected by
@@ -313,10 +321,7 @@ func Excitations(p ExcitationProblem, s *ExcitationSettings) (ExcitationResult, 
 	}
 	st := s.withDefaults(p.Uniform)
 	res.Variational = vr
-	res.Q = append([]float64(nil), p.Q...)
-	res.Axis = p.Axis
-	res.MaxGrowthQ = math.NaN()
-	var sp spectrum
+	var sp twoLevelSpectrum
 	us, err := newUniformSpectrum(p.Uniform, vr.PlaneWaveState, &st)
 	if err != nil {
 		return res, err
@@ -345,16 +350,28 @@ func Excitations(p ExcitationProblem, s *ExcitationSettings) (ExcitationResult, 
 			sp = us
 		}
 	}
-	if sp == spectrum(ss) {
+	if sp == twoLevelSpectrum(ss) {
 		ss = ss.converge(&st)
 		sp = ss
 		res.StripeEnergy = ss.st.Energy
 	}
 	res.State = sp.state()
-	res.Status = Stable
+	status := Stable
 	if res.State.HarmonicChange > st.HarmonicTol {
-		res.Status = HarmonicsNotConverged
+		status = HarmonicsNotConverged
 	}
+	res.Spectrum, err = computeSpectrum(sp, p.Q, p.Axis, p.Bragg, &st, status)
+	return res, err
+}
+
+// computeSpectrum fills a Spectrum from the BdG problem sp: the modes and
+// moments on the grid q along axis, the sound velocities, the effective
+// mass, the roton scan along x and, when br is set, the Bragg response.
+// status is the starting status (Stable, or HarmonicsNotConverged); a
+// negative-energy mode makes it EnergeticallyUnstable, a complex
+// frequency DynamicallyUnstable.
+func computeSpectrum(sp spectrum, q []float64, axis QAxis, br *BraggProblem, st *ExcitationSettings, status ExcitationStatus) (Spectrum, error) {
+	res := Spectrum{Status: status, Q: append([]float64(nil), q...), Axis: axis, MaxGrowthQ: math.NaN()}
 	track := func(q float64, ms []Mode, landau bool) {
 		for _, m := range ms {
 			if m.Growth > 0 {
@@ -368,21 +385,20 @@ func Excitations(p ExcitationProblem, s *ExcitationSettings) (ExcitationResult, 
 			res.Status = EnergeticallyUnstable
 		}
 	}
-	res.Modes = make([][]Mode, len(p.Q))
-	res.StaticS = make([]float64, len(p.Q))
-	res.FSum = make([]float64, len(p.Q))
-	for i, q := range p.Q {
-		ms, landau, err := sp.modes(q, p.Axis, true)
+	res.Modes = make([][]Mode, len(q))
+	res.StaticS = make([]float64, len(q))
+	res.FSum = make([]float64, len(q))
+	for i, qi := range q {
+		ms, landau, err := sp.modes(qi, axis, true)
 		if err != nil {
 			return res, err
 		}
-		track(q, ms, landau)
+		track(qi, ms, landau)
 		res.Modes[i] = ms
-		res.StaticS[i], res.FSum[i] = sp.moments(q, p.Axis)
+		res.StaticS[i], res.FSum[i] = sp.moments(qi, axis)
 	}
 	res.CPlusX, res.CMinusX, res.CY = sp.sound(st.SoundStep)
 	res.EffectiveMass = sp.effectiveMass()
-	res.RotonQ, res.RotonGap = math.NaN(), math.NaN()
 	var rq, rg, scanGrowth, scanQ = math.NaN(), math.NaN(), 0.0, math.NaN()
 	if sp.gapless() == 1 {
 		// A stripe has zero modes at every multiple of K and no roton.
@@ -390,7 +406,7 @@ func Excitations(p ExcitationProblem, s *ExcitationSettings) (ExcitationResult, 
 	}
 	if scanGrowth > 0 {
 		res.Unstable = true
-		if scanGrowth > res.MaxGrowth && p.Axis == QAlongX {
+		if scanGrowth > res.MaxGrowth && axis == QAlongX {
 			res.MaxGrowth, res.MaxGrowthQ = scanGrowth, scanQ
 		} else if scanGrowth > res.MaxGrowth {
 			res.MaxGrowth, res.MaxGrowthQ = scanGrowth, math.NaN()
@@ -403,8 +419,8 @@ func Excitations(p ExcitationProblem, s *ExcitationSettings) (ExcitationResult, 
 	if res.Unstable {
 		res.Status = DynamicallyUnstable
 	}
-	if p.Bragg != nil {
-		b, err := bragg(sp, *p.Bragg)
+	if br != nil {
+		b, err := bragg(sp, *br)
 		if err != nil {
 			return res, err
 		}
@@ -420,9 +436,14 @@ func (s *ExcitationSettings) variational() *Settings {
 	return s.Variational
 }
 
-// spectrum is the BdG problem of one state.
-type spectrum interface {
+// twoLevelSpectrum is the BdG problem of one state of the two-level model.
+type twoLevelSpectrum interface {
+	spectrum
 	state() CondensateState
+}
+
+// spectrum is the BdG problem of one state (two-level or spin-1).
+type spectrum interface {
 	// modes at momentum q along axis (total momentum for a stripe along x),
 	// ascending; landau reports a negative-energy mode. weights: fill
 	// Density and Spin.
