@@ -137,14 +137,24 @@ type ExcitationSettings struct {
 	// see soundSlope. Default 1e-4.
 	SoundStep float64
 	// ImagTol: |Im ω| (E_R) above which a frequency counts as complex
-	// (dynamical instability). Default 1e-7 × max(1, |Ω|, |δ|, |n g|).
+	// (dynamical instability). Default 1e-7 × max(1, |Ω|, |δ|, |n g|)
+	// (spin-1: max(1, |Ω|, |G0|, |G2|, max|E_m|)).
 	ImagTol float64
 	// RotonRange: the lower branch is scanned for a roton minimum along x
 	// for |q| ≤ RotonRange (k_R). Default 4.
 	RotonRange float64
+	// Spin1: settings of the spin-1 variational theory (Spin1Excitations
+	// only). Default nil (its defaults).
+	Spin1 *Spin1Settings
 }
 
 func (s *ExcitationSettings) withDefaults(u Uniform) ExcitationSettings {
+	return s.withDefaultsScale(u.scale())
+}
+
+// withDefaultsScale: the defaults with the energy scale sc of the problem
+// (ImagTol = 1e-7 sc).
+func (s *ExcitationSettings) withDefaultsScale(sc float64) ExcitationSettings {
 	var o ExcitationSettings
 	if s != nil {
 		o = *s
@@ -162,7 +172,7 @@ func (s *ExcitationSettings) withDefaults(u Uniform) ExcitationSettings {
 		o.SoundStep = 1e-4
 	}
 	if o.ImagTol <= 0 {
-		o.ImagTol = 1e-7 * u.scale()
+		o.ImagTol = 1e-7 * sc
 	}
 	if o.RotonRange <= 0 {
 		o.RotonRange = 4
@@ -214,15 +224,18 @@ type Mode struct {
 	Omega  float64 // Re ω (E_R)
 	Growth float64 // Im ω ≥ 0 (E_R/ħ): growth rate of a dynamical instability, else 0
 	// U, V: Bogoliubov amplitudes, index 2·(harmonic) + spin (spin 0 = ↑),
-	// harmonics as in CondensateState.M; normalised to Σ|U|² − Σ|V|² = 1
+	// harmonics as in CondensateState.M (spin-1: index m = +1, 0, −1 as
+	// 0, 1, 2); normalised to Σ|U|² − Σ|V|² = 1
 	// (a complex or zero mode: Σ|U|² + Σ|V|² = 1). Phase: the
 	// largest-modulus component of (U, V) is real and positive.
 	U, V []complex128
 	// Density, Spin: weights |δn|² and |δ(n↑ − n↓)|² of the mode at the
-	// momentum of the grid point (per particle). NaN for the zero modes at
+	// momentum of the grid point (per particle; spin-1: Spin is |δF_z|²). NaN for the zero modes at
 	// q = 0 (and, for a stripe, at multiples of K: the elastic Bragg peak of
 	// the crystal is not an excitation).
 	Density, Spin float64
+	// Transverse: spin-1 only, |δF_x|² + |δF_y|² (0 for the two-level model).
+	Transverse float64
 }
 
 // CondensateState is the mean-field state ψ₀ = √n e^{ik₀x} Σ_m a_m e^{imKx}.
