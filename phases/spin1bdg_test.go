@@ -109,3 +109,150 @@ func TestSpin1ExcitationsRefusesStripe(t *testing.T) {
 		t.Fatalf("err %v", err)
 	}
 }
+
+// Far third level: as ε grows at fixed pair detuning (dispersion.RamanSpin1Pair),
+// the two lowest branches of the spin-1 plane wave approach the two-level BdG
+// (Excitations) of the pair with the second-order shift of δ
+// (dispersion.Spin1Model.SecondOrder; Löwdin perturbation theory, common
+// practice, no source). With G2 = 0 the only 1/ε coupling is the Raman one,
+// which the shift absorbs: the difference falls like 1/ε² (ratio ≈ 4 per
+// doubling; without the shift like 1/ε, ratio ≈ 2). With G2 ≠ 0 the
+// spin-changing and F_x couplings to the third level leave O(G2(Ω + G2)/ε),
+// still falling.
+func TestSpin1FarLevelLimit(t *testing.T) {
+	qs := []float64{-1, -0.4, 0.3, 0.8}
+	diff := func(eps, g2 float64, shift bool) float64 {
+		u := Spin1Uniform{Model: dispersion.RamanSpin1Pair(1.5, 0.3, eps), G0: 1, G2: g2}
+		r3, err := Spin1Excitations(Spin1ExcitationProblem{Uniform: u, Branch: BranchPlaneWave, Q: qs}, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		r2, err := Excitations(ExcitationProblem{Uniform: Spin1PairUniform(u, shift), Branch: BranchPlaneWave, Q: qs}, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if math.Abs(r3.State.K0-r2.State.K0) > 0.05 {
+			t.Fatalf("ε = %g: spin-1 k₀ = %g, pair k₁ = %g (different minima)", eps, r3.State.K0, r2.State.K0)
+		}
+		d := 0.0
+		for i := range qs {
+			for b := 0; b < 2; b++ {
+				d = math.Max(d, math.Abs(r3.Modes[i][b].Omega-r2.Modes[i][b].Omega))
+			}
+		}
+		return d
+	}
+	var prevS, prevU float64
+	for _, eps := range []float64{20, 40, 80, 160} {
+		ds, du := diff(eps, 0, true), diff(eps, 0, false)
+		t.Logf("G2 = 0, ε = %g: max |Δω| %.3g with the shift, %.3g without", eps, ds, du)
+		if ds >= du {
+			t.Errorf("ε = %g: the shift does not help (%.3g vs %.3g)", eps, ds, du)
+		}
+		if prevS > 0 && !(prevS/ds > 3 && prevS/ds < 4.7) {
+			t.Errorf("ε = %g: shifted difference ratio %.3g per doubling, want ≈ 4", eps, prevS/ds)
+		}
+		if prevU > 0 && !(prevU/du > 1.7 && prevU/du < 2.3) {
+			t.Errorf("ε = %g: unshifted difference ratio %.3g per doubling, want ≈ 2", eps, prevU/du)
+		}
+		prevS, prevU = ds, du
+	}
+	prev := 0.0
+	for _, eps := range []float64{20, 40, 80, 160, 320, 640, 1280} {
+		d := diff(eps, -0.05, true)
+		t.Logf("G2 = −0.05, ε = %g: max |Δω| %.3g", eps, d)
+		if prev > 0 && !(prev/d > 1.5) {
+			t.Errorf("G2 ≠ 0, ε = %g: difference ratio %.3g per doubling", eps, prev/d)
+		}
+		if eps >= 640 && !(prev/d > 1.7 && prev/d < 2.3) {
+			t.Errorf("G2 ≠ 0, ε = %g: difference ratio %.3g per doubling, want ≈ 2 (1/ε)", eps, prev/d)
+		}
+		prev = d
+	}
+	if prev > 2e-5 {
+		t.Errorf("ε = 1280: difference %.3g E_R", prev)
+	}
+}
+
+// Goldstone mode and f-sum rule of a stable Raman-dressed plane wave: the
+// lowest frequency vanishes at q = 0 (common practice: the broken U(1) phase
+// symmetry) and ω(q)/2q → the sound velocity; the density weights obey
+// m1(q) + m1(−q) = Σ_modes ω Z(q) + Σ ω Z(−q) = 2q² (f-sum rule; L.
+// Pitaevskii, S. Stringari, Bose–Einstein Condensation and Superfluidity,
+// Oxford 2016) along x and, with m1(q) = m1(−q) by symmetry, q² along y.
+func TestSpin1GoldstoneAndFSum(t *testing.T) {
+	u := Spin1Uniform{Model: dispersion.RamanSpin1(2, 0.5, 1), G0: 1, G2: -0.1}
+	qs := []float64{0, 1e-4, -1e-4, 0.3, -0.3, 1.2, -1.2}
+	r, err := Spin1Excitations(Spin1ExcitationProblem{Uniform: u, Q: qs, Bragg: &BraggProblem{Q: 0.7, Duration: 30}}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.Status != Stable {
+		t.Fatalf("status %v", r.Status)
+	}
+	if w := r.Modes[0][0].Omega; math.Abs(w) > 1e-6 {
+		t.Errorf("q = 0: lowest ω = %g, want 0 (Goldstone)", w)
+	}
+	if c := r.Modes[1][0].Omega / 2e-4; math.Abs(c-r.CPlusX[0]) > 1e-3*c {
+		t.Errorf("ω(1e-4)/2q = %.8g, sound velocity %.8g", c, r.CPlusX[0])
+	}
+	if c := r.Modes[2][0].Omega / 2e-4; math.Abs(c-r.CMinusX[0]) > 1e-3*c {
+		t.Errorf("ω(−1e-4)/2q = %.8g, sound velocity −x %.8g", c, r.CMinusX[0])
+	}
+	for i := 3; i < len(qs); i += 2 {
+		q := qs[i]
+		if s := r.FSum[i] + r.FSum[i+1]; math.Abs(s-2*q*q) > 1e-9 {
+			t.Errorf("q = ±%g: m1(q) + m1(−q) = %.12g, want 2q² = %.12g", q, s, 2*q*q)
+		}
+	}
+	b := r.Bragg
+	var minus float64
+	for j, w := range b.MinusOmega {
+		minus += w * b.MinusWeight[j]
+	}
+	if s := b.FSum + minus; math.Abs(s-2*0.49) > 1e-9 {
+		t.Errorf("Bragg f-sum %.12g, want %.12g", s, 2*0.49)
+	}
+	ry, err := Spin1Excitations(Spin1ExcitationProblem{Uniform: u, Q: []float64{0.5, 1.5}, Axis: QAlongY}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, q := range ry.Q {
+		if math.Abs(ry.FSum[i]-q*q) > 1e-9 {
+			t.Errorf("y, q = %g: m1 = %.12g, want q² = %.12g", q, ry.FSum[i], q*q)
+		}
+	}
+}
+
+// The polar state with ferromagnetic interactions (c2 < 0) and
+// 0 < q < |c2|n is dynamically unstable: the spin branches
+// ω² = (ε + q)(ε + q + 2G2) are negative for ε + q < 2|G2|, largest growth
+// rate |G2| at ε + q = |G2| (from the closed form above; the instability is
+// the one described by Stamper-Kurn & Ueda (2013), recalled).
+func TestSpin1PolarDynamicalInstability(t *testing.T) {
+	const q, g2 = 0.02, -0.1
+	p := Spin1ExcitationProblem{Uniform: freeSpin1(0, q, 1, g2), Q: []float64{0.1, 0.3, 0.6}}
+	sp, err := newSpin1Spectrum(p, Spin1Wave{Spinor: [3]float64{0, 1, 0}}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	st := (&ExcitationSettings{}).withDefaultsScale(sp.scale)
+	r, err := computeSpectrum(sp, p.Q, QAlongX, nil, &st, Stable)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.Status != DynamicallyUnstable || math.Abs(r.MaxGrowth-math.Abs(g2)) > 1e-4 {
+		t.Fatalf("status %v, max growth %.8g (want %g)", r.Status, r.MaxGrowth, math.Abs(g2))
+	}
+	e := 0.3 * 0.3
+	want := math.Sqrt(-(e + q) * (e + q + 2*g2))
+	found := false
+	for _, m := range r.Modes[1] {
+		if math.Abs(m.Growth-want) < 1e-9 {
+			found = true
+		}
+	}
+	if !found {
+		t.Errorf("q = 0.3: growth rates %v, want %.10g", r.Modes[1], want)
+	}
+}
