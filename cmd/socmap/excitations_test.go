@@ -75,3 +75,69 @@ func TestExcitationsJSONAndFiles(t *testing.T) {
 		}
 	}
 }
+
+// `excitations --levels 3`: bad input is one line with exit 2 and no file;
+// a spin-1 plane wave gives three branches per momentum with the F_z and
+// transverse weights in the JSON document and every output file.
+func TestExcitationsSpin1(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "x.h5")
+	base := []string{"excitations", "--levels", "3", "--omega-er", "2", "--delta-er", "0.5", "--epsilon-er", "1", "--out", out}
+	for _, c := range []struct {
+		args []string
+		flag string
+	}{
+		{[]string{"--nc0-er", "1"}, "--nc2-er"},
+		{[]string{"--nc0-er", "1", "--nc2-er", "-0.1", "--G1", "1"}, "--G1"},
+		{[]string{"--nc0-er", "1", "--nc2-er", "-0.1", "--harmonics", "8"}, "--harmonics"},
+		{[]string{"--nc0-er", "1", "--nc2-er", "-0.1", "--branch", "stripe"}, "--branch"},
+		{[]string{"--nc0-er", "1", "--nc2-er", "-0.1", "--magnetization", "1"}, "--magnetization"},
+		{[]string{"--nc0-er", "1", "--nc2-er", "-0.1", "--q=1:0:3"}, "--q"},
+		// Ω = 0, q < 0, c2 > 0 at M = 0: the antiferromagnetic ±1 mixture (two waves)
+		{[]string{"--omega-er", "0", "--epsilon-er", "-0.5", "--nc0-er", "10", "--nc2-er", "1", "--magnetization", "0"}, "--levels 3"},
+	} {
+		code, _, stderr := runArgs(t, append(append([]string{}, base...), c.args...)...)
+		if code != 2 || !strings.Contains(stderr, c.flag) || strings.Count(strings.TrimSpace(stderr), "\n") != 0 {
+			t.Errorf("%v: exit %d, stderr %q (want 2 and one line naming %s)", c.args, code, stderr, c.flag)
+		}
+		if _, err := os.Stat(out); err == nil {
+			t.Fatalf("%v: output file written", c.args)
+		}
+	}
+	outs := []string{"e.h5", "e.png", "e.csv", "e.json"}
+	args := []string{"excitations", "--levels", "3", "--omega-er", "2", "--delta-er", "0.5", "--epsilon-er", "1",
+		"--nc0-er", "1", "--nc2-er", "-0.1", "--q=-2:2:21", "--bragg-q", "0.7", "--json"}
+	for _, o := range outs {
+		args = append(args, "--out", filepath.Join(dir, o))
+	}
+	code, stdout, stderr := runArgs(t, args...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	var doc map[string]any
+	if err := json.Unmarshal([]byte(stdout), &doc); err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range []string{"levels", "spinor", "fz", "lambda_over_ER", "k0_over_kR", "transverse_spin_weight", "spin_weight",
+		"omega_over_ER", "c_plus_x_over_hbar_kR_per_m", "roton_gap_over_ER", "bragg", "effective_mass_ratio_m_over_mstar"} {
+		if _, ok := doc[k]; !ok {
+			t.Errorf("key %q missing", k)
+		}
+	}
+	if doc["levels"].(float64) != 3 || doc["status"] != "stable" {
+		t.Errorf("levels %v status %v", doc["levels"], doc["status"])
+	}
+	om := doc["omega_over_ER"].([]any)
+	if len(om) != 21 || len(om[3].([]any)) != 3 {
+		t.Errorf("omega grid %d × %d, want 21 × 3", len(om), len(om[3].([]any)))
+	}
+	for _, o := range outs {
+		if st, err := os.Stat(filepath.Join(dir, o)); err != nil || st.Size() == 0 {
+			t.Errorf("%s: %v", o, err)
+		}
+	}
+	b, _ := os.ReadFile(filepath.Join(dir, "e.csv"))
+	if !strings.HasPrefix(string(b), "q_over_kR,mode,omega_over_ER,growth_over_ER,density_weight,spin_weight,transverse_spin_weight\n") {
+		t.Errorf("csv header %q", strings.SplitN(string(b), "\n", 2)[0])
+	}
+}
