@@ -257,7 +257,7 @@ func (r *ExcitationsResult) JSON() map[string]any {
 	doc := map[string]any{
 		"phase": r.phase().String(), "status": res.Status.String(),
 		"k1_over_kR": n(r.K1()),
-		"q_axis": axisName(res.Axis), "q_over_kR": res.Q, "omega_over_ER": omega, "growth_over_ER": growth,
+		"q_axis":     axisName(res.Axis), "q_over_kR": res.Q, "omega_over_ER": omega, "growth_over_ER": growth,
 		"density_weight": dens, "spin_weight": spin, "static_structure_factor": jsonList(res.StaticS),
 		"f_sum_over_ER":               jsonList(res.FSum),
 		"c_plus_x_over_hbar_kR_per_m": n(first(res.CPlusX)), "c_minus_x_over_hbar_kR_per_m": n(first(res.CMinusX)),

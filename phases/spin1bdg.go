@@ -225,17 +225,16 @@ func spin1Scale(u Spin1Uniform) float64 {
 
 // spin1Spectrum is the 6×6 BdG problem of a one-plane-wave spin-1 state.
 type spin1Spectrum struct {
-	u        Spin1Uniform
-	fix      bool
-	mag      float64
-	scale    float64
-	st       Spin1CondensateState
-	a, b, c  [3]float64    // F_xφ, Sφ, F_zφ
-	local    [3][3]float64 // −μ − λF_z + G0 + G2(f_x F_x + f_z F_z) + X
-	y        [3][3]float64
-	solve    *bdgSolver
-	m        [36]float64
-	zeroTolQ float64
+	u       Spin1Uniform
+	fix     bool
+	mag     float64
+	scale   float64
+	st      Spin1CondensateState
+	a, b, c [3]float64    // F_xφ, Sφ, F_zφ
+	local   [3][3]float64 // −μ − λF_z + G0 + G2(f_x F_x + f_z F_z) + X
+	y       [3][3]float64
+	solve   *bdgSolver
+	m       [36]float64
 }
 
 var spin1Fx = [3][3]float64{{0, 1 / math.Sqrt2, 0}, {1 / math.Sqrt2, 0, 1 / math.Sqrt2}, {0, 1 / math.Sqrt2, 0}}
