@@ -63,6 +63,10 @@ func TestSpin1PolarAnalytic(t *testing.T) {
 		if c := r.CPlusX[0]; math.Abs(c-math.Sqrt(g0/2)) > 1e-6 {
 			t.Errorf("polar sound %.9g, want √(G0/2) = %.9g", c, math.Sqrt(g0/2))
 		}
+		// no coupling: ε(k) = k² + const, m/m* = 1
+		if math.Abs(r.EffectiveMass-1) > 1e-6 {
+			t.Errorf("polar m/m* = %.9g, want 1", r.EffectiveMass)
+		}
 	}
 }
 
@@ -254,5 +258,74 @@ func TestSpin1PolarDynamicalInstability(t *testing.T) {
 	}
 	if !found {
 		t.Errorf("q = 0.3: growth rates %v, want %.10g", r.Modes[1], want)
+	}
+}
+
+// Fixed magnetisation (Lagrange multiplier on F_z), uncoupled gas with
+// c2 > 0 and small q > 0: the state is the ±1 mixture φ = (a, 0, c),
+// a² − c² = M, with λ = G2 M and μ = q + G0 (stationarity, derived here).
+// Its ±1 fluctuations are those of a two-component condensate with
+// g_{±±} = c0 + c2, g_{+−} = c0 − c2: E² = ε(ε + 2Λ±), Λ± the eigenvalues
+// of g_ij √(n_i n_j) (the two-component Bogoliubov spectrum; L. Pitaevskii,
+// S. Stringari, Bose–Einstein Condensation and Superfluidity, Oxford 2016,
+// recalled), here Λ± = [(G0 + G2) ± √((G0 + G2)² − 4G0G2(1 − M²))]/2; the
+// m = 0 fluctuation has A = ε − q + G2, Y = G2√(1 − M²) (derived here), so
+// E = √((ε − q + G2)² − G2²(1 − M²)), real for q < G2(1 − √(1 − M²)).
+func TestSpin1FixedMagnetization(t *testing.T) {
+	const q, g0, g2, mag = 0.05, 1.0, 0.5, 0.6
+	u := freeSpin1(0, q, g0, g2)
+	qs := []float64{0.2, 0.6, 1.5}
+	// (the variational theory does not converge on these exactly degenerate
+	// bands; the state is refined from a start near the mixture)
+	p := Spin1ExcitationProblem{Uniform: u, Q: qs, FixMagnetization: true, Magnetization: mag}
+	sp, err := newSpin1Spectrum(p, Spin1Wave{Spinor: [3]float64{0.9, 0.01, 0.45}}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	set := (&ExcitationSettings{}).withDefaultsScale(sp.scale)
+	r, err := computeSpectrum(sp, qs, QAlongX, nil, &set, Stable)
+	if err != nil {
+		t.Fatal(err)
+	}
+	st := sp.st
+	if math.Abs(st.Phi[1]) > 1e-7 || math.Abs(st.Fz-mag) > 1e-9 || math.Abs(st.Lambda-g2*mag) > 1e-8 || math.Abs(st.Mu-(q+g0)) > 1e-8 {
+		t.Fatalf("state %+v: want φ₀ = 0, F_z = %g, λ = %g, μ = %g", st, mag, g2*mag, q+g0)
+	}
+	s := math.Sqrt((g0+g2)*(g0+g2) - 4*g0*g2*(1-mag*mag))
+	lp, lm := (g0+g2+s)/2, (g0+g2-s)/2
+	for i, k := range qs {
+		e := k * k
+		want := []float64{math.Sqrt(e * (e + 2*lp)), math.Sqrt(e * (e + 2*lm)), math.Sqrt((e-q+g2)*(e-q+g2) - g2*g2*(1-mag*mag))}
+		sort.Float64s(want)
+		got := sortedOmegas(r.Modes[i])
+		for j := range want {
+			if math.Abs(got[j]-want[j]) > 1e-7 {
+				t.Errorf("q = %g: modes %v, want %v", k, got, want)
+				break
+			}
+		}
+	}
+	if r.Status != Stable {
+		t.Errorf("status %v", r.Status)
+	}
+	// the same M as the free state's: λ → 0 and the free spectrum
+	uc := Spin1Uniform{Model: dispersion.RamanSpin1(2, 0.5, 1), G0: 1, G2: -0.1}
+	free, err := Spin1Excitations(Spin1ExcitationProblem{Uniform: uc, Q: qs}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	fixed, err := Spin1Excitations(Spin1ExcitationProblem{Uniform: uc, Q: qs, FixMagnetization: true, Magnetization: free.State.Fz}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(fixed.State.Lambda) > 1e-7 {
+		t.Errorf("λ = %g at the free magnetisation", fixed.State.Lambda)
+	}
+	for i := range qs {
+		for j := 0; j < 3; j++ {
+			if d := math.Abs(fixed.Modes[i][j].Omega - free.Modes[i][j].Omega); d > 1e-6 {
+				t.Errorf("q = %g mode %d: fixed %g, free %g", qs[i], j, fixed.Modes[i][j].Omega, free.Modes[i][j].Omega)
+			}
+		}
 	}
 }
