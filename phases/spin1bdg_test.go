@@ -329,3 +329,19 @@ func TestSpin1FixedMagnetization(t *testing.T) {
 		}
 	}
 }
+
+// A ground state of two plane waves (Ω = 0, q < 0, c2 > 0 at M = 0: the ±1
+// mixture at momenta K_{±1}, Stamper-Kurn & Ueda (2013)) is refused, and
+// BranchPlaneWave gives the lowest one-wave state, marked metastable.
+func TestSpin1ExcitationsRefusesMultiWave(t *testing.T) {
+	u := Spin1Uniform{Model: dispersion.RamanSpin1(0, 0, -0.5), G0: 10, G2: 1}
+	p := Spin1ExcitationProblem{Uniform: u, Q: []float64{0.5}, FixMagnetization: true, Magnetization: 0}
+	if _, err := Spin1Excitations(p, nil); !errors.Is(err, ErrSpin1MultiWave) {
+		t.Fatalf("err %v, want ErrSpin1MultiWave", err)
+	}
+	p.Branch = BranchPlaneWave
+	r, err := Spin1Excitations(p, nil)
+	if err != nil || !r.Metastable {
+		t.Fatalf("plane-wave branch: err %v, metastable %v", err, r.Metastable)
+	}
+}
