@@ -171,18 +171,20 @@ type excitationFlags struct {
 
 // runExcitations3 is `excitations --levels 3`: the spin-1 model and
 // interactions as `ground --levels 3` builds them for a uniform box, then
-// phases.Spin1Excitations.
+// phases.Spin1Excitations. Two-level couplings and stripe-basis settings on
+// the command line are refused; from a plan (whose two-level settings may be
+// there for --levels 2) they are not used.
 func runExcitations3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *interFlags, ef excitationFlags, outs []string) error {
 	for _, f := range []struct {
 		q    *quantity
 		name string
 	}{{inf.g1, "G1"}, {inf.g2, "G2"}, {inf.nguu, "ng-uu"}, {inf.ngdd, "ng-dd"}, {inf.ngud, "ng-ud"}, {inf.aUU, "a-uu"}, {inf.aDD, "a-dd"}, {inf.aUD, "a-ud"}} {
-		if f.q.text != "" {
+		if f.q.text != "" && !g.fromPlan[f.name] {
 			return usagef("--%s %q: a two-level coupling; with --levels 3 give --nc0-er and --nc2-er, or --density (with --a0/--a2)", f.name, f.q.text)
 		}
 	}
 	for _, name := range []string{"bands", "harmonics"} {
-		if cmd.Flags().Changed(name) {
+		if cmd.Flags().Changed(name) && !g.fromPlan[name] {
 			return usagef("--%s: a setting of the two-level stripe basis; --levels 3 has no stripe spectrum", name)
 		}
 	}

@@ -140,4 +140,13 @@ func TestExcitationsSpin1(t *testing.T) {
 	if !strings.HasPrefix(string(b), "q_over_kR,mode,omega_over_ER,growth_over_ER,density_weight,spin_weight,transverse_spin_weight\n") {
 		t.Errorf("csv header %q", strings.SplitN(string(b), "\n", 2)[0])
 	}
+	// a plan with the effective settings of a run (two-level stripe-basis
+	// defaults included) runs again with --levels 3
+	plan := filepath.Join(dir, "p.toml")
+	if err := os.WriteFile(plan, []byte("bands = \"6\"\nharmonics = \"0\"\nlevels = \"3\"\nnc0-er = \"1\"\nnc2-er = \"-0.1\"\nomega-er = \"2\"\ndelta-er = \"0.5\"\nepsilon-er = \"1\"\nq = \"-1:1:3\"\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if code, _, stderr := runArgs(t, "excitations", "--plan", plan); code != 0 {
+		t.Errorf("from a plan: exit %d: %s", code, stderr)
+	}
 }
