@@ -507,8 +507,15 @@ func (r *ExcitationsResult) Figure() (*Figure, error) {
 	}
 	p.X.Label.Text = fmt.Sprintf("q_%s  [k_R]", axisName(res.Axis))
 	p.Y.Label.Text = yl
+	off := offScale(res.Modes)
 	for b := 0; ; b++ {
 		any := false
+		if b < len(off) && off[b] {
+			lo, hi := branchRange(res.Modes, b)
+			unit := map[bool]string{true: "kHz", false: "E_R"}[si]
+			p.Legend.Add(fmt.Sprintf("branch %d off scale: %.4g … %.4g %s", b+1, lo*ys, hi*ys, unit))
+			continue
+		}
 		for i := 0; i+1 < len(res.Q); i++ {
 			if b >= len(res.Modes[i]) || b >= len(res.Modes[i+1]) {
 				continue
@@ -535,7 +542,7 @@ func (r *ExcitationsResult) Figure() (*Figure, error) {
 			l.Color, l.Width = shade(fv), vg.Points(2.2)
 			p.Add(l)
 		}
-		if !any {
+		if !any && b >= len(off) {
 			break
 		}
 	}
@@ -619,6 +626,42 @@ func (r *ExcitationsResult) Figure() (*Figure, error) {
 		h = 10 * vg.Inch
 	}
 	return &Figure{Title: title, Width: 10 * vg.Inch, Height: h, Panels: panels}, nil
+}
+
+// branchRange is the range of Re ω of branch b over the grid.
+func branchRange(modes [][]phases.Mode, b int) (lo, hi float64) {
+	lo, hi = math.Inf(1), math.Inf(-1)
+	for _, ms := range modes {
+		if b < len(ms) {
+			lo, hi = math.Min(lo, ms[b].Omega), math.Max(hi, ms[b].Omega)
+		}
+	}
+	return
+}
+
+// offScale marks the branches left out of the spectrum plot: a branch
+// (not the lowest) whose lowest frequency lies above 4 × the highest of the
+// branches below it (a far third level, hundreds of kHz above the others,
+// would flatten them); the legend gives its range instead. Rule of
+// readability, no physics.
+func offScale(modes [][]phases.Mode) []bool {
+	nb := 0
+	for _, ms := range modes {
+		nb = max(nb, len(ms))
+	}
+	off := make([]bool, nb)
+	below := math.Inf(-1)
+	for b := 0; b < nb; b++ {
+		lo, hi := branchRange(modes, b)
+		if b > 0 && below > 0 && lo > 4*below {
+			for c := b; c < nb; c++ {
+				off[c] = true
+			}
+			break
+		}
+		below = math.Max(below, hi)
+	}
+	return off
 }
 
 func maxOf(v []float64) float64 {

@@ -149,4 +149,21 @@ func TestExcitationsSpin1(t *testing.T) {
 	if code, _, stderr := runArgs(t, "excitations", "--plan", plan); code != 0 {
 		t.Errorf("from a plan: exit %d: %s", code, stderr)
 	}
+	// the demo's shaking scheme: the stripe is the ground state; the
+	// metastable plane wave has a soft mode at the other minimum (q ≈ −2),
+	// a small positive-norm frequency that is not a zero mode, and a
+	// negative-energy roton; its third level sits ~518 kHz up (off the
+	// figure's scale)
+	code, stdout, stderr = runArgs(t, "excitations", "--levels", "3", "--plan", "plans/demo.toml", "--branch", "plane-wave", "--q=-3:3:121", "--json",
+		"--out", filepath.Join(dir, "demo.png"))
+	if code != 0 {
+		t.Fatalf("demo plan: exit %d: %s", code, stderr)
+	}
+	doc = nil
+	if err := json.Unmarshal([]byte(stdout), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if doc["status"] != "energetically-unstable" || doc["metastable"] != true {
+		t.Errorf("demo plan: status %v, metastable %v", doc["status"], doc["metastable"])
+	}
 }
