@@ -108,8 +108,20 @@ type Spin1CondensateState struct {
 	Fz     float64 // ⟨F_z⟩ per particle
 	FPerp  float64 // |⟨F_x⟩| per particle (the transverse magnetisation; ⟨F_y⟩ = 0)
 	// Residual: max of |(H[φ] − λF_z − μ)φ| (E_R), |φᵀ∂_k hφ| (k_R) and
-	// |⟨F_z⟩ − M| after the Newton refinement.
+	// |⟨F_z⟩ − M| after the Newton refinement (for a stripe, of the
+	// equations of spin1stripebdg.go).
 	Residual float64
+	// Stripe (two or more plane waves): K the reciprocal lattice vector
+	// (k_R), M the harmonics m, Amp the real amplitudes a_m (m_F = +1, 0,
+	// −1) of ψ₀ = √n e^{ik₀x} Σ_m a_m e^{imKx}, Harmonics = 2M the basis size
+	// and HarmonicChange (E_R) the change of the bands and the energy on the
+	// last increase of M; Phi is then NaN and FPerp the rms transverse
+	// magnetisation. A uniform state has K = 0, Harmonics = 1.
+	K              float64
+	M              []int
+	Amp            [][3]float64
+	Harmonics      int
+	HarmonicChange float64
 }
 
 // Spin1ExcitationResult is the spectrum of one spin-1 state. Modes have
@@ -148,7 +160,6 @@ func Spin1Excitations(p Spin1ExcitationProblem, s *ExcitationSettings) (Spin1Exc
 	switch p.Branch {
 	case BranchGround, BranchPlaneWave:
 	case BranchStripe:
-		return res, ErrSpin1MultiWave
 	default:
 		return res, fmt.Errorf("phases: unknown branch %d", p.Branch)
 	}
@@ -190,9 +201,26 @@ func Spin1Excitations(p Spin1ExcitationProblem, s *ExcitationSettings) (Spin1Exc
 			ph = label.SingleMinimum
 		}
 		name = fmt.Sprintf("one plane wave from %s, k = %+.4g", c.Start, wave.K)
+	case BranchStripe:
+		best := -1
+		for i, c := range vr.Candidates {
+			if c.OK && len(c.State.Waves) > 1 && minWeight(c.State) >= spin1WeightFloor && (best < 0 || c.Energy < vr.Candidates[best].Energy) {
+				best = i
+			}
+		}
+		if best < 0 {
+			return res, ErrNotStripe
+		}
+		c := vr.Candidates[best]
+		res.Metastable = vr.Energy < c.Energy-vs.withDefaults().TieTol
+		ph, name = vr.Phase, vr.Name
+		if res.Metastable {
+			ph, name = label.Stripe, fmt.Sprintf("%s from %s", c.Family, c.Start)
+		}
+		return res, res.stripe(p, c.State, s, ph, name)
 	default:
 		if vr.Phase != label.PlaneWave && vr.Phase != label.SingleMinimum {
-			return res, fmt.Errorf("%w: the state here is %s", ErrSpin1MultiWave, vr.Name)
+			return res, res.stripe(p, vr.State, s, vr.Phase, vr.Name)
 		}
 		// the dominant wave (the others are below the classifier's floor)
 		bw := -1.0
@@ -208,10 +236,55 @@ func Spin1Excitations(p Spin1ExcitationProblem, s *ExcitationSettings) (Spin1Exc
 		return res, err
 	}
 	sp.st.Phase, sp.st.Name = ph, name
+	sp.st.M, sp.st.Amp, sp.st.Harmonics = []int{0}, [][3]float64{sp.st.Phi}, 1
 	res.State = sp.st
 	st := s.withDefaultsScale(sp.scale)
 	res.Spectrum, err = computeSpectrum(sp, p.Q, p.Axis, p.Bragg, &st, Stable)
 	return res, err
+}
+
+// minWeight is the smallest normalised weight of the waves of s.
+func minWeight(s Spin1State) float64 {
+	var tot float64
+	w := math.Inf(1)
+	for _, x := range s.Waves {
+		a := real(x.Amp)*real(x.Amp) + imag(x.Amp)*imag(x.Amp)
+		tot += a
+		w = math.Min(w, a)
+	}
+	return w / tot
+}
+
+// stripe solves the multi-wave state s in the plane-wave basis of its
+// lattice and fills the result with its Bloch–Bogoliubov spectrum.
+func (res *Spin1ExcitationResult) stripe(p Spin1ExcitationProblem, s Spin1State, set *ExcitationSettings, ph label.Phase, name string) error {
+	st := set.withDefaultsScale(spin1Scale(p.Uniform))
+	ss, err := newSpin1StripeSpectrum(p, s, &st)
+	if err != nil {
+		return err
+	}
+	c, _ := spin1Pairs(ss.a, ss.nh)
+	var fz, fp float64
+	for pi := range c {
+		fx, t := trMul(&spin1Fx, &c[pi]), trMul(&spin1S, &c[pi])
+		fp += fx*fx + t*t
+	}
+	amp := make([][3]float64, ss.nh)
+	ms := make([]int, ss.nh)
+	for i := range amp {
+		copy(amp[i][:], ss.a[3*i:3*i+3])
+		ms[i] = i - ss.M
+		fz += amp[i][0]*amp[i][0] - amp[i][2]*amp[i][2]
+	}
+	nan := math.NaN()
+	res.State = Spin1CondensateState{Phase: ph, Name: name, K0: ss.k0, K: ss.K, Phi: [3]float64{nan, nan, nan}, Mu: ss.mu, Lambda: ss.lam,
+		Energy: ss.energy, Fz: fz, FPerp: math.Sqrt(fp), Residual: ss.resid, M: ms, Amp: amp, Harmonics: ss.nh, HarmonicChange: ss.change}
+	status := Stable
+	if ss.change > st.HarmonicTol {
+		status = HarmonicsNotConverged
+	}
+	res.Spectrum, err = computeSpectrum(ss, p.Q, p.Axis, p.Bragg, &st, status)
+	return err
 }
 
 // spin1Scale is max(1, |Ω|, |G0|, |G2|, max|E_m|) (E_R).

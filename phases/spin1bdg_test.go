@@ -1,12 +1,12 @@
 package phases
 
 import (
-	"errors"
 	"math"
 	"sort"
 	"testing"
 
 	"socmap/dispersion"
+	"socmap/phases/label"
 )
 
 // freeSpin1 is the uncoupled spin-1 gas with all momentum offsets zero and
@@ -102,15 +102,6 @@ func TestSpin1FerromagneticAnalytic(t *testing.T) {
 				}
 			}
 		}
-	}
-}
-
-// BranchStripe and multi-wave ground states are refused.
-func TestSpin1ExcitationsRefusesStripe(t *testing.T) {
-	u := Spin1Uniform{Model: dispersion.RamanSpin1(1, 0, 0.5), G0: 1, G2: 0.05}
-	_, err := Spin1Excitations(Spin1ExcitationProblem{Uniform: u, Q: []float64{0.1}, Branch: BranchStripe}, nil)
-	if !errors.Is(err, ErrSpin1MultiWave) {
-		t.Fatalf("err %v", err)
 	}
 }
 
@@ -330,17 +321,97 @@ func TestSpin1FixedMagnetization(t *testing.T) {
 	}
 }
 
+// The spin-1 stripe in the plane-wave basis (spin1stripebdg.go): two
+// gapless modes at q = 0 (phase and translation, common practice), the
+// f-sum rule m1(q) + m1(−q) = 2q² over all bands (Pitaevskii & Stringari
+// 2016), the spectrum periodic in q with period K, and, as the third level
+// moves away (ε → ∞ at fixed δ_pair), the two-level stripe BdG of the pair
+// with the second-order shift (Excitations, BranchStripe; itself checked
+// against numpy, testdata/ref_bdg.py): with G2 ≠ 0 the remaining difference
+// falls like 1/ε (ratio ≈ 2 per doubling).
+func TestSpin1StripeBdG(t *testing.T) {
+	qs := []float64{0, 0.3, -0.3, 0.7, -0.7, 1.2}
+	diff := func(eps float64) (float64, Spin1ExcitationResult) {
+		u := Spin1Uniform{Model: dispersion.RamanSpin1Pair(1, -0.2, eps), G0: 2.2, G2: -0.4}
+		r3, err := Spin1Excitations(Spin1ExcitationProblem{Uniform: u, Q: qs}, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if r3.State.Phase != label.Stripe || r3.Status != Stable {
+			t.Fatalf("ε = %g: %v %v (%s)", eps, r3.State.Phase, r3.Status, r3.State.Name)
+		}
+		r2, err := Excitations(ExcitationProblem{Uniform: Spin1PairUniform(u, true), Q: qs, Branch: BranchStripe}, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		d := math.Abs(r3.State.K - r2.State.K)
+		for i := range qs {
+			for b := 0; b < 4; b++ {
+				d = math.Max(d, math.Abs(r3.Modes[i][b].Omega-r2.Modes[i][b].Omega))
+			}
+		}
+		return d, r3
+	}
+	prev := 0.0
+	for _, eps := range []float64{40, 80, 160} {
+		d, r := diff(eps)
+		t.Logf("ε = %g: %d plane waves (change %.2g), max |Δω|, |ΔK| vs the two-level stripe %.3g", eps, r.State.Harmonics, r.State.HarmonicChange, d)
+		if prev > 0 && !(prev/d > 1.6 && prev/d < 2.6) {
+			t.Errorf("ε = %g: difference ratio %.3g per doubling, want ≈ 2", eps, prev/d)
+		}
+		prev = d
+		if eps != 160 {
+			continue
+		}
+		if math.Abs(r.Modes[0][0].Omega) > 1e-6 || math.Abs(r.Modes[0][1].Omega) > 1e-6 || r.Modes[0][2].Omega < 0.1 {
+			t.Errorf("q = 0: %v %v %v, want two zero modes", r.Modes[0][0].Omega, r.Modes[0][1].Omega, r.Modes[0][2].Omega)
+		}
+		for i := 1; i+1 < len(qs); i += 2 {
+			if s := r.FSum[i] + r.FSum[i+1]; math.Abs(s-2*qs[i]*qs[i]) > 1e-8 {
+				t.Errorf("q = ±%g: m1(q) + m1(−q) = %.12g, want %.12g", qs[i], s, 2*qs[i]*qs[i])
+			}
+		}
+		if len(r.CPlusX) != 2 || !(r.CPlusX[0] > 0.1 && r.CPlusX[1] > r.CPlusX[0]) {
+			t.Errorf("sound velocities %v", r.CPlusX)
+		}
+		u := Spin1Uniform{Model: dispersion.RamanSpin1Pair(1, -0.2, eps), G0: 2.2, G2: -0.4}
+		rk, err := Spin1Excitations(Spin1ExcitationProblem{Uniform: u, Q: []float64{0.3 + r.State.K, 0.3 - 2*r.State.K}}, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for j := range rk.Q {
+			for b := 0; b < 4; b++ {
+				if math.Abs(rk.Modes[j][b].Omega-r.Modes[1][b].Omega) > 1e-9 {
+					t.Errorf("q = %g: band %d %.12g, at 0.3 %.12g (period K)", rk.Q[j], b, rk.Modes[j][b].Omega, r.Modes[1][b].Omega)
+				}
+			}
+		}
+	}
+	if prev > 1e-3 {
+		t.Errorf("ε = 160: difference %.3g", prev)
+	}
+}
+
 // A ground state of two plane waves (Ω = 0, q < 0, c2 > 0 at M = 0: the ±1
-// mixture at momenta K_{±1}, Stamper-Kurn & Ueda (2013)) is refused, and
-// BranchPlaneWave gives the lowest one-wave state, marked metastable.
-func TestSpin1ExcitationsRefusesMultiWave(t *testing.T) {
-	u := Spin1Uniform{Model: dispersion.RamanSpin1(0, 0, -0.5), G0: 10, G2: 1}
+// mixture at momenta K_{±1}, uniform density; Stamper-Kurn & Ueda (2013))
+// is solved in the plane-wave basis: the mixture (√½ e^{iK₊₁x}, 0,
+// √½ e^{iK₋₁x}) has n = 1, F = 0 everywhere, so its energy per particle is
+// G0/2 + E_{±1}, E_{±1} = q_Z/2 in the pair gauge (derived here); and
+// BranchPlaneWave gives the lowest one-wave state, metastable.
+func TestSpin1AntiferromagneticState(t *testing.T) {
+	const qz, g0, g2 = -0.5, 10.0, 1.0
+	u := Spin1Uniform{Model: dispersion.RamanSpin1(0, 0, qz), G0: g0, G2: g2}
 	p := Spin1ExcitationProblem{Uniform: u, Q: []float64{0.5}, FixMagnetization: true, Magnetization: 0}
-	if _, err := Spin1Excitations(p, nil); !errors.Is(err, ErrSpin1MultiWave) {
-		t.Fatalf("err %v, want ErrSpin1MultiWave", err)
+	r, err := Spin1Excitations(p, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// pair gauge: E_m − (E_0 + E_−1)/2, E_m = qz m², so E_±1 = qz/2
+	if want := g0/2 + qz/2; r.State.Phase != label.Antiferromagnetic || math.Abs(r.State.Energy-want) > 1e-9 {
+		t.Errorf("%v: energy %.12g, want %.12g", r.State.Phase, r.State.Energy, want)
 	}
 	p.Branch = BranchPlaneWave
-	r, err := Spin1Excitations(p, nil)
+	r, err = Spin1Excitations(p, nil)
 	if err != nil || !r.Metastable {
 		t.Fatalf("plane-wave branch: err %v, metastable %v", err, r.Metastable)
 	}
