@@ -209,9 +209,17 @@ func (r *ExcitationsResult) spin1StateRows(t *Table) {
 		t.RowNote("", "metastable", "", fmt.Sprintf("the variational theory finds %s lower", s1.Variational.Phase))
 	}
 	t.Row("k₀", Num(st.K0, 6), "k_R")
-	t.RowNote("spinor φ", fmt.Sprintf("(%s, %s, %s)", Num(st.Phi[0], 6), Num(st.Phi[1], 6), Num(st.Phi[2], 6)), "", "m = +1, 0, −1")
-	t.Row("⟨F_z⟩ per particle", Num(st.Fz, 6), "")
-	t.Row("|⟨F_x⟩| per particle", Num(st.FPerp, 6), "")
+	if st.Harmonics > 1 {
+		t.Row("reciprocal vector K", Num(st.K, 6), "k_R")
+		t.Row("period 2π/K", Num(2*math.Pi/st.K, 6), "1/k_R")
+		t.RowNote("plane waves in the basis", fmt.Sprint(st.Harmonics), "", fmt.Sprintf("3 components each; last change %.2g E_R", st.HarmonicChange))
+		t.Row("⟨F_z⟩ per particle", Num(st.Fz, 6), "")
+		t.Row("rms transverse magnetisation", Num(st.FPerp, 6), "")
+	} else {
+		t.RowNote("spinor φ", fmt.Sprintf("(%s, %s, %s)", Num(st.Phi[0], 6), Num(st.Phi[1], 6), Num(st.Phi[2], 6)), "", "m = +1, 0, −1")
+		t.Row("⟨F_z⟩ per particle", Num(st.Fz, 6), "")
+		t.Row("|⟨F_x⟩| per particle", Num(st.FPerp, 6), "")
+	}
 	if r.Spin1Problem.FixMagnetization {
 		t.RowNote("Lagrange multiplier λ", Num(st.Lambda, 8), "E_R", "fixed ⟨F_z⟩: the BdG uses h − λF_z")
 	}
@@ -226,7 +234,10 @@ func axisName(a phases.QAxis) string {
 
 // JSON returns the JSON document (keys with their units). Spin-1 results
 // (`--levels 3`) have "levels": 3, the state keys "k0_over_kR", "spinor"
-// (φ, m = +1, 0, −1), "fz", "f_perp", "lambda_over_ER" (the Lagrange
+// (φ, m = +1, 0, −1; for a state of several plane waves instead
+// "amplitudes" [{"m", "a": [a₊₁, a₀, a₋₁]}], "reciprocal_vector_over_kR",
+// "stripe_period_over_inv_kR", "harmonics", "harmonic_change_over_ER"),
+// "fz", "f_perp" (rms transverse magnetisation), "lambda_over_ER" (the Lagrange
 // multiplier of a fixed ⟨F_z⟩, 0 when free), "magnetization_fixed",
 // "state_name", "stationarity_residual_over_ER", and per mode
 // "transverse_spin_weight" (|δF_x|² + |δF_y|²) beside "spin_weight"
@@ -281,7 +292,19 @@ func (r *ExcitationsResult) JSON() map[string]any {
 		doc["metastable"] = s1.Metastable
 		doc["state_name"] = st.Name
 		doc["k0_over_kR"] = n(st.K0)
-		doc["spinor"] = jsonList(st.Phi[:])
+		if st.Harmonics > 1 {
+			amps := make([]any, len(st.Amp))
+			for i, a := range st.Amp {
+				amps[i] = map[string]any{"m": st.M[i], "a": jsonList(a[:])}
+			}
+			doc["amplitudes"] = amps
+			doc["reciprocal_vector_over_kR"] = n(st.K)
+			doc["stripe_period_over_inv_kR"] = n(2 * math.Pi / st.K)
+			doc["harmonics"] = st.Harmonics
+			doc["harmonic_change_over_ER"] = n(st.HarmonicChange)
+		} else {
+			doc["spinor"] = jsonList(st.Phi[:])
+		}
 		doc["fz"] = n(st.Fz)
 		doc["f_perp"] = n(st.FPerp)
 		doc["lambda_over_ER"] = n(st.Lambda)
@@ -415,7 +438,16 @@ func (r *ExcitationsResult) WriteH5(w *Writer) {
 		st := &s1.State
 		w.Scalar(g+"/energy", st.Energy, "E_R", "energy per particle of the state")
 		w.Scalar(g+"/mu", st.Mu, "E_R", "chemical potential of the state")
-		w.Array(g+"/state_spinor", append([]float64(nil), st.Phi[:]...), nil, "dimensionless", "real unit spinor φ (m = +1, 0, −1) of ψ₀ = √n e^{ik₀x} φ")
+		if st.Harmonics > 1 {
+			amp := make([]float64, 0, 3*len(st.Amp))
+			for _, a := range st.Amp {
+				amp = append(amp, a[:]...)
+			}
+			w.Array(g+"/state_amplitudes", amp, []int{len(st.Amp), 3}, "dimensionless", "a_m (m_F = +1, 0, −1), m = −M … M−1, of ψ₀ = √n e^{ik₀x} Σ_m a_m e^{imKx}")
+			w.Scalar(g+"/state_K", st.K, "k_R", "reciprocal lattice vector K")
+		} else {
+			w.Array(g+"/state_spinor", append([]float64(nil), st.Phi[:]...), nil, "dimensionless", "real unit spinor φ (m = +1, 0, −1) of ψ₀ = √n e^{ik₀x} φ")
+		}
 		w.Scalar(g+"/state_k0", st.K0, "k_R", "k₀ of the state")
 		w.Scalar(g+"/fz", st.Fz, "dimensionless", "⟨F_z⟩ per particle")
 		w.Scalar(g+"/lambda", st.Lambda, "E_R", "Lagrange multiplier of a fixed ⟨F_z⟩ (the BdG uses h − λF_z); 0 when free")
@@ -501,6 +533,10 @@ func (r *ExcitationsResult) Figure() (*Figure, error) {
 	title := fmt.Sprintf("Bogoliubov spectrum, %s (%s), k₁ = %.3f k_R", r.phase(), res.Status, r.K1())
 	if r.Spin1 != nil {
 		title = fmt.Sprintf("Bogoliubov spectrum, F = 1 (3 branches), %s (%s), k₀ = %.3f k_R", r.phase(), res.Status, r.K1())
+		if st := &r.Spin1.State; st.Harmonics > 1 {
+			title = fmt.Sprintf("Bloch–Bogoliubov spectrum, F = 1, lowest %d bands, %s (%s), K = %.4f k_R, %d plane waves × 3 components",
+				len(res.Modes[0]), r.phase(), res.Status, st.K, st.Harmonics)
+		}
 	}
 	if r.Subtitle != "" {
 		title += "\n" + r.Subtitle

@@ -69,20 +69,22 @@ import (
 // here) and agree with the forms of D. M. Stamper-Kurn and M. Ueda, Rev. Mod.
 // Phys. 85, 1191 (2013) (recalled).
 
-// ErrSpin1MultiWave is returned when the spin-1 state has two or more plane
-// waves (a stripe, stripe-3, antiferromagnetic or broken-axisymmetry state):
-// its Bloch–Bogoliubov spectrum is not implemented.
-var ErrSpin1MultiWave = errors.New("the Bogoliubov spectrum of spin-1 states with two or more plane waves (stripe, stripe-3, antiferromagnetic, broken-axisymmetry) is not implemented")
+// ErrSpin1MultiWave is returned when a spin-1 state of two or more plane
+// waves is outside the plane-wave basis of spin1stripebdg.go: momenta not
+// on one lattice, or amplitudes that are not real up to a common phase.
+var ErrSpin1MultiWave = errors.New("the Bogoliubov spectrum of this spin-1 state of several plane waves is not implemented (momenta not on one lattice, or complex relative amplitudes)")
 
 // Spin1ExcitationProblem is the excitation spectrum of one uniform spin-1
 // problem.
 type Spin1ExcitationProblem struct {
 	Uniform Spin1Uniform
-	// Branch: BranchGround (the variational winner; ErrSpin1MultiWave when it
-	// has more than one plane wave) or BranchPlaneWave (the lowest converged
-	// one-wave candidate of the variational theory, also where a state of
-	// more waves is lower: then Metastable). BranchStripe gives
-	// ErrSpin1MultiWave.
+	// Branch: BranchGround (the variational winner: one plane wave, or
+	// several solved in the plane-wave basis of their lattice), BranchPlaneWave
+	// (the lowest converged one-wave candidate of the variational theory,
+	// also where a state of more waves is lower: then Metastable) or
+	// BranchStripe (the lowest converged candidate of two or three waves,
+	// each of weight ≥ 1e-6; ErrNotStripe when there is none; Metastable
+	// when a one-wave state is lower).
 	Branch Branch
 	// Q: excitation momenta along Axis (k_R).
 	Q    []float64
@@ -134,16 +136,22 @@ type Spin1ExcitationResult struct {
 	Spectrum
 }
 
-// Spin1Excitations computes the Bogoliubov spectrum of the one-plane-wave
-// state of p (see Spin1ExcitationProblem.Branch) at the momenta p.Q: three
-// branches with their density, F_z and transverse-spin weights, the sound
-// velocity of the gapless branch along ±x and y, the effective mass, the
-// roton minimum of the lowest branch along x, dynamical instabilities and,
-// with p.Bragg, the Bragg response (density and F_z channels). The state is
-// the variational one refined by Newton's method on the stationarity
-// equations. Errors: ErrBadInput, ErrBadMomenta, ErrSpin1MultiWave.
-// Settings: as for Excitations; Spin1 holds the variational settings (its
-// magnetisation fields are overridden by the problem's).
+// Spin1Excitations computes the Bogoliubov spectrum of the spin-1 state of
+// p (see Spin1ExcitationProblem.Branch) at the momenta p.Q. A state of one
+// plane wave: three branches with their density, F_z and transverse-spin
+// weights, the sound velocity of the gapless branch along ±x and y, the
+// effective mass, the roton minimum of the lowest branch along x. A state of
+// several plane waves (stripe, stripe-3, antiferromagnetic,
+// broken-axisymmetry): solved in the plane-wave basis of its lattice
+// (spin1stripebdg.go), the lowest Bands bands at total momentum q (extended
+// zones along x), two gapless branches, no effective mass or roton. Both:
+// dynamical instabilities and, with p.Bragg, the Bragg response (density
+// and F_z channels). The state is the variational one refined by Newton's
+// method on the stationarity equations. Errors: ErrBadInput, ErrBadMomenta,
+// ErrNotStripe, ErrSpin1MultiWave. Settings: as for Excitations (Bands,
+// Harmonics, HarmonicTol, MaxHarmonics for the several-wave states); Spin1
+// holds the variational settings (its magnetisation fields are overridden
+// by the problem's).
 func Spin1Excitations(p Spin1ExcitationProblem, s *ExcitationSettings) (Spin1ExcitationResult, error) {
 	var res Spin1ExcitationResult
 	if len(p.Q) == 0 {

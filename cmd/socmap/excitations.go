@@ -41,12 +41,12 @@ the roton minimum, dynamical instabilities (complex frequencies), and with
 With --levels 3 the state is the one-plane-wave mean-field state of the full
 F = 1 model (same flags as ground --levels 3: --epsilon-er, --nc0-er/--nc2-er or
 --density with --a0/--a2, --magnetization), whose 6×6 Bogoliubov problem gives
-three branches per momentum (density, F_z and transverse-spin weights); with a
-fixed --magnetization the state is found with a Lagrange multiplier λ on F_z and
-the spectrum is that of h − λF_z. Spin-1 states of two or more plane waves
-(stripe, antiferromagnetic, broken-axisymmetry) are refused: their Bloch–
-Bogoliubov spectrum is not implemented (--branch plane-wave takes the lowest
-one-plane-wave state instead).`,
+three branches per momentum (density, F_z and transverse-spin weights); states of
+two or more plane waves (stripe, stripe-3, antiferromagnetic, broken-axisymmetry)
+are solved in the plane-wave basis of their lattice with three components per
+harmonic (--bands, --harmonics as for the stripe). With a fixed --magnetization
+the state is found with a Lagrange multiplier λ on F_z and the spectrum is that
+of h − λF_z.`,
 		Example: `  socmap excitations --omega-er 2.6 --G1 1 --G2 0.1 --q=-3:3:241 --out pw.png
   socmap excitations --omega-er 1 --G1 1 --G2 0.1 --bragg-q 1 --bragg-duration 40 --json
   socmap excitations --plan socmap-demo/plan.toml --bragg-q "3 1/um" --bragg-duration "2 ms" --out exc.h5
@@ -60,7 +60,7 @@ one-plane-wave state instead).`,
 				return err
 			}
 			if lf.levels == 3 {
-				return runExcitations3(cmd, &mf, &lf, &inf, excitationFlags{q: qText, axis: axis, branch: branch, braggQ: braggQ, braggDur: braggDur}, outs)
+				return runExcitations3(cmd, &mf, &lf, &inf, excitationFlags{q: qText, axis: axis, branch: branch, braggQ: braggQ, braggDur: braggDur, bands: bands, harmonics: harmonics}, outs)
 			}
 			lab, err := mf.lab()
 			if err != nil {
@@ -134,8 +134,8 @@ one-plane-wave state instead).`,
 	fs.StringVar(&branch, "branch", "ground", "state: ground (the lower of plane wave and stripe), plane-wave, stripe")
 	fs.StringVar(&braggQ, "bragg-q", "", `Bragg momentum along x, in k_R or with a unit ("3 1/um"): adds the Bragg spectrum`)
 	fs.StringVar(&braggDur, "bragg-duration", "", `rectangular Bragg pulse duration, in ħ/E_R or with a unit ("2 ms"); default 25 ħ/E_R`)
-	fs.IntVar(&bands, "bands", 6, "stripe bands reported per momentum (--levels 2)")
-	fs.IntVar(&harmonics, "harmonics", 0, "plane waves of the stripe basis (even; --levels 2); 0: raised until the bands converge to 1e-9 E_R")
+	fs.IntVar(&bands, "bands", 6, "stripe bands reported per momentum")
+	fs.IntVar(&harmonics, "harmonics", 0, "plane waves of the stripe basis (even); 0: raised until the bands converge to 1e-9 E_R")
 	fs.StringSliceVar(&outs, "out", nil, "write FILE.h5, FILE.json, FILE.csv (modes per momentum), FILE.png, .svg or .pdf (spectrum; with --bragg-q also the Bragg spectrum) (repeatable)")
 	return c
 }
@@ -167,6 +167,7 @@ func renderExcitations(cmd *cobra.Command, r *output.ExcitationsResult, outs []s
 // excitationFlags are the excitations settings shared by both models.
 type excitationFlags struct {
 	q, axis, branch, braggQ, braggDur string
+	bands, harmonics                  int
 }
 
 // runExcitations3 is `excitations --levels 3`: the spin-1 model and
@@ -183,18 +184,16 @@ func runExcitations3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *in
 			return usagef("--%s %q: a two-level coupling; with --levels 3 give --nc0-er and --nc2-er, or --density (with --a0/--a2)", f.name, f.q.text)
 		}
 	}
-	for _, name := range []string{"bands", "harmonics"} {
-		if cmd.Flags().Changed(name) && !g.fromPlan[name] {
-			return usagef("--%s: a setting of the two-level stripe basis; --levels 3 has no stripe spectrum", name)
-		}
+	if ef.bands < 1 || ef.bands > 64 {
+		return usagef("--bands %d: allowed 1 … 64", ef.bands)
+	}
+	if ef.harmonics < 0 || ef.harmonics > 96 || ef.harmonics%2 == 1 {
+		return usagef("--harmonics %d: an even number of plane waves 2 … 96, or 0 (from convergence)", ef.harmonics)
 	}
 	p := phases.Spin1ExcitationProblem{}
 	var err error
 	if p.Branch, err = phases.ParseBranch(ef.branch); err != nil {
 		return usagef("--branch %q: allowed: ground, plane-wave, stripe", ef.branch)
-	}
-	if p.Branch == phases.BranchStripe {
-		return usagef("--branch stripe: the Bogoliubov spectrum of spin-1 stripes is not implemented (--levels 3 supports ground and plane-wave states of one plane wave)")
 	}
 	m, scheme, ws, err := lf.model(mf)
 	if err != nil {
@@ -239,8 +238,10 @@ func runExcitations3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *in
 	} else if ef.braggDur != "" {
 		return usagef("--bragg-duration %q: needs --bragg-q", ef.braggDur)
 	}
-	res, err := phases.Spin1Excitations(p, nil)
+	res, err := phases.Spin1Excitations(p, &phases.ExcitationSettings{Bands: ef.bands, Harmonics: ef.harmonics})
 	switch {
+	case errors.Is(err, phases.ErrNotStripe):
+		return usagef("--branch stripe: no spin-1 state of two or three plane waves converged here")
 	case errors.Is(err, phases.ErrSpin1MultiWave):
 		return usagef("--levels 3: %v; --branch plane-wave gives the lowest one-plane-wave state", strings.TrimPrefix(err.Error(), "bad input: "))
 	case errors.Is(err, phases.ErrBadMomenta):
@@ -264,7 +265,7 @@ func runExcitations3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *in
 		notes = append(notes, "warning: "+w.Text)
 	}
 	if res.Metastable {
-		notes = append(notes, fmt.Sprintf("note: the one-plane-wave state is not the lowest here: the variational theory gives %s (%.8g E_R per particle, this state %.8g)", res.Variational.Name, res.Variational.Energy, res.State.Energy))
+		notes = append(notes, fmt.Sprintf("note: the %s state is not the lowest here: the variational theory gives %s (%.8g E_R per particle, this state %.8g)", res.State.Phase, res.Variational.Name, res.Variational.Energy, res.State.Energy))
 	}
 	if p.FixMagnetization && m.Omega != 0 {
 		notes = append(notes, "note: the coupling (Ω/√2)F_x does not conserve F_z: the fixed magnetisation is a constraint on the state, and the spectrum that of h − λF_z around it")
@@ -274,6 +275,8 @@ func runExcitations3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *in
 		notes = append(notes, fmt.Sprintf("warning: dynamically unstable: complex frequencies, largest growth rate %.4g E_R/ħ", res.MaxGrowth))
 	case phases.EnergeticallyUnstable:
 		notes = append(notes, "warning: energetically unstable: a mode of negative energy (the state is not a local energy minimum)")
+	case phases.HarmonicsNotConverged:
+		notes = append(notes, fmt.Sprintf("warning: the plane-wave basis did not converge (last change %.3g E_R); raise --harmonics", res.State.HarmonicChange))
 	}
 	if p.Bragg != nil {
 		notes = append(notes, "Bragg beams are lasers: follow your local laser-safety rules and your lab's safety officer; this calculation says nothing about beam powers.")

@@ -89,12 +89,13 @@ func TestExcitationsSpin1(t *testing.T) {
 	}{
 		{[]string{"--nc0-er", "1"}, "--nc2-er"},
 		{[]string{"--nc0-er", "1", "--nc2-er", "-0.1", "--G1", "1"}, "--G1"},
-		{[]string{"--nc0-er", "1", "--nc2-er", "-0.1", "--harmonics", "8"}, "--harmonics"},
-		{[]string{"--nc0-er", "1", "--nc2-er", "-0.1", "--branch", "stripe"}, "--branch"},
+		{[]string{"--nc0-er", "1", "--nc2-er", "-0.1", "--harmonics", "7"}, "--harmonics"},
+		{[]string{"--nc0-er", "1", "--nc2-er", "-0.1", "--bands", "0"}, "--bands"},
+		{[]string{"--nc0-er", "1", "--nc2-er", "-0.1", "--branch", "roton"}, "--branch"},
 		{[]string{"--nc0-er", "1", "--nc2-er", "-0.1", "--magnetization", "1"}, "--magnetization"},
 		{[]string{"--nc0-er", "1", "--nc2-er", "-0.1", "--q=1:0:3"}, "--q"},
-		// Ω = 0, q < 0, c2 > 0 at M = 0: the antiferromagnetic ±1 mixture (two waves)
-		{[]string{"--omega-er", "0", "--epsilon-er", "-0.5", "--nc0-er", "10", "--nc2-er", "1", "--magnetization", "0"}, "--levels 3"},
+		// Ω = 6, a single minimum: no state of two or three waves
+		{[]string{"--omega-er", "6", "--nc0-er", "1", "--nc2-er", "0.1", "--branch", "stripe"}, "--branch stripe"},
 	} {
 		code, _, stderr := runArgs(t, append(append([]string{}, base...), c.args...)...)
 		if code != 2 || !strings.Contains(stderr, c.flag) || strings.Count(strings.TrimSpace(stderr), "\n") != 0 {
@@ -165,5 +166,19 @@ func TestExcitationsSpin1(t *testing.T) {
 	}
 	if doc["status"] != "energetically-unstable" || doc["metastable"] != true {
 		t.Errorf("demo plan: status %v, metastable %v", doc["status"], doc["metastable"])
+	}
+	// a spin-1 stripe: the lowest --bands bands, the plane-wave basis reported
+	code, stdout, stderr = runArgs(t, "excitations", "--levels", "3", "--omega-er", "1", "--delta-er", "-0.2", "--epsilon-er", "0.5",
+		"--nc0-er", "2.2", "--nc2-er", "-0.4", "--q=-2:2:9", "--bands", "4", "--json", "--out", filepath.Join(dir, "stripe.h5"))
+	if code != 0 {
+		t.Fatalf("stripe: exit %d: %s", code, stderr)
+	}
+	doc = nil
+	if err := json.Unmarshal([]byte(stdout), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if doc["phase"] != "stripe" || doc["harmonics"] == nil || doc["amplitudes"] == nil || len(doc["omega_over_ER"].([]any)[0].([]any)) != 4 ||
+		len(doc["gapless_branches"].([]any)) != 2 {
+		t.Errorf("stripe: phase %v harmonics %v bands %d", doc["phase"], doc["harmonics"], len(doc["omega_over_ER"].([]any)[0].([]any)))
 	}
 }
