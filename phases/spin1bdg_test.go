@@ -396,8 +396,11 @@ func TestSpin1StripeBdG(t *testing.T) {
 // mixture at momenta K_{±1}, uniform density; Stamper-Kurn & Ueda (2013))
 // is solved in the plane-wave basis: the mixture (√½ e^{iK₊₁x}, 0,
 // √½ e^{iK₋₁x}) has n = 1, F = 0 everywhere, so its energy per particle is
-// G0/2 + E_{±1}, E_{±1} = q_Z/2 in the pair gauge (derived here); and
-// BranchPlaneWave gives the lowest one-wave state, metastable.
+// G0/2 + E_{±1}, E_{±1} = q_Z/2 in the pair gauge (derived here); its Bloch
+// bands are the two-component Bogoliubov branches of the ±1 mixture
+// (Pitaevskii & Stringari 2016, recalled) and the derived m = 0 branch,
+// folded into the lattice; and BranchPlaneWave gives the lowest one-wave
+// state, metastable.
 func TestSpin1AntiferromagneticState(t *testing.T) {
 	const qz, g0, g2 = -0.5, 10.0, 1.0
 	u := Spin1Uniform{Model: dispersion.RamanSpin1(0, 0, qz), G0: g0, G2: g2}
@@ -409,6 +412,32 @@ func TestSpin1AntiferromagneticState(t *testing.T) {
 	// pair gauge: E_m − (E_0 + E_−1)/2, E_m = qz m², so E_±1 = qz/2
 	if want := g0/2 + qz/2; r.State.Phase != label.Antiferromagnetic || math.Abs(r.State.Energy-want) > 1e-9 {
 		t.Errorf("%v: energy %.12g, want %.12g", r.State.Phase, r.State.Energy, want)
+	}
+	// Bloch bands at total momentum q (relative to k₀ = K₋₁, lattice K = 4):
+	// the ±1 fluctuations are those of the two-component mixture at ε = (q + 4j)²,
+	// Λ = G0, G2 (TestSpin1FixedMagnetization at M = 0); the m = 0 ones sit at
+	// k − K₀ = q − 2 + 4j with ω² = (ε + |q_Z| + G2)² − G2² (A = ε − q_Z + G2,
+	// Y = G2 from the spin-changing term; q_Z = E_{±1} − E₀ = −0.5 here).
+	qs := []float64{0.3, -0.7, 1.1}
+	r, err = Spin1Excitations(Spin1ExcitationProblem{Uniform: u, Q: qs, FixMagnetization: true, Magnetization: 0}, &ExcitationSettings{Bands: 5})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, q := range qs {
+		var want []float64
+		for j := -2; j <= 2; j++ {
+			e := (q + 4*float64(j)) * (q + 4*float64(j))
+			e0 := (q - 2 + 4*float64(j)) * (q - 2 + 4*float64(j))
+			want = append(want, math.Sqrt(e*(e+2*g0)), math.Sqrt(e*(e+2*g2)), math.Sqrt((e0-qz+g2)*(e0-qz+g2)-g2*g2))
+		}
+		sort.Float64s(want)
+		got := sortedOmegas(r.Modes[i])
+		for b := range got {
+			if math.Abs(got[b]-want[b]) > 1e-8 {
+				t.Errorf("q = %g: bands %v, want %v", q, got, want[:len(got)])
+				break
+			}
+		}
 	}
 	p.Branch = BranchPlaneWave
 	r, err = Spin1Excitations(p, nil)
