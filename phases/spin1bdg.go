@@ -5,8 +5,6 @@ import (
 	"fmt"
 	"math"
 
-	"gonum.org/v1/gonum/mat"
-
 	"socmap/phases/label"
 )
 
@@ -100,10 +98,12 @@ type Spin1ExcitationProblem struct {
 // Spin1CondensateState is the state ψ₀ = √n e^{ik₀x} φ.
 type Spin1CondensateState struct {
 	Phase label.Phase
-	Name  string     // the variational description (e.g. "plane-wave at minimum 1 of 2 (…)")
-	K0    float64    // k₀ (k_R)
-	Phi   [3]float64 // φ, real, unit, order m = +1, 0, −1
-	Mu    float64    // chemical potential μ (E_R)
+	Name  string // the variational description (e.g. "plane-wave at minimum 1 of 2 (…)")
+	// K0: k₀ (k_R); for a state of several waves the momentum of harmonic
+	// m = 0, a lattice point k₀ + mK as the Newton solve leaves it.
+	K0  float64
+	Phi [3]float64 // φ, real, unit, order m = +1, 0, −1 (NaN for a state of several waves)
+	Mu  float64    // chemical potential μ (E_R)
 	// Lambda: the Lagrange multiplier of a fixed ⟨F_z⟩ (E_R), 0 when free.
 	Lambda float64
 	Energy float64 // energy per particle (E_R), without the −λ⟨F_z⟩ term
@@ -348,20 +348,10 @@ func spin1MeanField(u *Spin1Uniform, k, lam float64, phi [3]float64) (hphi [3]fl
 }
 
 // spin1Newton solves the stationarity equations of a one-plane-wave state
-// by Newton's method (central-difference Jacobian, steps by the SVD
-// pseudo-inverse with relative cutoff 1e-12, so that flat directions of a
-// symmetric state do not stop it): unknowns φ (3), μ, then k unless
-// fixK, then λ when fix; equations (H[φ] − λF_z − μ)φ = 0, φ·φ = 1, then
+// by spin1NewtonFD: unknowns φ (3), μ, then k unless fixK, then λ when fix; equations (H[φ] − λF_z − μ)φ = 0, φ·φ = 1, then
 // φᵀ∂_k hφ = 0 unless fixK, then φᵀF_zφ = mag when fix. It returns the
 // solution and the largest residual.
 func spin1Newton(u *Spin1Uniform, phi [3]float64, k, mu, lam float64, fixK, fix bool, mag float64) ([3]float64, float64, float64, float64, float64) {
-	nx := 4
-	if !fixK {
-		nx++
-	}
-	if fix {
-		nx++
-	}
 	pack := func() []float64 {
 		x := []float64{phi[0], phi[1], phi[2], mu}
 		if !fixK {
@@ -405,58 +395,9 @@ func spin1Newton(u *Spin1Uniform, phi [3]float64, k, mu, lam float64, fixK, fix 
 		}
 	}
 	x := pack()
-	r := make([]float64, nx)
-	rp, rm := make([]float64, nx), make([]float64, nx)
-	jac := mat.NewDense(nx, nx, nil)
-	maxAbs := func(v []float64) float64 {
-		m := 0.0
-		for _, a := range v {
-			m = math.Max(m, math.Abs(a))
-		}
-		return m
-	}
-	var svd mat.SVD
-	for it := 0; it < 60; it++ {
-		resid(x, r)
-		if maxAbs(r) < 1e-15 {
-			break
-		}
-		for j := 0; j < nx; j++ {
-			h := 1e-6 * math.Max(1, math.Abs(x[j]))
-			x0 := x[j]
-			x[j] = x0 + h
-			resid(x, rp)
-			x[j] = x0 - h
-			resid(x, rm)
-			x[j] = x0
-			for i := 0; i < nx; i++ {
-				jac.Set(i, j, (rp[i]-rm[i])/(2*h))
-			}
-		}
-		if !svd.Factorize(jac, mat.SVDThin) {
-			break
-		}
-		vals := svd.Values(nil)
-		rank := 0
-		for _, v := range vals {
-			if v > 1e-12*vals[0] {
-				rank++
-			}
-		}
-		var dx mat.Dense
-		svd.SolveTo(&dx, mat.NewDense(nx, 1, append([]float64(nil), r...)), rank)
-		step := 0.0
-		for j := 0; j < nx; j++ {
-			x[j] -= dx.At(j, 0)
-			step = math.Max(step, math.Abs(dx.At(j, 0)))
-		}
-		if step < 1e-15 {
-			break
-		}
-	}
-	resid(x, r)
+	res := spin1NewtonFD(x, resid, 60)
 	p, m, kk, l := unpack(x)
-	return p, m, kk, l, maxAbs(r)
+	return p, m, kk, l, res
 }
 
 // newSpin1Spectrum refines the wave w of p and prepares its BdG problem.
