@@ -57,6 +57,17 @@ func TestSpin1PolarAnalytic(t *testing.T) {
 			if s := r.StaticS[i]; math.Abs(s-e/dens) > 1e-9 {
 				t.Errorf("q = %g: S(q) = %.12g, want ε/ω = %.12g", k, s, e/dens)
 			}
+			// the spin branches carry the transverse spin: each (u₊₁, v₋₁) pair
+			// has |δF_x|² + |δF_y|² = (u + v)² = (ε + q)/ω (the Bogoliubov
+			// amplitude relation, common practice), and no δF_z (φ₊₁ = φ₋₁ = 0)
+			var tr, fz float64
+			for _, m := range r.Modes[i] {
+				tr += m.Transverse
+				fz += m.Spin
+			}
+			if math.Abs(tr-2*(e+q)/spin) > 1e-9 || fz > 1e-18 {
+				t.Errorf("q = %g: Σ transverse %.12g (want %.12g), Σ F_z %.3g (want 0)", k, tr, 2*(e+q)/spin, fz)
+			}
 		}
 		// Bogoliubov sound c = √(c0 n/m): ω ≈ √(2G0) q in E_R, k_R, and
 		// ħk_R/m = 2 E_R/k_R, so c = √(G0/2) ħk_R/m.
