@@ -58,6 +58,7 @@ refs: deps
 	$(PY) testdata/ref_gpe_stripe.py
 	$(PY) testdata/ref_calibrate.py
 	$(PY) testdata/ref_bdg.py
+	$(PY) testdata/ref_spin1_bdg.py
 	$(PY) testdata/ref_spin1.py
 	$(PY) testdata/ref_spin1_gpe.py
 	$(PY) testdata/ref_spin1_gpemap.py

@@ -30,8 +30,10 @@ type bdgMode struct {
 // Otherwise the non-symmetric problem is solved (gonum mat.Eigen). The modes
 // are the real eigenvalues with positive norm Ψ†σ₃Ψ > 0, and one of each
 // complex-conjugate pair (Im ω > imagTol: a dynamical instability, growth
-// rate Im ω); real eigenvalues within zeroTol of 0 come in pairs (the
-// Goldstone modes, whose norm vanishes) and give one mode each pair.
+// rate Im ω); real eigenvalues within zeroTol of 0 whose norm vanishes
+// (|Ψ†σ₃Ψ| ≤ 1e-6 Ψ†Ψ: the Goldstone modes) come in pairs and give one mode
+// each pair; a small eigenvalue with a finite norm (a soft mode away from
+// q = 0, e.g. at a second band minimum) is an ordinary mode.
 type bdgSolver struct {
 	n                int
 	imagTol, zeroTol float64
@@ -149,11 +151,11 @@ func (s *bdgSolver) solve(m []float64) []bdgMode {
 			scale(psi, 1/math.Sqrt(tot))
 			s.modes = append(s.modes, bdgMode{omega: real(w), growth: imag(w), psi: psi})
 		case imag(w) < -s.imagTol:
-		case math.Abs(real(w)) <= s.zeroTol:
+		case math.Abs(real(w)) <= s.zeroTol && math.Abs(nrm) <= 1e-6*tot:
 			zero = append(zero, k)
 		case nrm > 0:
 			scale(psi, 1/math.Sqrt(nrm))
-			if real(w) < 0 {
+			if real(w) < -s.zeroTol {
 				s.landau = true
 			}
 			s.modes = append(s.modes, bdgMode{omega: real(w), psi: psi, norm: 1})

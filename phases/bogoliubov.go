@@ -137,14 +137,24 @@ type ExcitationSettings struct {
 	// see soundSlope. Default 1e-4.
 	SoundStep float64
 	// ImagTol: |Im ω| (E_R) above which a frequency counts as complex
-	// (dynamical instability). Default 1e-7 × max(1, |Ω|, |δ|, |n g|).
+	// (dynamical instability). Default 1e-7 × max(1, |Ω|, |δ|, |n g|)
+	// (spin-1: max(1, |Ω|, |G0|, |G2|, max|E_m|)).
 	ImagTol float64
 	// RotonRange: the lower branch is scanned for a roton minimum along x
 	// for |q| ≤ RotonRange (k_R). Default 4.
 	RotonRange float64
+	// Spin1: settings of the spin-1 variational theory (Spin1Excitations
+	// only). Default nil (its defaults).
+	Spin1 *Spin1Settings
 }
 
 func (s *ExcitationSettings) withDefaults(u Uniform) ExcitationSettings {
+	return s.withDefaultsScale(u.scale())
+}
+
+// withDefaultsScale: the defaults with the energy scale sc of the problem
+// (ImagTol = 1e-7 sc).
+func (s *ExcitationSettings) withDefaultsScale(sc float64) ExcitationSettings {
 	var o ExcitationSettings
 	if s != nil {
 		o = *s
@@ -162,7 +172,7 @@ func (s *ExcitationSettings) withDefaults(u Uniform) ExcitationSettings {
 		o.SoundStep = 1e-4
 	}
 	if o.ImagTol <= 0 {
-		o.ImagTol = 1e-7 * u.scale()
+		o.ImagTol = 1e-7 * sc
 	}
 	if o.RotonRange <= 0 {
 		o.RotonRange = 4
@@ -214,15 +224,18 @@ type Mode struct {
 	Omega  float64 // Re ω (E_R)
 	Growth float64 // Im ω ≥ 0 (E_R/ħ): growth rate of a dynamical instability, else 0
 	// U, V: Bogoliubov amplitudes, index 2·(harmonic) + spin (spin 0 = ↑),
-	// harmonics as in CondensateState.M; normalised to Σ|U|² − Σ|V|² = 1
+	// harmonics as in CondensateState.M (spin-1: index m = +1, 0, −1 as
+	// 0, 1, 2); normalised to Σ|U|² − Σ|V|² = 1
 	// (a complex or zero mode: Σ|U|² + Σ|V|² = 1). Phase: the
 	// largest-modulus component of (U, V) is real and positive.
 	U, V []complex128
 	// Density, Spin: weights |δn|² and |δ(n↑ − n↓)|² of the mode at the
-	// momentum of the grid point (per particle). NaN for the zero modes at
+	// momentum of the grid point (per particle; spin-1: Spin is |δF_z|²). NaN for the zero modes at
 	// q = 0 (and, for a stripe, at multiples of K: the elastic Bragg peak of
 	// the crystal is not an excitation).
 	Density, Spin float64
+	// Transverse: spin-1 only, |δF_x|² + |δF_y|² (0 for the two-level model).
+	Transverse float64
 }
 
 // CondensateState is the mean-field state ψ₀ = √n e^{ik₀x} Σ_m a_m e^{imKx}.
@@ -243,25 +256,17 @@ type CondensateState struct {
 	HarmonicChange float64
 }
 
-// ExcitationResult is the spectrum of one state.
-type ExcitationResult struct {
-	Status      ExcitationStatus
-	Variational Result          // the variational theory at the problem
-	State       CondensateState // the state whose excitations these are
-	// Metastable: a lower state exists (the other branch was requested).
-	Metastable bool
-	// PlaneWaveEnergy, StripeEnergy: energies per particle (E_R) of the
-	// refined plane-wave state and of the stripe solved with harmonics (NaN
-	// when there is no stripe solution). BranchGround takes the lower, which
-	// can be a stripe where the two-wave ansatz prefers a plane wave (its
-	// missing harmonics lower the stripe near the transition).
-	PlaneWaveEnergy, StripeEnergy float64
+// Spectrum is the part of an excitation result that does not depend on the
+// kind of state: the modes on the grid and the observables derived from
+// them (shared by ExcitationResult and Spin1ExcitationResult).
+type Spectrum struct {
+	Status ExcitationStatus
 
 	Q     []float64 // the grid (k_R), as given
 	Axis  QAxis
-	Modes [][]Mode // per q, ascending in Re ω: 2 for uniform states, Bands for a stripe
+	Modes [][]Mode // per q, ascending in Re ω: 2 for the two-level uniform states, 3 for spin-1, Bands for a stripe
 	// StaticS: S(q) = Σ_modes Density (the static structure factor), and
-	// FSum: Σ_modes ω·Density (= q² by the f-sum rule), per q.
+	// FSum: Σ_modes ω·Density (m1(q) + m1(−q) = 2q² by the f-sum rule), per q.
 	StaticS, FSum []float64
 
 	Unstable   bool    // a complex frequency on the grid or in the scans
@@ -281,6 +286,22 @@ type ExcitationResult struct {
 	RotonQ, RotonGap float64
 
 	Bragg *BraggResult // nil unless requested
+}
+
+// ExcitationResult is the spectrum of one state.
+type ExcitationResult struct {
+	Variational Result          // the variational theory at the problem
+	State       CondensateState // the state whose excitations these are
+	// Metastable: a lower state exists (the other branch was requested).
+	Metastable bool
+	// PlaneWaveEnergy, StripeEnergy: energies per particle (E_R) of the
+	// refined plane-wave state and of the stripe solved with harmonics (NaN
+	// when there is no stripe solution). BranchGround takes the lower, which
+	// can be a stripe where the two-wave ansatz prefers a plane wave (its
+	// missing harmonics lower the stripe near the transition).
+	PlaneWaveEnergy, StripeEnergy float64
+
+	Spectrum
 }
 
 // Excitations computes the Bogoliubov spectrum of the state selected by
@@ -313,10 +334,7 @@ func Excitations(p ExcitationProblem, s *ExcitationSettings) (ExcitationResult, 
 	}
 	st := s.withDefaults(p.Uniform)
 	res.Variational = vr
-	res.Q = append([]float64(nil), p.Q...)
-	res.Axis = p.Axis
-	res.MaxGrowthQ = math.NaN()
-	var sp spectrum
+	var sp twoLevelSpectrum
 	us, err := newUniformSpectrum(p.Uniform, vr.PlaneWaveState, &st)
 	if err != nil {
 		return res, err
@@ -345,16 +363,28 @@ func Excitations(p ExcitationProblem, s *ExcitationSettings) (ExcitationResult, 
 			sp = us
 		}
 	}
-	if sp == spectrum(ss) {
+	if sp == twoLevelSpectrum(ss) {
 		ss = ss.converge(&st)
 		sp = ss
 		res.StripeEnergy = ss.st.Energy
 	}
 	res.State = sp.state()
-	res.Status = Stable
+	status := Stable
 	if res.State.HarmonicChange > st.HarmonicTol {
-		res.Status = HarmonicsNotConverged
+		status = HarmonicsNotConverged
 	}
+	res.Spectrum, err = computeSpectrum(sp, p.Q, p.Axis, p.Bragg, &st, status)
+	return res, err
+}
+
+// computeSpectrum fills a Spectrum from the BdG problem sp: the modes and
+// moments on the grid q along axis, the sound velocities, the effective
+// mass, the roton scan along x and, when br is set, the Bragg response.
+// status is the starting status (Stable, or HarmonicsNotConverged); a
+// negative-energy mode makes it EnergeticallyUnstable, a complex
+// frequency DynamicallyUnstable.
+func computeSpectrum(sp spectrum, q []float64, axis QAxis, br *BraggProblem, st *ExcitationSettings, status ExcitationStatus) (Spectrum, error) {
+	res := Spectrum{Status: status, Q: append([]float64(nil), q...), Axis: axis, MaxGrowthQ: math.NaN()}
 	track := func(q float64, ms []Mode, landau bool) {
 		for _, m := range ms {
 			if m.Growth > 0 {
@@ -368,21 +398,20 @@ func Excitations(p ExcitationProblem, s *ExcitationSettings) (ExcitationResult, 
 			res.Status = EnergeticallyUnstable
 		}
 	}
-	res.Modes = make([][]Mode, len(p.Q))
-	res.StaticS = make([]float64, len(p.Q))
-	res.FSum = make([]float64, len(p.Q))
-	for i, q := range p.Q {
-		ms, landau, err := sp.modes(q, p.Axis, true)
+	res.Modes = make([][]Mode, len(q))
+	res.StaticS = make([]float64, len(q))
+	res.FSum = make([]float64, len(q))
+	for i, qi := range q {
+		ms, landau, err := sp.modes(qi, axis, true)
 		if err != nil {
 			return res, err
 		}
-		track(q, ms, landau)
+		track(qi, ms, landau)
 		res.Modes[i] = ms
-		res.StaticS[i], res.FSum[i] = sp.moments(q, p.Axis)
+		res.StaticS[i], res.FSum[i] = sp.moments(qi, axis)
 	}
 	res.CPlusX, res.CMinusX, res.CY = sp.sound(st.SoundStep)
 	res.EffectiveMass = sp.effectiveMass()
-	res.RotonQ, res.RotonGap = math.NaN(), math.NaN()
 	var rq, rg, scanGrowth, scanQ = math.NaN(), math.NaN(), 0.0, math.NaN()
 	if sp.gapless() == 1 {
 		// A stripe has zero modes at every multiple of K and no roton.
@@ -390,7 +419,7 @@ func Excitations(p ExcitationProblem, s *ExcitationSettings) (ExcitationResult, 
 	}
 	if scanGrowth > 0 {
 		res.Unstable = true
-		if scanGrowth > res.MaxGrowth && p.Axis == QAlongX {
+		if scanGrowth > res.MaxGrowth && axis == QAlongX {
 			res.MaxGrowth, res.MaxGrowthQ = scanGrowth, scanQ
 		} else if scanGrowth > res.MaxGrowth {
 			res.MaxGrowth, res.MaxGrowthQ = scanGrowth, math.NaN()
@@ -403,8 +432,8 @@ func Excitations(p ExcitationProblem, s *ExcitationSettings) (ExcitationResult, 
 	if res.Unstable {
 		res.Status = DynamicallyUnstable
 	}
-	if p.Bragg != nil {
-		b, err := bragg(sp, *p.Bragg)
+	if br != nil {
+		b, err := bragg(sp, *br)
 		if err != nil {
 			return res, err
 		}
@@ -420,9 +449,14 @@ func (s *ExcitationSettings) variational() *Settings {
 	return s.Variational
 }
 
-// spectrum is the BdG problem of one state.
-type spectrum interface {
+// twoLevelSpectrum is the BdG problem of one state of the two-level model.
+type twoLevelSpectrum interface {
+	spectrum
 	state() CondensateState
+}
+
+// spectrum is the BdG problem of one state (two-level or spin-1).
+type spectrum interface {
 	// modes at momentum q along axis (total momentum for a stripe along x),
 	// ascending; landau reports a negative-energy mode. weights: fill
 	// Density and Spin.

@@ -10,6 +10,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"socmap/dispersion"
 	"socmap/output"
 	"socmap/phases"
 )
@@ -24,7 +25,7 @@ func newExcitationsCmd() *cobra.Command {
 	var qText, axis, branch, braggQ, braggDur string
 	var bands, harmonics int
 	var outs []string
-	var levels int
+	var lf levelFlags
 	c := &cobra.Command{
 		Use:   "excitations",
 		Short: "Bogoliubov spectrum, roton, sound and Bragg response of the mean-field phase",
@@ -35,21 +36,31 @@ stripe) or y/z: both branches (the lowest --bands for a stripe), their density
 and spin weights, the sound velocities along +x, −x and y, the effective mass,
 the roton minimum, dynamical instabilities (complex frequencies), and with
 --bragg-q the Bragg spectrum S(q, ω) broadened by a rectangular pulse of
---bragg-duration. Same model and interaction flags as ground (uniform box).`,
+--bragg-duration. Same model and interaction flags as ground (uniform box).
+
+With --levels 3 the state is the one-plane-wave mean-field state of the full
+F = 1 model (same flags as ground --levels 3: --epsilon-er, --nc0-er/--nc2-er or
+--density with --a0/--a2, --magnetization), whose 6×6 Bogoliubov problem gives
+three branches per momentum (density, F_z and transverse-spin weights); states of
+two or more plane waves (stripe, stripe-3, antiferromagnetic, broken-axisymmetry)
+are solved in the plane-wave basis of their lattice with three components per
+harmonic (--bands, --harmonics as for the stripe). With a fixed --magnetization
+the state is found with a Lagrange multiplier λ on F_z and the spectrum is that
+of h − λF_z.`,
 		Example: `  socmap excitations --omega-er 2.6 --G1 1 --G2 0.1 --q=-3:3:241 --out pw.png
   socmap excitations --omega-er 1 --G1 1 --G2 0.1 --bragg-q 1 --bragg-duration 40 --json
-  socmap excitations --plan socmap-demo/plan.toml --bragg-q "3 1/um" --bragg-duration "2 ms" --out exc.h5`,
+  socmap excitations --plan socmap-demo/plan.toml --bragg-q "3 1/um" --bragg-duration "2 ms" --out exc.h5
+  socmap excitations --levels 3 --omega-er 2 --delta-er 0.5 --epsilon-er 1 --nc0-er 1 --nc2-er -0.1 --q=-3:3:241 --out s1.png`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			switch levels {
-			case 2:
-			case 3:
-				return usagef("--levels 3 is not available for excitations yet")
-			default:
-				return usagef("--levels %d: allowed 2 (pseudo-spin pair)", levels)
+			if err := lf.check(); err != nil {
+				return err
 			}
 			if err := checkOuts(outs, outTypes(".h5", ".json", ".csv")...); err != nil {
 				return err
+			}
+			if lf.levels == 3 {
+				return runExcitations3(cmd, &mf, &lf, &inf, excitationFlags{q: qText, axis: axis, branch: branch, braggQ: braggQ, braggDur: braggDur, bands: bands, harmonics: harmonics}, outs)
 			}
 			lab, err := mf.lab()
 			if err != nil {
@@ -111,31 +122,13 @@ the roton minimum, dynamical instabilities (complex frequencies), and with
 				return fmt.Errorf("excitations: %w", err)
 			}
 			r := &output.ExcitationsResult{Problem: p, Res: res, Model: model, Subtitle: excitationSubtitle(lab, u), Notes: excitationNotes(res, p)}
-			doc := r.JSON()
-			for _, o := range outs {
-				var err error
-				switch strings.ToLower(filepath.Ext(o)) {
-				case ".png", ".svg", ".pdf":
-					err = output.WriteFigure(o, g.force, r)
-				case ".csv":
-					err = output.WriteFileAtomic(o, g.force, r.WriteCSV)
-				default:
-					err = writeResult(cmd, o, "excitations", doc, r.WriteH5)
-				}
-				if err != nil {
-					return err
-				}
-			}
-			if g.json {
-				return writeJSON(cmd.OutOrStdout(), doc)
-			}
-			return r.Table().Write(cmd.OutOrStdout())
+			return renderExcitations(cmd, r, outs)
 		},
 	}
 	fs := c.Flags()
 	mf.add(fs)
 	inf.add(fs)
-	fs.IntVar(&levels, "levels", 2, "2: the pseudo-spin pair (3, the F = 1 model, is not available for excitations yet)")
+	lf.add(fs, true)
 	fs.StringVar(&qText, "q", "-3:3:241", `excitation momenta LO:HI:N, in k_R or with a unit ("-2 1/um:2 1/um:101")`)
 	fs.StringVar(&axis, "q-axis", "x", "direction of the momenta: x (along the coupling; extended zones for a stripe), y or z")
 	fs.StringVar(&branch, "branch", "ground", "state: ground (the lower of plane wave and stripe), plane-wave, stripe")
@@ -145,6 +138,152 @@ the roton minimum, dynamical instabilities (complex frequencies), and with
 	fs.IntVar(&harmonics, "harmonics", 0, "plane waves of the stripe basis (even); 0: raised until the bands converge to 1e-9 E_R")
 	fs.StringSliceVar(&outs, "out", nil, "write FILE.h5, FILE.json, FILE.csv (modes per momentum), FILE.png, .svg or .pdf (spectrum; with --bragg-q also the Bragg spectrum) (repeatable)")
 	return c
+}
+
+// renderExcitations writes the outputs of an excitations result and the
+// table (or JSON) on stdout.
+func renderExcitations(cmd *cobra.Command, r *output.ExcitationsResult, outs []string) error {
+	doc := r.JSON()
+	for _, o := range outs {
+		var err error
+		switch strings.ToLower(filepath.Ext(o)) {
+		case ".png", ".svg", ".pdf":
+			err = output.WriteFigure(o, g.force, r)
+		case ".csv":
+			err = output.WriteFileAtomic(o, g.force, r.WriteCSV)
+		default:
+			err = writeResult(cmd, o, "excitations", doc, r.WriteH5)
+		}
+		if err != nil {
+			return err
+		}
+	}
+	if g.json {
+		return writeJSON(cmd.OutOrStdout(), doc)
+	}
+	return r.Table().Write(cmd.OutOrStdout())
+}
+
+// excitationFlags are the excitations settings shared by both models.
+type excitationFlags struct {
+	q, axis, branch, braggQ, braggDur string
+	bands, harmonics                  int
+}
+
+// runExcitations3 is `excitations --levels 3`: the spin-1 model and
+// interactions as `ground --levels 3` builds them for a uniform box, then
+// phases.Spin1Excitations. Two-level couplings and stripe-basis settings on
+// the command line are refused; from a plan (whose two-level settings may be
+// there for --levels 2) they are not used.
+func runExcitations3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *interFlags, ef excitationFlags, outs []string) error {
+	for _, f := range []struct {
+		q    *quantity
+		name string
+	}{{inf.g1, "G1"}, {inf.g2, "G2"}, {inf.nguu, "ng-uu"}, {inf.ngdd, "ng-dd"}, {inf.ngud, "ng-ud"}, {inf.aUU, "a-uu"}, {inf.aDD, "a-dd"}, {inf.aUD, "a-ud"}} {
+		if f.q.text != "" && !g.fromPlan[f.name] {
+			return usagef("--%s %q: a two-level coupling; with --levels 3 give --nc0-er and --nc2-er, or --density (with --a0/--a2)", f.name, f.q.text)
+		}
+	}
+	if ef.bands < 1 || ef.bands > 64 {
+		return usagef("--bands %d: allowed 1 … 64", ef.bands)
+	}
+	if ef.harmonics < 0 || ef.harmonics > 96 || ef.harmonics%2 == 1 {
+		return usagef("--harmonics %d: an even number of plane waves 2 … 96, or 0 (from convergence)", ef.harmonics)
+	}
+	p := phases.Spin1ExcitationProblem{}
+	var err error
+	if p.Branch, err = phases.ParseBranch(ef.branch); err != nil {
+		return usagef("--branch %q: allowed: ground, plane-wave, stripe", ef.branch)
+	}
+	m, scheme, ws, err := lf.model(mf)
+	if err != nil {
+		return err
+	}
+	var atom *dispersion.Species
+	if l, err := mf.lab(); err == nil && l.Scheme != nil {
+		atom = l.Scheme.Atom()
+	}
+	if p.Uniform.G0, p.Uniform.G2, err = lf.interactions(inf, m, atom); err != nil {
+		return err
+	}
+	p.Uniform.Model = m
+	p.FixMagnetization, p.Magnetization = lf.fixedM()
+	switch ef.axis {
+	case "x":
+		p.Axis = phases.QAlongX
+	case "y":
+		p.Axis = phases.QAlongY
+	case "z":
+		p.Axis = phases.QAlongZ
+	default:
+		return usagef("--q-axis %q: allowed: x, y, z", ef.axis)
+	}
+	model := dispersion.Model{Mass: m.Mass, KR: m.KR, ER: m.ER, OmegaOverER: m.Omega, DeltaOverER: m.PairModel().Delta}
+	kR := math.Abs(m.KR)
+	if p.Q, err = parseQGrid(ef.q, kR); err != nil {
+		return err
+	}
+	if ef.braggQ != "" {
+		q, err := parseMomentum("bragg-q", ef.braggQ, kR)
+		if err != nil {
+			return err
+		}
+		tau := defaultBraggDuration
+		if ef.braggDur != "" {
+			if tau, err = parseDuration(ef.braggDur, model.TimeUnit(), model.ER > 0); err != nil {
+				return err
+			}
+		}
+		p.Bragg = &phases.BraggProblem{Q: q, Duration: tau}
+	} else if ef.braggDur != "" {
+		return usagef("--bragg-duration %q: needs --bragg-q", ef.braggDur)
+	}
+	res, err := phases.Spin1Excitations(p, &phases.ExcitationSettings{Bands: ef.bands, Harmonics: ef.harmonics})
+	switch {
+	case errors.Is(err, phases.ErrNotStripe):
+		return usagef("--branch stripe: no spin-1 state of two or three plane waves converged here")
+	case errors.Is(err, phases.ErrSpin1MultiWave):
+		return usagef("--levels 3: %v; --branch plane-wave gives the lowest one-plane-wave state", strings.TrimPrefix(err.Error(), "bad input: "))
+	case errors.Is(err, phases.ErrBadMomenta):
+		return usagef("--q %q: the momentum grid is empty or not finite", ef.q)
+	case errors.Is(err, phases.ErrBadInput):
+		return usagef("--levels 3: %v", strings.TrimPrefix(err.Error(), "bad input: "))
+	case err != nil:
+		return fmt.Errorf("excitations: %w", err)
+	}
+	where := "direct model"
+	if scheme != "" {
+		where = scheme
+	}
+	sub := fmt.Sprintf("%s, F = 1: Ω = %.4g E_R, E_m = (%.4g, %.4g, %.4g) E_R, K_m = (%.4g, %.4g, %.4g) k_R, n·c0 = %.4g, n·c2 = %.4g E_R",
+		where, m.Omega, m.E[0], m.E[1], m.E[2], m.K[0], m.K[1], m.K[2], p.Uniform.G0, p.Uniform.G2)
+	if p.FixMagnetization {
+		sub += fmt.Sprintf(", ⟨F_z⟩ = %.4g fixed", p.Magnetization)
+	}
+	var notes []string
+	for _, w := range ws {
+		notes = append(notes, "warning: "+w.Text)
+	}
+	if res.Metastable {
+		notes = append(notes, fmt.Sprintf("note: the %s state is not the lowest here: the variational theory gives %s (%.8g E_R per particle, this state %.8g)", res.State.Phase, res.Variational.Name, res.Variational.Energy, res.State.Energy))
+	}
+	if p.FixMagnetization && m.Omega != 0 {
+		notes = append(notes, "note: the coupling (Ω/√2)F_x does not conserve F_z: the fixed magnetisation is a constraint on the state, and the spectrum that of h − λF_z around it")
+	}
+	switch res.Status {
+	case phases.DynamicallyUnstable:
+		notes = append(notes, fmt.Sprintf("warning: dynamically unstable: complex frequencies, largest growth rate %.4g E_R/ħ", res.MaxGrowth))
+	case phases.EnergeticallyUnstable:
+		notes = append(notes, "warning: energetically unstable: a mode of negative energy (the state is not a local energy minimum)")
+	case phases.HarmonicsNotConverged:
+		notes = append(notes, fmt.Sprintf("warning: the plane-wave basis did not converge (last change %.3g E_R); raise --harmonics", res.State.HarmonicChange))
+	}
+	if p.Bragg != nil {
+		notes = append(notes, "Bragg beams are lasers: follow your local laser-safety rules and your lab's safety officer; this calculation says nothing about beam powers.")
+	}
+	notes = append(notes, "uniform mean-field theory (Bogoliubov–de Gennes) of the F = 1 gas at T = 0; a trap adds discrete modes and broadens the Bragg lines.")
+	r := &output.ExcitationsResult{Spin1: &res, Spin1Problem: p, Model: model, Subtitle: sub, Notes: notes}
+	return renderExcitations(cmd, r, outs)
 }
 
 // momentumUnits are the accepted spellings of an inverse length (factor to 1/m).

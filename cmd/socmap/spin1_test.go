@@ -232,9 +232,11 @@ func TestSchemeShakeLevels(t *testing.T) {
 	}
 }
 
+// excitations --levels 3 refuses the two-level couplings (spin-1 runs:
+// TestExcitationsSpin1).
 func TestExcitationsLevels3Refused(t *testing.T) {
-	code, _, errs := runArgs(t, "excitations", "--levels", "3", "--omega-er", "1", "--G1", "1", "--G2", "0.1")
-	if code != 2 || strings.TrimSpace(errs) != "socmap: --levels 3 is not available for excitations yet" {
+	code, _, errs := runArgs(t, "excitations", "--levels", "3", "--omega-er", "1", "--epsilon-er", "1", "--G1", "1", "--G2", "0.1")
+	if code != 2 || !strings.HasPrefix(strings.TrimSpace(errs), "socmap: --G1 \"1\": a two-level coupling") {
 		t.Errorf("exit %d, %q", code, errs)
 	}
 }
