@@ -304,6 +304,23 @@ type ExcitationResult struct {
 	Spectrum
 }
 
+// checkMomenta: a non-empty grid of finite momenta along a known axis
+// (ErrBadMomenta, or an error naming the axis).
+func checkMomenta(q []float64, axis QAxis) error {
+	if len(q) == 0 {
+		return ErrBadMomenta
+	}
+	for _, v := range q {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return ErrBadMomenta
+		}
+	}
+	if axis < QAlongX || axis > QAlongZ {
+		return fmt.Errorf("phases: unknown axis %d", axis)
+	}
+	return nil
+}
+
 // Excitations computes the Bogoliubov spectrum of the state selected by
 // p.Branch (see Branch) at the momenta p.Q, its density and spin weights,
 // the sound velocities, the effective mass, the roton minimum and, when
@@ -311,16 +328,8 @@ type ExcitationResult struct {
 // problem, ErrBadMomenta for an empty or non-finite grid, ErrNotStripe.
 func Excitations(p ExcitationProblem, s *ExcitationSettings) (ExcitationResult, error) {
 	var res ExcitationResult
-	if len(p.Q) == 0 {
-		return res, ErrBadMomenta
-	}
-	for _, q := range p.Q {
-		if math.IsNaN(q) || math.IsInf(q, 0) {
-			return res, ErrBadMomenta
-		}
-	}
-	if p.Axis < QAlongX || p.Axis > QAlongZ {
-		return res, fmt.Errorf("phases: unknown axis %d", p.Axis)
+	if err := checkMomenta(p.Q, p.Axis); err != nil {
+		return res, err
 	}
 	if p.Branch < BranchGround || p.Branch > BranchStripe {
 		return res, fmt.Errorf("phases: unknown branch %d", p.Branch)

@@ -154,16 +154,8 @@ type Spin1ExcitationResult struct {
 // by the problem's).
 func Spin1Excitations(p Spin1ExcitationProblem, s *ExcitationSettings) (Spin1ExcitationResult, error) {
 	var res Spin1ExcitationResult
-	if len(p.Q) == 0 {
-		return res, ErrBadMomenta
-	}
-	for _, q := range p.Q {
-		if math.IsNaN(q) || math.IsInf(q, 0) {
-			return res, ErrBadMomenta
-		}
-	}
-	if p.Axis < QAlongX || p.Axis > QAlongZ {
-		return res, fmt.Errorf("phases: unknown axis %d", p.Axis)
+	if err := checkMomenta(p.Q, p.Axis); err != nil {
+		return res, err
 	}
 	switch p.Branch {
 	case BranchGround, BranchPlaneWave:

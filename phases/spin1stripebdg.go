@@ -520,35 +520,15 @@ func (ss *spin1StripeSpectrum) all(q float64, axis QAxis, weights bool) ([]Mode,
 }
 
 func (ss *spin1StripeSpectrum) modes(q float64, axis QAxis, weights bool) ([]Mode, bool, error) {
-	ms, landau, err := ss.all(q, axis, weights)
-	if err != nil {
-		return nil, false, err
-	}
-	if len(ms) > ss.bands {
-		ms = ms[:ss.bands]
-	}
-	return ms, landau, nil
+	return latticeModes(ss.all, ss.bands, q, axis, weights)
 }
 
 func (ss *spin1StripeSpectrum) moments(q float64, axis QAxis) (float64, float64) {
-	ms, _, err := ss.all(q, axis, true)
-	if err != nil {
-		return math.NaN(), math.NaN()
-	}
-	return sumMoments(ms)
+	return latticeMoments(ss.all, q, axis)
 }
 
 func (ss *spin1StripeSpectrum) sound(h float64) (cpx, cmx, cy []float64) {
-	along := func(axis QAxis, sg float64) func(q float64) []Mode {
-		return func(q float64) []Mode {
-			ms, _, err := ss.all(sg*q, axis, false)
-			if err != nil {
-				return nil
-			}
-			return ms
-		}
-	}
-	return soundSlope(along(QAlongX, 1), h, 2), soundSlope(along(QAlongX, -1), h, 2), soundSlope(along(QAlongY, 1), h, 2)
+	return latticeSound(ss.all, h)
 }
 
 func (ss *spin1StripeSpectrum) effectiveMass() float64 { return math.NaN() }

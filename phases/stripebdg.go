@@ -528,28 +528,49 @@ func (ss *stripeSpectrum) all(q float64, axis QAxis, weights bool) ([]Mode, bool
 }
 
 func (ss *stripeSpectrum) modes(q float64, axis QAxis, weights bool) ([]Mode, bool, error) {
-	ms, landau, err := ss.all(q, axis, weights)
+	return latticeModes(ss.all, ss.bands, q, axis, weights)
+}
+
+func (ss *stripeSpectrum) moments(q float64, axis QAxis) (float64, float64) {
+	return latticeMoments(ss.all, q, axis)
+}
+
+func (ss *stripeSpectrum) sound(h float64) (cpx, cmx, cy []float64) { return latticeSound(ss.all, h) }
+
+func (ss *stripeSpectrum) effectiveMass() float64 { return math.NaN() }
+
+// latticeAll is the full spectrum of a state in a plane-wave basis of its
+// lattice at Bloch momentum q (stripeSpectrum.all, spin1StripeSpectrum.all):
+// the modes sorted by energy and whether a negative-energy mode appeared.
+type latticeAll func(q float64, axis QAxis, weights bool) ([]Mode, bool, error)
+
+// latticeModes: the lowest bands modes of all at q.
+func latticeModes(all latticeAll, bands int, q float64, axis QAxis, weights bool) ([]Mode, bool, error) {
+	ms, landau, err := all(q, axis, weights)
 	if err != nil {
 		return nil, false, err
 	}
-	if len(ms) > ss.bands {
-		ms = ms[:ss.bands]
+	if len(ms) > bands {
+		ms = ms[:bands]
 	}
 	return ms, landau, nil
 }
 
-func (ss *stripeSpectrum) moments(q float64, axis QAxis) (float64, float64) {
-	ms, _, err := ss.all(q, axis, true)
+// latticeMoments: the f-sum moments over every mode of all at q.
+func latticeMoments(all latticeAll, q float64, axis QAxis) (float64, float64) {
+	ms, _, err := all(q, axis, true)
 	if err != nil {
 		return math.NaN(), math.NaN()
 	}
 	return sumMoments(ms)
 }
 
-func (ss *stripeSpectrum) sound(h float64) (cpx, cmx, cy []float64) {
+// latticeSound: the slopes of the two gapless branches of all along +x, −x
+// and y (step h).
+func latticeSound(all latticeAll, h float64) (cpx, cmx, cy []float64) {
 	along := func(axis QAxis, sg float64) func(q float64) []Mode {
 		return func(q float64) []Mode {
-			ms, _, err := ss.all(sg*q, axis, false)
+			ms, _, err := all(sg*q, axis, false)
 			if err != nil {
 				return nil
 			}
@@ -558,5 +579,3 @@ func (ss *stripeSpectrum) sound(h float64) (cpx, cmx, cy []float64) {
 	}
 	return soundSlope(along(QAlongX, 1), h, 2), soundSlope(along(QAlongX, -1), h, 2), soundSlope(along(QAlongY, 1), h, 2)
 }
-
-func (ss *stripeSpectrum) effectiveMass() float64 { return math.NaN() }

@@ -270,20 +270,29 @@ func runExcitations3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *in
 	if p.FixMagnetization && m.Omega != 0 {
 		notes = append(notes, "note: the coupling (Ω/√2)F_x does not conserve F_z: the fixed magnetisation is a constraint on the state, and the spectrum that of h − λF_z around it")
 	}
-	switch res.Status {
-	case phases.DynamicallyUnstable:
-		notes = append(notes, fmt.Sprintf("warning: dynamically unstable: complex frequencies, largest growth rate %.4g E_R/ħ", res.MaxGrowth))
-	case phases.EnergeticallyUnstable:
-		notes = append(notes, "warning: energetically unstable: a mode of negative energy (the state is not a local energy minimum)")
-	case phases.HarmonicsNotConverged:
-		notes = append(notes, fmt.Sprintf("warning: the plane-wave basis did not converge (last change %.3g E_R); raise --harmonics", res.State.HarmonicChange))
-	}
-	if p.Bragg != nil {
-		notes = append(notes, "Bragg beams are lasers: follow your local laser-safety rules and your lab's safety officer; this calculation says nothing about beam powers.")
-	}
+	notes = append(notes, statusNotes(res.Spectrum, res.State.HarmonicChange, "plane-wave basis", p.Bragg != nil)...)
 	notes = append(notes, "uniform mean-field theory (Bogoliubov–de Gennes) of the F = 1 gas at T = 0; a trap adds discrete modes and broadens the Bragg lines.")
 	r := &output.ExcitationsResult{Spin1: &res, Spin1Problem: p, Model: model, Subtitle: sub, Notes: notes}
 	return renderExcitations(cmd, r, outs)
+}
+
+// statusNotes are the warnings of a spectrum's status (basis names the
+// plane-wave basis in the harmonics warning) and, for a Bragg spectrum, the
+// laser caution.
+func statusNotes(sp phases.Spectrum, harmonicChange float64, basis string, bragg bool) []string {
+	var n []string
+	switch sp.Status {
+	case phases.DynamicallyUnstable:
+		n = append(n, fmt.Sprintf("warning: dynamically unstable: complex frequencies, largest growth rate %.4g E_R/ħ", sp.MaxGrowth))
+	case phases.EnergeticallyUnstable:
+		n = append(n, "warning: energetically unstable: a mode of negative energy (the state is not a local energy minimum)")
+	case phases.HarmonicsNotConverged:
+		n = append(n, fmt.Sprintf("warning: the %s did not converge (last change %.3g E_R); raise --harmonics", basis, harmonicChange))
+	}
+	if bragg {
+		n = append(n, "Bragg beams are lasers: follow your local laser-safety rules and your lab's safety officer; this calculation says nothing about beam powers.")
+	}
+	return n
 }
 
 // momentumUnits are the accepted spellings of an inverse length (factor to 1/m).
@@ -383,17 +392,7 @@ func excitationNotes(r phases.ExcitationResult, p phases.ExcitationProblem) []st
 	if p.Branch == phases.BranchGround && r.Variational.Phase != r.State.Phase {
 		n = append(n, fmt.Sprintf("note: the two-wave variational ansatz gives %s; the stripe with harmonics is lower, so the mean-field ground state is %s", r.Variational.Phase, r.State.Phase))
 	}
-	switch r.Status {
-	case phases.DynamicallyUnstable:
-		n = append(n, fmt.Sprintf("warning: dynamically unstable: complex frequencies, largest growth rate %.4g E_R/ħ", r.MaxGrowth))
-	case phases.EnergeticallyUnstable:
-		n = append(n, "warning: energetically unstable: a mode of negative energy (the state is not a local energy minimum)")
-	case phases.HarmonicsNotConverged:
-		n = append(n, fmt.Sprintf("warning: the stripe basis did not converge (last change %.3g E_R); raise --harmonics", r.State.HarmonicChange))
-	}
-	if p.Bragg != nil {
-		n = append(n, "Bragg beams are lasers: follow your local laser-safety rules and your lab's safety officer; this calculation says nothing about beam powers.")
-	}
+	n = append(n, statusNotes(r.Spectrum, r.State.HarmonicChange, "stripe basis", p.Bragg != nil)...)
 	n = append(n, "uniform mean-field theory (Bogoliubov–de Gennes) at T = 0; a trap adds discrete modes and broadens the Bragg lines.")
 	return n
 }
