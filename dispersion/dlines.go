@@ -10,40 +10,102 @@ import "math"
 // the excited hyperfine structure is unresolved and only the fine structure
 // matters. One radial matrix element serves the doublet (LS coupling): for a
 // polarisation ε and any ground sublevel the line strength Σ_e |⟨e|d·ε|g⟩|²
-// splits 1/3 (D1) : 2/3 (D2). Adiabatic elimination of the excited states in
-// the rotating-wave approximation gives, for two fields E_j = Re[ℰ_j ε_j e^{−iω_j t}],
-// the ground-state operator (J = 1/2, so only ranks 0 and 1 survive)
+// splits 1/3 (D1) : 2/3 (D2). Write d₊(ε) for the raising part of d·ε (ground
+// → excited), so that ⟨e|d·ε|g⟩ = ⟨e|d₊(ε)|g⟩ and ⟨g|d·ε|e⟩ = ⟨g|d₊(ε*)†|e⟩.
+// Projected on J = 1/2 (only ranks 0 and 1 survive), the Clebsch–Gordan
+// weights of σ⁺ light (from m_J = +1/2 only D2, weight 1; from m_J = −1/2 D1
+// 2/3 and D2 1/3, per polarisation component; derived here, cross-checked in
+// testdata/ref_raman.py from explicit L, S, I matrices) give
 //
-//	V_21 = (ħΩ₁Ω₂/4) Σ_J' op_J'/Δ_J',
-//	op_D1 = (1/3)[(ε₂*·ε₁) + i(ε₂*×ε₁)·σ],  op_D2 = (1/3)[2(ε₂*·ε₁) − i(ε₂*×ε₁)·σ],
+//	d₊(ε_b)† P_J' d₊(ε_a) → |d|² op_J'(ε_b*, ε_a),
+//	op_D1 = (1/3)[(ε_b*·ε_a) + i(ε_b*×ε_a)·σ],  op_D2 = (1/3)[2(ε_b*·ε_a) − i(ε_b*×ε_a)·σ],
 //
-// with σ the Pauli operator of the electron spin, Ω_j = √X ℰ_j/ħ the beam
-// Rabi frequency on the doublet and Δ_J' = ω − ω_J' the detuning from the
-// line as seen from the ground sublevel (angular frequencies). The
-// coefficients come from the Clebsch–Gordan weights of σ⁺ light: from
-// m_J = +1/2 only D2 (weight 1), from m_J = −1/2 D1 2/3 and D2 1/3 (per
-// polarisation component; derived here, cross-checked in
-// testdata/ref_raman.py from explicit L, S, I matrices). Per intensity
-// I = ε₀c|ℰ|²/2 one beam gives U = I[u_s + u_v (iε*×ε)·σ] with
+// with σ the Pauli operator of the electron spin and P_J' the projector on
+// the excited fine-structure level J'.
 //
-//	u_s = (ħΩ²/4I)(1/(3Δ₁) + 2/(3Δ₂)),   u_v = (ħΩ²/4I)(1/3)(1/Δ₁ − 1/Δ₂),
-//	Ω²/I = 6πc²Γ̄/(ħω̄³),
+// Both time orderings. Two fields E_j = Re[ℰ_j ε_j e^{−iω_j t}] (ω₁ ≈ ω₂ = ω;
+// the two-photon frequency, ≤ GHz, is neglected beside ω in the
+// denominators) couple ground sublevels a → b by absorbing a photon of beam 1
+// and emitting one into beam 2. Second-order perturbation theory (V = −d·E,
+// amplitude (ℰ_j/2) per photon) has two intermediate paths through each J':
 //
-// which is the two-line formula of R. Grimm, M. Weidemüller and
-// Yu. B. Ovchinnikov, Adv. At. Mol. Opt. Phys. 42, 95 (2000):
-// U = (πc²Γ/2ω₀³)[(2 + P g_F m_F)/Δ₂ + (1 − P g_F m_F)/Δ₁] I (P = ±1 for σ±;
-// (iε*×ε)·σ → −P g_F m_F in a manifold F). The vector part cancels between
-// the lines for |Δ| ≫ the fine-structure splitting Δ_FS: 1/Δ₁ − 1/Δ₂ ≈
-// −Δ_FS/Δ². A linearly polarised beam scatters photons at
+//   - absorb 1 first, excited energy E_a + ħω: operator d₊(ε₂)† P_J' d₊(ε₁),
+//     denominator E_a + ħω − E_J' = ħΔ_J', Δ_J' = ω − ω_J' + E_a/ħ (the
+//     rotating-wave term);
+//   - emit 2 first (the atom is raised by the e^{+iωt} part of the field),
+//     excited energy E_a − ħω: operator d₊(ε₁*)† P_J' d₊(ε₂*), denominator
+//     E_a − ħω − E_J' = ħΔ̃_J', Δ̃_J' = −ω − ω_J' + E_a/ħ (the
+//     counter-rotating term; Δ̃ is Δ with ω → −ω, always < 0).
 //
-//	Γ_sc = (Ω²/4)(Γ₁/(3Δ₁²) + 2Γ₂/(3Δ₂²))
+// The second operator is op_J'(ε₁, ε₂*) = (1/3)[c₀(ε₂*·ε₁) − c₁ i(ε₂*×ε₁)·σ]
+// (c₀, c₁ = 1, +1 for D1 and 2, −1 for D2): swapping the two polarisations
+// leaves the rank-0 part and reverses the rank-1 part, since ε₁×ε₂* = −ε₂*×ε₁.
+// Hence
 //
-// from any ground sublevel (its vector part is zero). X = 3πε₀ħc³Γ̄/ω̄³ is
-// the doublet's strength, taken as the 1 : 2 weighted mean of the two lines'
-// Γ/ω³ (the two differ by 0.3 % for 87Rb); each line decays with its own Γ.
-// Neglected: counter-rotating terms (relative size |Δ|/ω, 1 % at 3 THz),
-// higher P states, the rank-2 (tensor) part that a resolved excited
-// hyperfine structure adds.
+//	V_21 = (ħΩ₁Ω₂/4) Σ_J' (1/3)[c₀(ε₂*·ε₁)(1/Δ_J' + 1/Δ̃_J') + c₁ i(ε₂*×ε₁)·σ (1/Δ_J' − 1/Δ̃_J')]:
+//
+// the scalar part adds the two orderings, the vector part takes their
+// difference. Red of a line both 1/Δ and 1/Δ̃ are negative, so the
+// counter-rotating term deepens the scalar shift and weakens the vector one:
+// for a single line 1/Δ + 1/Δ̃ = −2ω₀/(ω₀² − ω²) and 1/Δ − 1/Δ̃ = −2ω/(ω₀² − ω²),
+// the rank-K polarisability ∝ 1/(ω₀ − ω) + (−1)^K/(ω₀ + ω) (the (−1)^K form is
+// recalled from F. Le Kien, P. Schneeweiss and A. Rauschenbeutel, Eur. Phys.
+// J. D 67, 92 (2013); derived here for K = 0, 1 and checked by numpy). Ω_j =
+// √X ℰ_j/ħ is the beam Rabi frequency on the doublet (angular frequencies).
+// Per intensity I = ε₀c|ℰ|²/2 one beam gives U = I[u_s + u_v (iε*×ε)·σ] with
+//
+//	u_s = (ħΩ²/4I)(1/3)[(1/Δ₁ + 1/Δ̃₁) + 2(1/Δ₂ + 1/Δ̃₂)],
+//	u_v = (ħΩ²/4I)(1/3)[(1/Δ₁ − 1/Δ̃₁) − (1/Δ₂ − 1/Δ̃₂)],
+//	Ω²/I = 6πc²Γ̄/(ħω̄³).
+//
+// Dropping the 1/Δ̃ terms is the rotating-wave approximation (RWA), the
+// two-line formula of R. Grimm, M. Weidemüller and Yu. B. Ovchinnikov, Adv.
+// At. Mol. Opt. Phys. 42, 95 (2000): U = (πc²Γ/2ω₀³)[(2 + P g_F m_F)/Δ₂ +
+// (1 − P g_F m_F)/Δ₁] I (P = ±1 for σ±; (iε*×ε)·σ → −P g_F m_F in a manifold
+// F); their two-level form with both terms, U = −(3πc²/2ω₀³)(Γ/(ω₀ − ω) +
+// Γ/(ω₀ + ω)) I, is the scalar part above for one line. The relative size of
+// the counter-rotating terms is |Δ|/2ω in the scalar part near a line (0.3 %
+// at 2 THz for 87Rb) and only ~|Δ₁Δ₂|/4ω² in the vector part between the
+// lines (2e-5 at 790 nm): the rank-1 difference of the lines, 1/Δ₁ − 1/Δ₂ ≈
+// −Δ_FS/Δ², gains −Δ_FS/Δ̃², small near the lines. At 1064 nm for 87Rb the
+// scalar shift is 15 % deeper than the RWA's and the vector part 2.2 %
+// weaker; at 1560 nm +33 % and −11 %. The vector part still cancels between
+// the lines for |Δ| ≫ the fine-structure splitting Δ_FS: u_v ∝ −Δ_FS(1/Δ² −
+// 1/Δ̃²) = −Δ_FS·4ωω₀/(ω₀² − ω²)².
+//
+// Scattering. The Kramers–Heisenberg amplitude (damping neglected, far
+// detuned) for absorbing (ω, ε) and emitting (ω, ε_s) from g to any ground
+// sublevel g' is the same two-ordering operator with ε₁ = ε, ε₂ = ε_s,
+// T(ε_s) = a_s(ε_s*·ε) + a_v i(ε_s*×ε)·σ, a_s = (1/3)Σ c₀(1/Δ + 1/Δ̃),
+// a_v = (1/3)Σ c₁(1/Δ − 1/Δ̃). Summing |⟨g'|T|g⟩|² over all g', the emitted
+// directions and polarisations (Σ over three Cartesian ε_s with the dipole
+// pattern's 8π/3) and weighting by the emission rate at ω, Γ(ω) = Γ̄(ω/ω̄)³
+// (ω³|d|²/(3πε₀ħc³) with the doublet's one |d|²):
+//
+//	Γ_sc = (Ω²/4) Γ(ω) Σ_q ⟨g|T(e_q)† T(e_q)|g⟩ = (Ω²/4) Γ(ω) (a_s² + 2a_v²)
+//
+// for linear polarisation (for real ε the a_s a_v cross term 2a_s a_v
+// i(ε*×ε)·σ vanishes and Σ_q (ε×e_q)_l(ε×e_q)_m σ_l σ_m = σ·σ − (ε·σ)² = 2),
+// the same from every ground sublevel. This is the full (non-RWA) form, used
+// rather than a sum of per-line two-level rates because far from the lines
+// the two lines and the two orderings interfere: in the RWA the D1–D2 cross
+// terms of a_s² and 2a_v² cancel (giving (Ω²/4)(Γ₁/(3Δ₁²) + 2Γ₂/(3Δ₂²)), the
+// earlier per-line form) but with the 1/Δ̃ terms they do not. For one line it
+// is Grimm et al.'s two-level non-RWA rate, Γ_sc = (3πc²/2ħω₀³)(ω/ω₀)³(Γ/(ω₀ − ω)
+// + Γ/(ω₀ + ω))² I. Relative to the RWA the rate changes by (ω/ω̄)³ (≈ 1 −
+// 3Δ/ω near the lines) and the squared amplitudes: at 1064 nm for 87Rb it is
+// 0.52 of the RWA rate.
+//
+// X = 3πε₀ħc³Γ̄/ω̄³ is the doublet's strength, taken as the 1 : 2 weighted mean
+// of the two lines' Γ/ω³ (the two differ by 0.3 % for 87Rb), ω̄ = (ω₁ + 2ω₂)/3.
+// Neglected: the lines' different strengths (the 0.3 % enters the vector part
+// far from the lines magnified by Δ/Δ_FS, a few % at 1064 nm for 87Rb),
+// higher P states and the core polarisability (their size is not computed
+// here; they matter most in the vector part where the D lines cancel), the
+// rank-2 (tensor) part that a
+// resolved excited hyperfine structure adds, the two-photon frequency beside
+// ω in the denominators and the emitted frequency (ω_s = ω ± the ground
+// hyperfine splitting, 2e-5 relative).
 
 // Excited-state hyperfine structure needed before the line counts as
 // unresolved; see NearResonant.
@@ -60,22 +122,36 @@ const (
 )
 
 // DLineShift holds the far-detuned two-line light shift of one ground level
-// (see the model above), per unit intensity of one beam.
+// (see the model above), per unit intensity of one beam, with both time
+// orderings, and its rotating-wave limit for comparison.
 type DLineShift struct {
 	// DetuningD1Hz, DetuningD2Hz: Δ_J'/2π = ν_L − ν_J' + E_g/h, signed
 	// (+ = blue), with ν_J' the line between fine-structure centres of
 	// gravity and E_g the ground level's Breit–Rabi energy (measured from
 	// the ground centre of gravity). Hz.
 	DetuningD1Hz, DetuningD2Hz float64
-	// Scalar u_s and Vector u_v: U = I[u_s + u_v (iε*×ε)·σ], J per W/m².
+	// CounterD1Hz, CounterD2Hz: the counter-rotating denominators
+	// Δ̃_J'/2π = −ν_L − ν_J' + E_g/h (< 0), Hz.
+	CounterD1Hz, CounterD2Hz float64
+	// Scalar u_s and Vector u_v: U = I[u_s + u_v (iε*×ε)·σ], J per W/m²,
+	// both time orderings.
 	Scalar, Vector float64
 	// Scatter: photon scattering rate of one linearly polarised beam per
-	// intensity, 1/s per W/m².
+	// intensity (Kramers–Heisenberg, both orderings, Γ(ω) = Γ̄(ω/ω̄)³), 1/s
+	// per W/m².
 	Scatter float64
+	// ScalarRWA, VectorRWA, ScatterRWA: the same in the rotating-wave
+	// approximation (1/Δ̃ terms dropped; the scattering as the per-line sum
+	// (Ω²/4I)(Γ₁/(3Δ₁²) + 2Γ₂/(3Δ₂²)), each line with its own Γ), the
+	// earlier model, kept for comparison.
+	ScalarRWA, VectorRWA, ScatterRWA float64
 	// RabiSqPerIntensity: Ω²/I = 6πc²Γ̄/(ħω̄³) of the doublet, (rad/s)² per W/m².
 	RabiSqPerIntensity float64
 	// FineStructureHz: Δ_FS/2π = ν_D2 − ν_D1, Hz.
 	FineStructureHz float64
+	// GammaHz: Γ(ω)/2π = (Γ̄/ω̄³)ω³/2π, the doublet's emission rate at the
+	// light's frequency, Hz; CentreHz: ω̄/2π = (ν_D1 + 2ν_D2)/3, Hz.
+	GammaHz, CentreHz float64
 }
 
 // lines returns the species' D1 and D2 lines.
@@ -97,7 +173,8 @@ func (s Species) lines() (d1, d2 Line, err error) {
 
 // DLineLightShift returns the two-line light-shift coefficients for light of
 // vacuum wavelength λ (m) on a ground level of Breit–Rabi energy groundJ (J,
-// from the ground centre of gravity; 0: the centre of gravity itself).
+// from the ground centre of gravity; 0: the centre of gravity itself), with
+// both time orderings (u_s, u_v, Γ_sc of the model above) and their RWA limit.
 func (s Species) DLineLightShift(wavelength, groundJ float64) (DLineShift, error) {
 	var d DLineShift
 	d1, d2, err := s.lines()
@@ -111,17 +188,29 @@ func (s Species) DLineLightShift(wavelength, groundJ float64) (DLineShift, error
 	nu1, nu2 := SpeedOfLight/d1.Wavelength, SpeedOfLight/d2.Wavelength
 	d.DetuningD1Hz = nu - nu1 + groundJ/Planck
 	d.DetuningD2Hz = nu - nu2 + groundJ/Planck
+	d.CounterD1Hz = -nu - nu1 + groundJ/Planck
+	d.CounterD2Hz = -nu - nu2 + groundJ/Planck
 	d.FineStructureHz = nu2 - nu1
+	d.CentreHz = (nu1 + 2*nu2) / 3
 	w1, w2 := 2*math.Pi*nu1, 2*math.Pi*nu2
 	g1, g2 := 2*math.Pi*d1.GammaHz, 2*math.Pi*d2.GammaHz
 	// Γ̄/ω̄³: the 1 : 2 weighted mean of the lines' Γ/ω³.
 	strength := (g1/(w1*w1*w1) + 2*g2/(w2*w2*w2)) / 3
+	w := 2 * math.Pi * nu
+	d.GammaHz = strength * w * w * w / (2 * math.Pi)
 	d.RabiSqPerIntensity = 6 * math.Pi * SpeedOfLight * SpeedOfLight * strength / Hbar
 	D1, D2 := 2*math.Pi*d.DetuningD1Hz, 2*math.Pi*d.DetuningD2Hz
+	C1, C2 := 2*math.Pi*d.CounterD1Hz, 2*math.Pi*d.CounterD2Hz
 	q := Hbar * d.RabiSqPerIntensity / 4
-	d.Scalar = q * (1/(3*D1) + 2/(3*D2))
-	d.Vector = q * (1/D1 - 1/D2) / 3
-	d.Scatter = d.RabiSqPerIntensity / 4 * (g1/(3*D1*D1) + 2*g2/(3*D2*D2))
+	// a_s, a_v: the rank-0 and rank-1 amplitudes, both orderings.
+	as := ((1/D1 + 1/C1) + 2*(1/D2+1/C2)) / 3
+	av := ((1/D1 - 1/C1) - (1/D2 - 1/C2)) / 3
+	d.Scalar = q * as
+	d.Vector = q * av
+	d.Scatter = d.RabiSqPerIntensity / 4 * (2 * math.Pi * d.GammaHz) * (as*as + 2*av*av)
+	d.ScalarRWA = q * (1/(3*D1) + 2/(3*D2))
+	d.VectorRWA = q * (1/D1 - 1/D2) / 3
+	d.ScatterRWA = d.RabiSqPerIntensity / 4 * (g1/(3*D1*D1) + 2*g2/(3*D2*D2))
 	return d, nil
 }
 

@@ -57,10 +57,15 @@ type RamanResult struct {
 	ScatterRate float64
 	// ScatterPerRabi: Γ_sc/Ω (Ω in rad/s), independent of the intensity.
 	ScatterPerRabi float64
-	// FineStructureLimit: Γ_sc/Ω for |Δ| ≫ Δ_FS, (Γ₁ + 2Γ₂)/(s·Δ_FS): the
-	// floor that no detuning goes below (the vector coupling cancels between
-	// the lines).
+	// FineStructureLimit: Γ_sc/Ω for |Δ| ≫ Δ_FS at this wavelength,
+	// 3Γ̄(ω/ω̄)²/(s·Δ_FS) with Γ̄ = Γ(ω̄) ≈ (Γ₁ + 2Γ₂)/3 (the vector coupling
+	// cancels between the lines); in the RWA the constant (Γ₁ + 2Γ₂)/(s·Δ_FS),
+	// the floor no detuning near the lines goes below.
 	FineStructureLimit float64
+	// BeamIntensityRWA, ScatterPerRabiRWA: BeamIntensity and ScatterPerRabi
+	// in the rotating-wave approximation (DLineShift.VectorRWA, ScatterRWA),
+	// for comparison; they differ from the full values by O(|Δ|/ω).
+	BeamIntensityRWA, ScatterPerRabiRWA float64
 	ScatterPerER       float64 // ħΓ_sc/E_R: scattering events per ħ/E_R
 	// HeatingER: heating 2E_rec per scattered photon, E_rec = ħ²(2π/λ)²/2m
 	// the single-photon recoil, in E_R per second.
@@ -96,19 +101,25 @@ type RamanResult struct {
 // the photon scattering of the beams from the two D lines and, with a pair,
 // the two-photon frequency and the isolation of the pair.
 //
-// Scattering (two-line model, see DLineLightShift). Between Zeeman sublevels
-// the Raman coupling is the vector part of the light shift: for beam
-// intensities I₁, I₂ and real (linear) polarisations ħΩ/2 = √(I₁I₂)|u_v|·s·|n|,
-// n = ε₂×ε₁ with its component perpendicular (Δm = ±1) or parallel (Δm = 0)
-// to the bias, s = |⟨↓|σ_q|↑⟩|. The estimate takes |n| = 1 (orthogonal
-// polarisations, the best geometry: any other needs more intensity) and
-// equal intensities (the least scattering for a given Ω₁Ω₂). Then
+// Scattering (two-line model with both time orderings, see
+// DLineLightShift). Between Zeeman sublevels the Raman coupling is the vector
+// part of the light shift: for beam intensities I₁, I₂ and real (linear)
+// polarisations ħΩ/2 = √(I₁I₂)|u_v|·s·|n|, n = ε₂×ε₁ with its component
+// perpendicular (Δm = ±1) or parallel (Δm = 0) to the bias, s = |⟨↓|σ_q|↑⟩|.
+// The estimate takes |n| = 1 (orthogonal polarisations, the best geometry:
+// any other needs more intensity) and equal intensities (the least
+// scattering for a given Ω₁Ω₂). With a_s, a_v the rank-0 and rank-1
+// amplitudes of DLineLightShift (a_v = (1/3)[(1/Δ₁ − 1/Δ̃₁) − (1/Δ₂ − 1/Δ̃₂)])
 //
-//	Ω = (Ω_b²/6) s |1/Δ₁ − 1/Δ₂|,   Γ_sc = (Ω_b²/2)(Γ₁/(3Δ₁²) + 2Γ₂/(3Δ₂²)),
-//	Γ_sc/Ω = (Γ₁/Δ₁² + 2Γ₂/Δ₂²) / (s |1/Δ₁ − 1/Δ₂|)
+//	Ω = (Ω_b²/2) s |a_v|,   Γ_sc = (Ω_b²/2) Γ(ω)(a_s² + 2a_v²),
+//	Γ_sc/Ω = Γ(ω)(a_s² + 2a_v²) / (s |a_v|)
 //
-// (all angular frequencies); near one line this is 2Γ/(s|Δ|) (D2) or
-// Γ/(s|Δ|) (D1), far from both it tends to (Γ₁ + 2Γ₂)/(s Δ_FS). Warnings:
+// (all angular frequencies). In the RWA (1/Δ̃ dropped, each line with its
+// own Γ) Γ_sc/Ω = (Γ₁/Δ₁² + 2Γ₂/Δ₂²) / (s |1/Δ₁ − 1/Δ₂|): near one line
+// 2Γ/(s|Δ|) (D2) or Γ/(s|Δ|) (D1). Far from both lines (|Δ| ≫ Δ_FS),
+// a_v ≈ (Δ_FS/3)|1/Δ² − 1/Δ̃²| and a_s ≈ 1/Δ + 1/Δ̃, so Γ_sc/Ω → 3Γ(ω)/(sΔ_FS)
+// · (Δ + Δ̃)/(Δ − Δ̃) = 3Γ̄(ω/ω̄)²/(sΔ_FS) (Δ + Δ̃ = −2ω̄, Δ − Δ̃ = 2ω): the RWA
+// floor (Γ₁ + 2Γ₂)/(sΔ_FS) times (ω/ω̄)², 0.54 at 1064 nm for 87Rb. Warnings:
 // WarnNearResonant when either |Δ_J'| is below NearResonanceLinewidths·Γ_J'
 // or NearResonanceHFS times the hyperfine structure the model leaves out.
 func (p Raman) Evaluate() (RamanResult, error) {
@@ -147,6 +158,7 @@ func (p Raman) Evaluate() (RamanResult, error) {
 	r.LineDetuningHz, r.ScatterPerRabi, r.FineStructureLimit = nan, nan, nan
 	r.DetuningD1Hz, r.DetuningD2Hz, r.FineStructureHz = nan, nan, nan
 	r.BeamIntensity, r.BeamRabiHz = nan, nan
+	r.BeamIntensityRWA, r.ScatterPerRabiRWA = nan, nan
 
 	// The ground level the detunings are measured from, and the spin matrix element.
 	groundJ, s := 0.0, 1.0
@@ -175,8 +187,12 @@ func (p Raman) Evaluate() (RamanResult, error) {
 		r.BeamRabiHz = math.Sqrt(d.RabiSqPerIntensity*r.BeamIntensity) / (2 * math.Pi)
 		r.ScatterRate = 2 * d.Scatter * r.BeamIntensity
 		r.ScatterPerRabi = 2 * d.Scatter * Hbar / (2 * math.Abs(d.Vector) * s)
+		r.BeamIntensityRWA = Hbar * omega / (2 * math.Abs(d.VectorRWA) * s)
+		r.ScatterPerRabiRWA = 2 * d.ScatterRWA * Hbar / (2 * math.Abs(d.VectorRWA) * s)
 		d1, d2, _ := sp.lines()
-		r.FineStructureLimit = (d1.GammaHz + 2*d2.GammaHz) / (s * math.Abs(d.FineStructureHz))
+		// 3Γ(ω)(ω̄/ω)/(s Δ_FS) = 3Γ̄(ω/ω̄)²/(s Δ_FS).
+		nu := SpeedOfLight / p.Wavelength
+		r.FineStructureLimit = 3 * d.GammaHz * d.CentreHz / nu / (s * math.Abs(d.FineStructureHz))
 		r.ScatterPerER = Hbar * r.ScatterRate / eR
 		kL := 2 * math.Pi / p.Wavelength
 		eRec := Hbar * Hbar * kL * kL / (2 * m)

@@ -17,11 +17,16 @@ func rb87(t testing.TB) Species {
 	return sp
 }
 
-// The two-line model against numpy built from explicit L, S, I matrices
-// (testdata/ref_raman.py → ref_raman.json, no closed forms there): spin
-// matrix elements of the Breit–Rabi states, detunings from each line as
-// seen from ↑, Ω/Ω_b², Γ_sc/Ω, the strength Ω_b²/I, the two-photon
-// frequency and q.
+// The two-line model with both time orderings, and its RWA limit, against
+// numpy built from explicit L, S, I matrices (testdata/ref_raman.py →
+// ref_raman.json, no closed forms there; the script builds the
+// counter-rotating path as its own operator product): spin matrix elements
+// of the Breit–Rabi states, detunings from each line as seen from ↑, Ω/Ω_b²,
+// Γ_sc/Ω, the light shift of one linearly polarised beam, the strength
+// Ω_b²/I, the two-photon frequency and q, at every case (790–804 nm, 1064,
+// 1550, 1560 and 532 nm for 87Rb; Na, K at 1064 nm, Li). Tolerance 1e-9
+// relative (float64 round-off of the same sums; the shift near 790 nm, the
+// scalar tune-out, loses a digit to cancellation).
 func TestRamanAgainstNumpy(t *testing.T) {
 	var ref struct {
 		Cases []struct {
@@ -34,6 +39,10 @@ func TestRamanAgainstNumpy(t *testing.T) {
 			Element            float64  `json:"matrix_element"`
 			RabiOverBeamSq     float64  `json:"rabi_over_beam_rabi_sq"`
 			ScatterPerRabi     float64  `json:"scatter_per_rabi"`
+			RabiOverBeamSqRWA  float64  `json:"rabi_over_beam_rabi_sq_rwa"`
+			ScatterPerRabiRWA  float64  `json:"scatter_per_rabi_rwa"`
+			ShiftOverBeamSq    float64  `json:"shift_over_beam_rabi_sq"`
+			ShiftOverBeamSqRWA float64  `json:"shift_over_beam_rabi_sq_rwa"`
 			RabiSqPerIntensity float64  `json:"rabi_sq_per_intensity"`
 			TwoPhotonHz        float64  `json:"two_photon_hz"`
 			QuadZeemanHz       *float64 `json:"quadratic_zeeman_hz"`
@@ -46,7 +55,7 @@ func TestRamanAgainstNumpy(t *testing.T) {
 	if err := json.Unmarshal(b, &ref); err != nil {
 		t.Fatal(err)
 	}
-	if len(ref.Cases) < 10 {
+	if len(ref.Cases) < 17 {
 		t.Fatalf("only %d reference cases", len(ref.Cases))
 	}
 	for _, c := range ref.Cases {
@@ -63,6 +72,7 @@ func TestRamanAgainstNumpy(t *testing.T) {
 		name := c.Atom + " " + p.Up.String() + "→" + p.Down.String()
 		omega, omegaB := 2*math.Pi*p.RabiHz, 2*math.Pi*r.BeamRabiHz
 		d, _ := sp.DLineLightShift(p.Wavelength, sp.Energy(p.Up, p.Bias))
+		omegaBRWA2 := d.RabiSqPerIntensity * r.BeamIntensityRWA
 		for _, x := range []struct {
 			what      string
 			got, want float64
@@ -74,6 +84,10 @@ func TestRamanAgainstNumpy(t *testing.T) {
 			{"Ω/Ω_b²", omega / (omegaB * omegaB), c.RabiOverBeamSq, 1e-9},
 			{"Γ_sc/Ω", r.ScatterPerRabi, c.ScatterPerRabi, 1e-9},
 			{"Γ_sc/Ω from the rate", r.ScatterRate / omega, c.ScatterPerRabi, 1e-9},
+			{"Ω/Ω_b² (RWA)", omega / omegaBRWA2, c.RabiOverBeamSqRWA, 1e-9},
+			{"Γ_sc/Ω (RWA)", r.ScatterPerRabiRWA, c.ScatterPerRabiRWA, 1e-9},
+			{"u_s/(ħΩ_b²/I)", d.Scalar / (Hbar * d.RabiSqPerIntensity), c.ShiftOverBeamSq, 1e-9},
+			{"u_s/(ħΩ_b²/I) (RWA)", d.ScalarRWA / (Hbar * d.RabiSqPerIntensity), c.ShiftOverBeamSqRWA, 1e-9},
 			{"Ω_b²/I", d.RabiSqPerIntensity, c.RabiSqPerIntensity, 1e-12},
 			{"two-photon frequency", r.TwoPhotonHz, c.TwoPhotonHz, 1e-8},
 		} {
@@ -91,15 +105,28 @@ func TestRamanAgainstNumpy(t *testing.T) {
 
 // The light shift of one circularly polarised beam against the two-line
 // formula of R. Grimm, M. Weidemüller and Yu. B. Ovchinnikov, Adv. At. Mol.
-// Opt. Phys. 42, 95 (2000):
+// Opt. Phys. 42, 95 (2000), in the RWA:
 //
 //	U = (πc²Γ/2ω₀³)[(2 + P g_F m_F)/Δ₂,F + (1 − P g_F m_F)/Δ₁,F] I,
 //	Γ_sc = (πc²Γ²/2ħω₀³)[2/Δ₂,F² + 1/Δ₁,F²] I (linear polarisation),
 //
-// with one Γ and ω₀ for the doublet. For 7Li (both lines Γ/2π = 5.8724 MHz,
-// ω₁/ω₂ − 1 = 2e-5) the formula is exact up to the ω³ difference (1e-4);
-// for 87Rb (Γ₁ ≠ Γ₂) the shift agrees to the 0.3 % by which the lines' Γ/ω³
-// differ. Our ⟨(iε*×ε)·σ⟩ = −P⟨σ_z⟩, ⟨σ_z⟩ = g̃_F m_F at low field.
+// with one Γ and ω₀ for the doublet: ScalarRWA, VectorRWA, ScatterRWA. With
+// both time orderings each 1/Δ_J' of the rank-0 part (the "2/Δ₂ + 1/Δ₁") is
+// replaced by 1/Δ_J' + 1/Δ̃_J' — for one line that is their non-RWA form
+// U = −(3πc²/2ω₀³)(Γ/(ω₀ − ω) + Γ/(ω₀ + ω)) I — and each 1/Δ_J' of the
+// rank-1 part (the "P g_F m_F") by 1/Δ_J' − 1/Δ̃_J' (the reversed sign of the
+// counter-rotating vector part, derived in dlines.go; the (−1)^K of Le Kien,
+// Schneeweiss and Rauschenbeutel, Eur. Phys. J. D 67, 92 (2013), recalled):
+// Scalar, Vector. For 7Li (both lines Γ/2π = 5.8724 MHz, ω₁/ω₂ − 1 = 2e-5)
+// the formula is exact up to the ω³ difference (1e-4); for 87Rb (Γ₁ ≠ Γ₂)
+// the shift agrees to the 0.3 % by which the lines' Γ/ω³ differ. Our
+// ⟨(iε*×ε)·σ⟩ = −P⟨σ_z⟩, ⟨σ_z⟩ = g̃_F m_F at low field.
+//
+// The full scattering rate against their two-level non-RWA rate,
+// Γ_sc = (3πc²/2ħω₀³)(ω/ω₀)³(Γ/(ω₀ − ω) + Γ/(ω₀ + ω))² I, with ω₀ the doublet's
+// centre (ω₁ + 2ω₂)/3 and Γ = (Γ₁ + 2Γ₂)/3, far from the lines (|Δ| ≫ Δ_FS,
+// where the doublet is one line up to (Δ_FS/Δ)²): 7Li to 1e-6, 87Rb at 1064
+// and 1560 nm (Δ_FS/Δ = 7 %, 4 %) and 532 nm to 4e-3.
 func TestDLineLightShiftGrimm(t *testing.T) {
 	for _, tc := range []struct {
 		atom     string
@@ -107,16 +134,17 @@ func TestDLineLightShiftGrimm(t *testing.T) {
 		tolShift float64
 		tolSc    float64
 	}{
-		{"Li7", []float64{671.1e-9, 670.5e-9, 671.6e-9, 700e-9, 670.9685e-9}, 1e-4, 1e-4},
-		{"Rb87", []float64{790e-9, 785e-9, 804e-9, 1064e-9, 770e-9}, 5e-3, -1},
+		{"Li7", []float64{671.1e-9, 670.5e-9, 671.6e-9, 700e-9, 670.9685e-9, 1064e-9}, 1e-4, 1e-4},
+		{"Rb87", []float64{790e-9, 785e-9, 804e-9, 1064e-9, 770e-9, 1560e-9}, 5e-3, -1},
 	} {
 		sp, _ := LookupSpecies(tc.atom)
 		d1, d2, _ := sp.lines()
 		w0 := 2 * math.Pi * SpeedOfLight / d2.Wavelength
+		w1 := 2 * math.Pi * SpeedOfLight / d1.Wavelength
 		gam := 2 * math.Pi * d2.GammaHz
 		pre := math.Pi * SpeedOfLight * SpeedOfLight * gam / (2 * w0 * w0 * w0)
-		_ = d1
 		for _, lam := range tc.lams {
+			w := 2 * math.Pi * SpeedOfLight / lam
 			for _, l := range []Sublevel{{1, -1}, {1, 0}, {1, 1}, {2, 2}, {2, -1}} {
 				const B = 1e-9
 				d, err := sp.DLineLightShift(lam, sp.Energy(l, B))
@@ -131,28 +159,70 @@ func TestDLineLightShiftGrimm(t *testing.T) {
 					t.Errorf("%s %v: ⟨σz⟩ = %g, g̃_F m = %g", tc.atom, l, sz, gF*float64(l.M))
 				}
 				D1, D2 := 2*math.Pi*d.DetuningD1Hz, 2*math.Pi*d.DetuningD2Hz
+				// Counter-rotating denominators −(ω + ω_J') + E_g/ħ.
+				eg := sp.Energy(l, B) / Hbar
+				C1, C2 := -(w+w1)+eg, -(w+w0)+eg
 				for _, P := range []float64{-1, 0, 1} {
-					want := pre * ((2+P*gF*float64(l.M))/D2 + (1-P*gF*float64(l.M))/D1)
-					got := d.Scalar - P*d.Vector*sz
+					pg := P * gF * float64(l.M)
+					want := pre * ((2+pg)/D2 + (1-pg)/D1)
+					got := d.ScalarRWA - P*d.VectorRWA*sz
 					if e := relErr(got, want); !(e < tc.tolShift) {
-						t.Errorf("%s λ = %g nm %v P = %g: U/I = %.8g, Grimm et al. %.8g (rel %.2g)", tc.atom, lam*1e9, l, P, got, want, e)
+						t.Errorf("%s λ = %g nm %v P = %g: RWA U/I = %.8g, Grimm et al. %.8g (rel %.2g)", tc.atom, lam*1e9, l, P, got, want, e)
+					}
+					want = pre * (2*(1/D2+1/C2) + (1/D1 + 1/C1) + pg*((1/D2-1/C2)-(1/D1-1/C1)))
+					got = d.Scalar - P*d.Vector*sz
+					if e := relErr(got, want); !(e < tc.tolShift) {
+						t.Errorf("%s λ = %g nm %v P = %g: U/I = %.8g, Grimm et al. with both orderings %.8g (rel %.2g)", tc.atom, lam*1e9, l, P, got, want, e)
 					}
 				}
 				if tc.tolSc > 0 {
 					want := pre * gam / Hbar * (2/(D2*D2) + 1/(D1*D1))
-					if e := relErr(d.Scatter, want); !(e < tc.tolSc) {
-						t.Errorf("%s λ = %g nm: Γ_sc/I = %.8g, Grimm et al. %.8g (rel %.2g)", tc.atom, lam*1e9, d.Scatter, want, e)
+					if e := relErr(d.ScatterRWA, want); !(e < tc.tolSc) {
+						t.Errorf("%s λ = %g nm: RWA Γ_sc/I = %.8g, Grimm et al. %.8g (rel %.2g)", tc.atom, lam*1e9, d.ScatterRWA, want, e)
 					}
 				}
+			}
+		}
+	}
+	for _, tc := range []struct {
+		atom string
+		lams []float64
+		tol  float64
+	}{
+		{"Li7", []float64{700e-9, 1064e-9, 532e-9, 640e-9}, 1e-6},
+		{"Rb87", []float64{1064e-9, 1560e-9, 532e-9}, 4e-3},
+	} {
+		sp, _ := LookupSpecies(tc.atom)
+		d1, d2, _ := sp.lines()
+		w1, w2 := 2*math.Pi*SpeedOfLight/d1.Wavelength, 2*math.Pi*SpeedOfLight/d2.Wavelength
+		w0 := (w1 + 2*w2) / 3
+		gam := 2 * math.Pi * (d1.GammaHz + 2*d2.GammaHz) / 3
+		for _, lam := range tc.lams {
+			w := 2 * math.Pi * SpeedOfLight / lam
+			d, err := sp.DLineLightShift(lam, 0)
+			if err != nil {
+				t.Fatal(err)
+			}
+			x := w / w0
+			f := gam/(w0-w) + gam/(w0+w)
+			want := 3 * math.Pi * SpeedOfLight * SpeedOfLight / (2 * Hbar * w0 * w0 * w0) * x * x * x * f * f
+			if e := relErr(d.Scatter, want); !(e < tc.tol) {
+				t.Errorf("%s λ = %g nm: Γ_sc/I = %.8g, Grimm et al. two-level non-RWA %.8g (rel %.2g)", tc.atom, lam*1e9, d.Scatter, want, e)
+			}
+			// … and not the RWA rate (the test can tell the two apart).
+			r := gam / (w0 - w)
+			if rwa := 3 * math.Pi * SpeedOfLight * SpeedOfLight / (2 * Hbar * w0 * w0 * w0) * r * r; relErr(d.Scatter, rwa) < 10*tc.tol {
+				t.Errorf("%s λ = %g nm: Γ_sc/I = %.8g is close to the two-level RWA rate %.8g", tc.atom, lam*1e9, d.Scatter, rwa)
 			}
 		}
 	}
 }
 
 // Limits of Γ_sc/Ω (derived in raman.go): near D2 alone 2Γ₂/(s|Δ₂|), near
-// D1 alone Γ₁/(s|Δ₁|) (corrections Δ/Δ_other), and far from both the
-// fine-structure floor (Γ₁ + 2Γ₂)/(s Δ_FS) (corrections Δ_FS/Δ): the vector
-// coupling cancels between the lines while the scattering does not.
+// D1 alone Γ₁/(s|Δ₁|) (corrections Δ/Δ_other), and far from both
+// (corrections Δ_FS/Δ) the fine-structure value 3Γ̄(ω/ω̄)²/(s Δ_FS), in the
+// RWA the constant floor (Γ₁ + 2Γ₂)/(s Δ_FS): the vector coupling cancels
+// between the lines while the scattering does not.
 func TestRamanScatteringLimits(t *testing.T) {
 	sp := rb87(t)
 	d1, d2, _ := sp.lines()
@@ -174,14 +244,21 @@ func TestRamanScatteringLimits(t *testing.T) {
 	if want := d1.GammaHz / (r.MatrixElement * math.Abs(r.DetuningD1Hz)); relErr(r.ScatterPerRabi, want) > 0.02 {
 		t.Errorf("near D1: Γ_sc/Ω = %g, want ≈ Γ₁/(s|Δ₁|) = %g", r.ScatterPerRabi, want)
 	}
+	nuBar := (nu1 + 2*nu2) / 3
 	for _, k := range []float64{10, 40} {
-		r = ev(nu1 - k*fs)
-		want := (d1.GammaHz + 2*d2.GammaHz) / (r.MatrixElement * fs)
-		if relErr(r.FineStructureLimit, want) > 1e-12 {
-			t.Errorf("fine-structure floor %g, want %g", r.FineStructureLimit, want)
+		nu := nu1 - k*fs
+		r = ev(nu)
+		floor := (d1.GammaHz + 2*d2.GammaHz) / (r.MatrixElement * fs)
+		// Γ̄ = Γ(ω̄) is the 1 : 2 mean of Γ/ω³ times ω̄³, (Γ₁ + 2Γ₂)/3 to 1e-3.
+		want := floor * (nu / nuBar) * (nu / nuBar)
+		if e := relErr(r.FineStructureLimit, want); e > 1e-3 {
+			t.Errorf("Δ = −%g Δ_FS: far-detuned value %g, want 3Γ̄(ω/ω̄)²/(sΔ_FS) = %g (rel %.2g)", k, r.FineStructureLimit, want, e)
 		}
-		if e := relErr(r.ScatterPerRabi, want); e > 3/k {
-			t.Errorf("Δ = −%g Δ_FS: Γ_sc/Ω = %g, floor %g (rel %.2g)", k, r.ScatterPerRabi, want, e)
+		if e := relErr(r.ScatterPerRabi, r.FineStructureLimit); e > 3/k {
+			t.Errorf("Δ = −%g Δ_FS: Γ_sc/Ω = %g, far-detuned value %g (rel %.2g)", k, r.ScatterPerRabi, r.FineStructureLimit, e)
+		}
+		if e := relErr(r.ScatterPerRabiRWA, floor); e > 3/k {
+			t.Errorf("Δ = −%g Δ_FS: RWA Γ_sc/Ω = %g, RWA floor %g (rel %.2g)", k, r.ScatterPerRabiRWA, floor, e)
 		}
 	}
 	// Between the lines the ratio is smaller than anywhere outside them at
@@ -374,6 +451,82 @@ func TestRFPairRefused(t *testing.T) {
 		}
 		if err == nil && pr.up.F != pr.down.F && !HasWarning(r.Warnings, WarnMicrowave) {
 			t.Errorf("%v, %v: no microwave warning", pr.up, pr.down)
+		}
+	}
+}
+
+// The rotating-wave limit. Near the lines the full result tends to the RWA
+// one: the scalar shift by O(|Δ|/ω) (one line: 1 + Δ̃⁻¹/Δ⁻¹ = 1 − Δ/(2ω₀ + Δ)),
+// the vector part only by O(|Δ₁Δ₂|/ω²) (the counter-rotating difference of
+// the lines, Δ_FS/Δ̃², against Δ_FS/Δ²), the scattering by the (ω/ω̄)³ of the
+// emission rate and the amplitudes, 3|Δ|/ω + |Δ|/ω, plus the 0.3 % between
+// the lines' own Γ (RWA) and the one-dipole Γ(ω). Far from the lines (1064,
+// 1560 nm) the full/RWA ratios follow the closed forms for |Δ| ≫ Δ_FS
+// (derived in dlines.go and raman.go, ω₀ = ω̄): scalar 2ω₀/(ω₀ + ω), vector
+// 1 − ((ω − ω₀)/(ω + ω₀))², scattering (ω/ω₀)³(2ω₀/(ω₀ + ω))², Γ_sc/Ω
+// (ω/ω₀)², each to 5e-3 (corrections (Δ_FS/Δ)²-small, and the 0.3 % of the
+// Γ convention in the scattering).
+func TestRamanRWALimit(t *testing.T) {
+	sp := rb87(t)
+	up, down := Sublevel{1, 0}, Sublevel{1, -1}
+	ev := func(lam float64) (RamanResult, DLineShift) {
+		p := Raman{Species: sp, Wavelength: lam, Angle: math.Pi, RabiHz: 1e3, Up: up, Down: down, Bias: 1e-4}
+		r, err := p.Evaluate()
+		if err != nil {
+			t.Fatal(err)
+		}
+		d, _ := sp.DLineLightShift(lam, sp.Energy(up, p.Bias))
+		return r, d
+	}
+	prev := math.Inf(1)
+	// 790 nm is the scalar tune-out of 87Rb (u_s ≈ 0): scalar left out there.
+	for _, lam := range []float64{800e-9, 785e-9, 782e-9, 780.8e-9} {
+		r, d := ev(lam)
+		w := SpeedOfLight / lam
+		near := math.Min(math.Abs(d.DetuningD1Hz), math.Abs(d.DetuningD2Hz)) / w
+		far := math.Max(math.Abs(d.DetuningD1Hz), math.Abs(d.DetuningD2Hz)) / w
+		es := math.Abs(d.Scalar/d.ScalarRWA - 1)
+		evec := math.Abs(d.Vector/d.VectorRWA - 1)
+		eg := math.Abs(d.Scatter/d.ScatterRWA - 1)
+		if !(es <= 1.5*near) || !(es > near/10) {
+			t.Errorf("λ = %g nm: scalar full/RWA − 1 = %.3g, want O(|Δ|/ω = %.3g)", lam*1e9, es, near)
+		}
+		if lim := d.DetuningD1Hz * d.DetuningD2Hz / (w * w); !(evec <= math.Abs(lim)) {
+			t.Errorf("λ = %g nm: vector full/RWA − 1 = %.3g, want ≤ |Δ₁Δ₂|/ω² = %.3g", lam*1e9, evec, math.Abs(lim))
+		}
+		if !(eg <= 4*far+3e-3) {
+			t.Errorf("λ = %g nm: scattering full/RWA − 1 = %.3g, want ≤ 4|Δ|/ω + 3e-3 = %.3g", lam*1e9, eg, 4*far+3e-3)
+		}
+		if e := math.Abs(r.ScatterPerRabi/r.ScatterPerRabiRWA - 1); !(e <= 4*far+3e-3) {
+			t.Errorf("λ = %g nm: Γ_sc/Ω full/RWA − 1 = %.3g", lam*1e9, e)
+		}
+		if !(es < prev) {
+			t.Errorf("λ = %g nm: scalar full/RWA − 1 = %.3g did not shrink towards the line (%.3g)", lam*1e9, es, prev)
+		}
+		prev = es
+		t.Logf("λ = %g nm (|Δ|/ω = %.3g … %.3g): full/RWA − 1: scalar %.3g, vector %.3g, scattering %.3g, Γ_sc/Ω %.3g", lam*1e9, near, far, es, evec, eg, r.ScatterPerRabi/r.ScatterPerRabiRWA-1)
+	}
+	d1, d2, _ := sp.lines()
+	w0 := (SpeedOfLight/d1.Wavelength + 2*SpeedOfLight/d2.Wavelength) / 3
+	for _, lam := range []float64{1064e-9, 1560e-9} {
+		r, d := ev(lam)
+		w := SpeedOfLight / lam
+		x := (w - w0) / (w + w0)
+		for _, c := range []struct {
+			what            string
+			full, rwa, want float64
+		}{
+			{"scalar shift", d.Scalar, d.ScalarRWA, 2 * w0 / (w0 + w)},
+			{"vector part (Raman Ω per intensity)", d.Vector, d.VectorRWA, 1 - x*x},
+			{"scattering rate per intensity", d.Scatter, d.ScatterRWA, math.Pow(w/w0, 3) * math.Pow(2*w0/(w0+w), 2)},
+			{"Γ_sc/Ω", r.ScatterPerRabi, r.ScatterPerRabiRWA, (w / w0) * (w / w0)},
+			{"beam intensity for Ω", r.BeamIntensity, r.BeamIntensityRWA, 1 / (1 - x*x)},
+		} {
+			got := c.full / c.rwa
+			if e := relErr(got, c.want); !(e < 5e-3) {
+				t.Errorf("λ = %g nm: %s full/RWA = %.5g, closed form %.5g (rel %.2g)", lam*1e9, c.what, got, c.want, e)
+			}
+			t.Logf("λ = %g nm: %s full/RWA = %.5g (closed form %.5g)", lam*1e9, c.what, got, c.want)
 		}
 	}
 }

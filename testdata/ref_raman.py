@@ -15,13 +15,27 @@ Construction (no closed form is used):
     unresolved (the far-detuned model);
   * dipole operator for a real polarisation ε: |p_ε⟩⟨s| ⊗ 1_spin (one radial
     element for the doublet);
-  * two-photon amplitude M = Σ_J' ⟨b| D(ε₂)† P_J' D(ε₁) |a⟩ / Δ_J', with
-    Δ_J' = 2π(ν_L − ν_J' + E_a/h); Ω_R = (Ω_b²/2)|M| for equal beam Rabi
-    frequencies Ω_b, with the best linear geometry (ε₁ = z, ε₂ = x for
-    |Δm| = 1; ε₁ = x, ε₂ = y for Δm = 0, bias along z); the script checks on
-    random pairs of real polarisations that no geometry gives more;
-  * scattering of one beam: Γ_sc = (Ω_b²/4) Σ_J' Γ_J' ⟨a|D(ε)† P_J' D(ε)|a⟩ / Δ_J'²
-    (checked to be the same for ε = x, y, z), two beams twice that;
+  * two-photon amplitude with both time orderings (second-order perturbation
+    theory, beam 1 absorbed, beam 2 emitted, d₊(ε) = dip(ε) the raising part):
+        M = Σ_J' ⟨b| dip(ε₂)† P_J' dip(ε₁) |a⟩ / Δ_J'            (absorb 1 first)
+          + Σ_J' ⟨b| dip(ε₁*)† P_J' dip(ε₂*) |a⟩ / Δ̃_J'          (emit 2 first)
+    with Δ_J' = 2π(ν_L − ν_J' + E_a/h) and Δ̃_J' = 2π(−ν_L − ν_J' + E_a/h) the
+    energy denominators of the two intermediate states; the RWA value keeps the
+    first line only. Ω_R = (Ω_b²/2)|M| for equal beam Rabi frequencies Ω_b, with
+    the best linear geometry (ε₁ = z, ε₂ = x for |Δm| = 1; ε₁ = x, ε₂ = y for
+    Δm = 0, bias along z); the script checks on random pairs of real
+    polarisations that no geometry gives more;
+  * light shift of one beam linearly polarised along z: ħ(Ω_b²/4) M(z, z, a → a);
+  * scattering of one beam (Kramers–Heisenberg): the amplitude to any ground
+    state g' emitting polarisation e_q is the same two-ordering operator T_q
+    with ε₁ = ε, ε₂ = e_q; Γ_sc = (Ω_b²/4) Γ(ω) Σ_q ‖T_q |a⟩‖² (the sum over the
+    full ground space and the three Cartesian e_q is the dipole pattern summed
+    over directions and polarisations), Γ(ω) = (Γ̄/ω̄³)ω³ the emission rate of
+    the doublet's one dipole at the light's frequency; checked to be the same
+    for ε = x, y, z; two beams twice that. The normalisation is checked inside:
+    the RWA part alone of this sum equals Σ_J' ⟨a|dip(ε)† P_J' dip(ε)|a⟩/Δ_J'².
+    The RWA scattering is (Ω_b²/4) Σ_J' Γ_J' ⟨a|dip(ε)† P_J' dip(ε)|a⟩/Δ_J'² (each
+    line with its own Γ, the earlier model);
   * the beam Rabi frequency per intensity, Ω_b²/I = 6πc²Γ̄/(ħω̄³) with
     Γ̄/ω̄³ = (Γ₁/ω₁³ + 2Γ₂/ω₂³)/3 (the strength convention of the Go model).
 
@@ -66,12 +80,17 @@ CASES = [
     ("Rb87", 804e-9, (1, 0), (1, -1), 10.0),
     ("Rb87", 785e-9, (1, 0), (1, -1), 10.0),
     ("Rb87", 1064e-9, (1, 0), (1, -1), 10.0),
+    ("Rb87", 1064e-9, (2, 2), (2, 1), 3.0),
+    ("Rb87", 1560e-9, (1, 0), (1, -1), 10.0),
+    ("Rb87", 1550e-9, (1, -1), (2, -1), 1.0),
+    ("Rb87", 532e-9, (1, 0), (1, -1), 10.0),
     ("Rb87", 790e-9, (2, 2), (2, 1), 3.0),
     ("Rb87", 790e-9, (2, -1), (2, 0), 200.0),
     ("Rb87", 790e-9, (1, 0), (2, 0), 1.0),
     ("Rb87", 790e-9, (1, -1), (2, -2), 1.0),
     ("Na23", 589.5e-9, (1, 0), (1, -1), 20.0),
     ("K39", 768.9e-9, (1, -1), (1, 0), 30.0),
+    ("K39", 1064e-9, (1, -1), (1, 0), 30.0),
     ("Li7", 671.2e-9, (2, 2), (2, 1), 5.0),
 ]
 
@@ -151,17 +170,28 @@ def case(atom, lam, up, down, bias_g):
     det1 = nuL - nu1 + Ea / H
     det2 = nuL - nu2 + Ea / H
     D1, D2 = 2 * math.pi * det1, 2 * math.pi * det2
+    # counter-rotating intermediate state: E_a − ħω_L − E_J'
+    C1, C2 = 2 * math.pi * (-nuL - nu1 + Ea / H), 2 * math.pi * (-nuL - nu2 + Ea / H)
     G1, G2 = 2 * math.pi * g1, 2 * math.pi * g2
+    strength = (G1 / (2 * math.pi * nu1) ** 3 + 2 * G2 / (2 * math.pi * nu2) ** 3) / 3
+    gamma_w = strength * (2 * math.pi * nuL) ** 3  # Γ(ω)
+    Prwa = P12 / D1 + P32 / D2
+    Pcr = P12 / C1 + P32 / C2
 
-    def amp(e1, e2):
-        d1, d2 = dip(e1), dip(e2)
-        return b.conj() @ (d2.conj().T @ (P12 / D1 + P32 / D2) @ d1) @ a
+    def op(e1, e2, rwa=False):
+        """two-photon operator on the ground space: absorb e1, emit e2."""
+        e1, e2 = np.asarray(e1, dtype=complex), np.asarray(e2, dtype=complex)
+        t = dip(e2).conj().T @ Prwa @ dip(e1)
+        if not rwa:
+            t = t + dip(e1.conj()).conj().T @ Pcr @ dip(e2.conj())
+        return t
+
+    def amp(e1, e2, rwa=False):
+        return b.conj() @ op(e1, e2, rwa) @ a
 
     dm = down[1] - up[1]
-    if dm == 0:
-        best = amp((1, 0, 0), (0, 1, 0))
-    else:
-        best = amp((0, 0, 1), (1, 0, 0))
+    geo = ((1, 0, 0), (0, 1, 0)) if dm == 0 else ((0, 0, 1), (1, 0, 0))
+    best, best_rwa = amp(*geo), amp(*geo, rwa=True)
     rng = np.random.default_rng(7)
     worst_ratio = 0.0
     for _ in range(200):
@@ -170,12 +200,24 @@ def case(atom, lam, up, down, bias_g):
         worst_ratio = max(worst_ratio, abs(amp(e1, e2)) / abs(best))
     assert worst_ratio <= 1 + 1e-9, ("a random geometry beats the best one", worst_ratio)
     rabi_per_beam_sq = abs(best) / 2  # Ω_R / Ω_b² (1/(rad/s))
-    sc = []
-    for e in ((1, 0, 0), (0, 1, 0), (0, 0, 1)):
+    rabi_per_beam_sq_rwa = abs(best_rwa) / 2
+    z = (0, 0, 1)
+    shift = np.real(a.conj() @ op(z, z) @ a) / 4  # ΔE/(ħΩ_b²), 1/(rad/s)
+    shift_rwa = np.real(a.conj() @ op(z, z, rwa=True) @ a) / 4
+    cart = ((1, 0, 0), (0, 1, 0), (0, 0, 1))
+    sc, sc_rwa = [], []
+    for e in cart:
+        full = sum(np.linalg.norm(op(e, q) @ a) ** 2 for q in cart)
+        rwa_part = sum(np.linalg.norm(op(e, q, rwa=True) @ a) ** 2 for q in cart)
         d = dip(e)
-        sc.append(np.real(a.conj() @ (d.conj().T @ (G1 * P12 / D1**2 + G2 * P32 / D2**2) @ d) @ a) / 4)
-    assert max(sc) - min(sc) <= 1e-12 * max(sc), sc
+        incoh = np.real(a.conj() @ (d.conj().T @ (P12 / D1**2 + P32 / D2**2) @ d) @ a)
+        assert abs(rwa_part - incoh) <= 1e-9 * incoh, (rwa_part, incoh)
+        sc.append(gamma_w * full / 4)
+        sc_rwa.append(np.real(a.conj() @ (d.conj().T @ (G1 * P12 / D1**2 + G2 * P32 / D2**2) @ d) @ a) / 4)
+    for v in (sc, sc_rwa):
+        assert max(v) - min(v) <= 1e-9 * max(v), v
     scatter_per_beam_sq = 2 * sc[0]  # both beams, per Ω_b²
+    scatter_per_beam_sq_rwa = 2 * sc_rwa[0]
     # spin matrix element |⟨b|σ_q|a⟩| from the eigenvectors (σ = 2S)
     sp = Sg[0] + 1j * Sg[1]  # 2 S_+ = σ_x + iσ_y; σ_+ = S_+
     if dm == 1:
@@ -184,11 +226,13 @@ def case(atom, lam, up, down, bias_g):
         s = abs(b.conj() @ (sp.conj().T @ a))
     else:
         s = abs(b.conj() @ (2 * Sg[2] @ a))
-    strength = (G1 / (2 * math.pi * nu1) ** 3 + 2 * G2 / (2 * math.pi * nu2) ** 3) / 3
     rabi_sq_per_intensity = 6 * math.pi * C**2 * strength / HBAR
     out = dict(atom=atom, wavelength_m=lam, up=list(up), down=list(down), bias_T=B,
                detuning_d1_hz=det1, detuning_d2_hz=det2, matrix_element=float(s),
                rabi_over_beam_rabi_sq=float(rabi_per_beam_sq), scatter_per_rabi=float(scatter_per_beam_sq / rabi_per_beam_sq),
+               rabi_over_beam_rabi_sq_rwa=float(rabi_per_beam_sq_rwa),
+               scatter_per_rabi_rwa=float(scatter_per_beam_sq_rwa / rabi_per_beam_sq_rwa),
+               shift_over_beam_rabi_sq=float(shift), shift_over_beam_rabi_sq_rwa=float(shift_rwa),
                rabi_sq_per_intensity=rabi_sq_per_intensity, two_photon_hz=abs(Eb - Ea) / H)
     if up[0] == down[0]:
         F = up[0]
@@ -235,9 +279,10 @@ def main():
                     print("case %s: committed %s = %r, recomputed %r" % (n["atom"], k, o[k], v))
         print("compared with the committed", os.path.basename(OUT))
     for c in cases:
-        print("%-5s λ=%.1f nm %s→%s B=%.4g G: s=%.6f Δ1=%.6g GHz Δ2=%.6g GHz Γsc/Ω=%.6g" % (
+        print("%-5s λ=%.1f nm %s→%s B=%.4g G: s=%.6f Δ1=%.6g GHz Δ2=%.6g GHz Γsc/Ω=%.6g (RWA %.6g) Ω/Ω_b² full/RWA=%.6f shift full/RWA=%.6f" % (
             c["atom"], c["wavelength_m"] * 1e9, c["up"], c["down"], c["bias_T"] / GAUSS, c["matrix_element"],
-            c["detuning_d1_hz"] / 1e9, c["detuning_d2_hz"] / 1e9, c["scatter_per_rabi"]))
+            c["detuning_d1_hz"] / 1e9, c["detuning_d2_hz"] / 1e9, c["scatter_per_rabi"], c["scatter_per_rabi_rwa"],
+            c["rabi_over_beam_rabi_sq"] / c["rabi_over_beam_rabi_sq_rwa"], c["shift_over_beam_rabi_sq"] / c["shift_over_beam_rabi_sq_rwa"]))
     if not ok:
         print("ref_raman: FAILED")
         sys.exit(1)
