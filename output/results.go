@@ -148,9 +148,9 @@ func (w *Writer) WriteRaman(p dispersion.Raman, r dispersion.RamanResult) {
 	w.Scalar(o+"spin_matrix_element", r.MatrixElement, "dimensionless", "|<↓|σ_q|↑>| of the Breit–Rabi states (1 without a pair)")
 	w.Scalar(o+"beam_intensity", r.BeamIntensity, "W/m^2", "intensity of each beam for Ω (equal beams, orthogonal linear polarisations)")
 	w.Scalar(o+"beam_rabi", r.BeamRabiHz, "Hz", "single-beam Rabi frequency on the D-line doublet")
-	w.Scalar(o+"scattering_rate", r.ScatterRate, "1/s", "photon scattering rate of both beams, far-detuned D1 + D2 (weights 1/3, 2/3)")
+	w.Scalar(o+"scattering_rate", r.ScatterRate, "1/s", "photon scattering rate of both beams, far-detuned D1 + D2 (weights 1/3, 2/3), both time orderings (no RWA)")
 	w.Scalar(o+"scattering_per_rabi", r.ScatterPerRabi, "dimensionless", "Γ_sc/Ω (Ω in rad/s)")
-	w.Scalar(o+"scattering_per_rabi_far_detuned", r.FineStructureLimit, "dimensionless", "Γ_sc/Ω for detuning ≫ fine structure, (Γ1 + 2Γ2)/(s Δ_FS)")
+	w.Scalar(o+"scattering_per_rabi_far_detuned", r.FineStructureLimit, "dimensionless", "Γ_sc/Ω for detuning ≫ fine structure at this wavelength, 3Γ̄(ω/ω̄)²/(s Δ_FS) (RWA: (Γ1 + 2Γ2)/(s Δ_FS))")
 	w.Scalar(o+"heating", r.HeatingER, "E_R/s", "heating rate estimate, 2E_rec per scattered photon")
 	w.writeWarnings("/results", r.Warnings)
 }

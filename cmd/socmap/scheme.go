@@ -230,7 +230,8 @@ func ramanJSON(p dispersion.Raman, r dispersion.RamanResult, info dispersion.Ban
 		"spin_matrix_element": r.MatrixElement, "beam_intensity_W_per_m2": n(r.BeamIntensity), "beam_rabi_hz": n(r.BeamRabiHz),
 		"scattering_rate_per_s": r.ScatterRate, "scattering_per_rabi": n(r.ScatterPerRabi),
 		"scattering_per_rabi_far_detuned": n(r.FineStructureLimit), "heating_ER_per_s": r.HeatingER,
-		"scattering_model": "far-detuned D1 + D2 (weights 1/3, 2/3, detunings from ↑), equal beam intensities, orthogonal linear polarisations",
+		"scattering_per_rabi_rwa": n(r.ScatterPerRabiRWA), "beam_intensity_rwa_W_per_m2": n(r.BeamIntensityRWA),
+		"scattering_model": "far-detuned D1 + D2 (weights 1/3, 2/3, detunings from ↑), both time orderings (no rotating-wave approximation), equal beam intensities, orthogonal linear polarisations",
 		"minima":           minimaJSON(info), "barrier_over_ER": info.Barrier,
 		"warnings": w, "warning_codes": wc, "cautions": []string{cautionLasers},
 	}
@@ -273,7 +274,7 @@ func ramanTable(p dispersion.Raman, r dispersion.RamanResult, info dispersion.Ba
 			t.RowNote("isolation δ₃/Ω₃", N(r.Isolation, 3), "", fmt.Sprintf("(want ≥ %g; largest leakage Ω₃²/(Ω₃² + δ₃²) = %s)", dispersion.NeighbourSeparation, N(r.Leakage, 2)))
 		}
 	}
-	t.Section("Photon scattering (far-detuned D1 + D2, weights 1/3 and 2/3)")
+	t.Section("Photon scattering (far-detuned D1 + D2, weights 1/3 and 2/3, both time orderings)")
 	from := "↑"
 	if !p.HasPair() {
 		from = "the ground centre of gravity (no pair given)"
@@ -287,7 +288,10 @@ func ramanTable(p dispersion.Raman, r dispersion.RamanResult, info dispersion.Ba
 	t.RowNote("intensity of each beam", N(r.BeamIntensity*1e-4, 4), "W/cm²", "(equal beams, orthogonal linear polarisations)")
 	t.Row("single-beam Rabi frequency", N(r.BeamRabiHz/1e6, 4), "MHz")
 	t.Row("scattering rate Γ_sc (both beams)", N(r.ScatterRate, 3), "1/s")
-	t.RowNote("Γ_sc/Ω", N(r.ScatterPerRabi, 3), "", "far-detuned floor (Γ₁ + 2Γ₂)/(s Δ_FS) = "+N(r.FineStructureLimit, 3))
+	t.RowNote("Γ_sc/Ω", N(r.ScatterPerRabi, 3), "", "far from both lines 3Γ̄(ω/ω̄)²/(s Δ_FS) = "+N(r.FineStructureLimit, 3))
+	if c := r.ScatterPerRabi/r.ScatterPerRabiRWA - 1; math.Abs(c) >= 0.01 {
+		t.RowNote("… in the rotating-wave approximation", N(r.ScatterPerRabiRWA, 3), "", fmt.Sprintf("(each beam %s W/cm²; the counter-rotating terms change Γ_sc/Ω by %+.0f %%)", N(r.BeamIntensityRWA*1e-4, 4), 100*c))
+	}
 	t.Row("heating ≈ 2E_rec per photon", N(r.HeatingER, 3), "E_R/s")
 	for _, w := range r.Warnings {
 		t.Text("! " + w.Text)
