@@ -69,7 +69,7 @@ import "math"
 // the counter-rotating terms is |Δ|/2ω in the scalar part near a line (0.3 %
 // at 2 THz for 87Rb) and only ~|Δ₁Δ₂|/4ω² in the vector part between the
 // lines (2e-5 at 790 nm): the rank-1 difference of the lines, 1/Δ₁ − 1/Δ₂ ≈
-// −Δ_FS/Δ², gains −Δ_FS/Δ̃², small near the lines. At 1064 nm for 87Rb the
+// −Δ_FS/Δ², gains +Δ_FS/Δ̃², small near the lines. At 1064 nm for 87Rb the
 // scalar shift is 15 % deeper than the RWA's and the vector part 2.2 %
 // weaker; at 1560 nm +33 % and −11 %. The vector part still cancels between
 // the lines for |Δ| ≫ the fine-structure splitting Δ_FS: u_v ∝ −Δ_FS(1/Δ² −
@@ -105,10 +105,9 @@ import "math"
 // 87Rb would be 3 % larger at 1064 nm, 5 % at 1560 nm, 0.09 % at 790 nm),
 // higher P states and the core polarisability (their size is not computed
 // here; they matter most in the vector part where the D lines cancel), the
-// rank-2 (tensor) part that a
-// resolved excited hyperfine structure adds, the two-photon frequency beside
-// ω in the denominators and the emitted frequency (ω_s = ω ± the ground
-// hyperfine splitting, 2e-5 relative).
+// rank-2 (tensor) part that a resolved excited hyperfine structure adds, the
+// two-photon frequency beside ω in the denominators and the emitted
+// frequency (ω_s = ω ± the ground hyperfine splitting, 2e-5 relative).
 
 // Excited-state hyperfine structure needed before the line counts as
 // unresolved; see NearResonant.
