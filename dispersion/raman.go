@@ -119,7 +119,7 @@ type RamanResult struct {
 // own Γ) Γ_sc/Ω = (Γ₁/Δ₁² + 2Γ₂/Δ₂²) / (s |1/Δ₁ − 1/Δ₂|): near one line
 // 2Γ/(s|Δ|) (D2) or Γ/(s|Δ|) (D1). Far from both lines (|Δ| ≫ Δ_FS),
 // a_v ≈ (Δ_FS/3)|1/Δ² − 1/Δ̃²| and a_s ≈ 1/Δ + 1/Δ̃, so Γ_sc/Ω → 3Γ(ω)/(sΔ_FS)
-// · (Δ + Δ̃)/(Δ − Δ̃) = 3Γ̄(ω/ω̄)²/(sΔ_FS) (Δ + Δ̃ = −2ω̄, Δ − Δ̃ = 2ω): the RWA
+// · |Δ + Δ̃|/|Δ − Δ̃| = 3Γ̄(ω/ω̄)²/(sΔ_FS) (Δ + Δ̃ = −2ω̄, Δ − Δ̃ = 2ω): the RWA
 // floor (Γ₁ + 2Γ₂)/(sΔ_FS) times (ω/ω̄)², 0.54 at 1064 nm for 87Rb. Warnings:
 // WarnNearResonant when either |Δ_J'| is below NearResonanceLinewidths·Γ_J'
 // or NearResonanceHFS times the hyperfine structure the model leaves out.
