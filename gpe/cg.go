@@ -23,6 +23,16 @@ const RefreshEvery = 25
 // computed in one pass, so θ is found by an exact one-dimensional search
 // without further transforms. Each iteration costs four FFTs. The fixed
 // point is the exact discrete stationary state H[ψ]ψ = μψ.
+//
+// Conditioning in a trap: the phase modes iφψ of a Thomas–Fermi cloud are
+// soft, e.g. φ = x has the preconditioned Rayleigh quotient
+// ρ ≈ 5b/(2αR²) (b ≈ 2 the band curvature, R = 2√μ/ω_x; 1D,
+// TestPhaseModeConditioning), while the density mode reaches 2gn/α ≈ 2, so
+// κ ≳ 1.6 μ²/ω_x² and CG needs ≈ 1.15√κ iterations per decade of the
+// residual (μ = 330 E_R, ω = 0.25: ≈ 1900, as measured). In a harmonic trap
+// the finisher therefore takes a phase step (phaseStep, the exact kinetic
+// minimiser over phases φ(x)) every Settings.PhaseEvery iterations while it
+// lowers the energy, restarting the recursion after each.
 func (e *engine) cg(set Settings, hist func(Energies)) (int, Status) {
 	e.cgSums = true
 	defer func() { e.cgSums = false }()
@@ -42,6 +52,7 @@ func (e *engine) cg(set Settings, hist func(Energies)) (int, Status) {
 	N := e.m.Norm
 	fn := float64(e.n)
 	var lm lineModel
+	phaseOn := e.phase != nil && set.PhaseEvery > 0
 	for it := 1; it <= set.MaxIter; it++ {
 		if set.isCanceled() {
 			return it - 1, canceled
@@ -98,8 +109,87 @@ func (e *engine) cg(set Settings, hist func(Energies)) (int, Status) {
 			return it, Converged
 		}
 		prevE = en.Total
+		if phaseOn && it%set.PhaseEvery == 0 {
+			var lower bool
+			en, lower = e.phaseStep(en)
+			phaseOn = lower
+			prevE = en.Total
+			restart = true
+		}
 	}
 	return set.MaxIter, MaxIterations
+}
+
+// phaseStep (harmonic trap; between finisher iterations): for a common phase
+// ψ_σ → e^{iφ}ψ_σ the density, and with it the potential, Rabi, detuning
+// and interaction energies, is unchanged, and the kinetic energy
+// Σ_σ∫|(−i∇ − σ_z x̂)ψ_σ|² changes exactly by ∫(2∇φ·j + n|∇φ|²) with the
+// current j = Σ_σ Re ψ_σ*(−i∇ − σ_z x̂)ψ_σ (expand |e^{iφ}(∇φ + (−i∇ − σ_z x̂))ψ|²).
+// Over phases φ(x) of x alone the minimiser is φ'(x) = −J(x)/D(x), J and D
+// the transverse integrals of j_x and n (exact in 1D: the ground state
+// carries no current). Phase modes are the soft modes the kinetic
+// preconditioner leaves (see cg; measured at N = 2e6, μ ≈ 330 E_R: half the
+// excess energy after 2800 iterations is in the common phase;
+// DEVELOPERS.md, "Convergence of large clouds"). Discretely φ is the trapezoid integral of φ' (D regularised by
+// 1e-8 of its maximum) and j uses the spectral derivative of the current
+// ψ̂, so the step is not exact on the grid: it is kept only if the energy
+// falls (else ψ is restored). Costs one FFT pair and one evaluation (two
+// when it is not kept); runs serially (deterministic for any thread count). Our own construction. Uses px and pk as
+// scratch: the caller restarts the conjugate-gradient recursion.
+func (e *engine) phaseStep(en Energies) (Energies, bool) {
+	g := e.g
+	nx := g.N[0]
+	inner := e.n / nx
+	inv := 1 / float64(e.n)
+	sz := [2]float64{+1, -1}
+	for c := 0; c < 2; c++ {
+		for idx, h := range e.hat[c] {
+			e.px[c][idx] = h * complex((g.K[0][idx/inner]-sz[c])*inv, 0)
+		}
+	}
+	e.fftPair(opBwdP)
+	J, D, P := e.phase[:nx], e.phase[nx:2*nx], e.phase[2*nx:]
+	clear(J)
+	clear(D)
+	for c := 0; c < 2; c++ {
+		for idx, p := range e.psi[c] {
+			q := e.px[c][idx]
+			i := idx / inner
+			J[i] += real(p)*real(q) + imag(p)*imag(q)
+			D[i] += abs2(p)
+		}
+	}
+	dmax := 0.0
+	for _, d := range D {
+		dmax = math.Max(dmax, d)
+	}
+	prev := 0.0
+	for i := range P {
+		d := -J[i] / (D[i] + 1e-8*dmax)
+		if i == 0 {
+			P[0] = 0
+		} else {
+			P[i] = P[i-1] + g.Dx[0]*(d+prev)/2
+		}
+		prev = d
+	}
+	for i, ph := range P {
+		J[i], D[i] = math.Cos(ph), math.Sin(ph)
+	}
+	for c := 0; c < 2; c++ {
+		copy(e.pk[c], e.psi[c])
+		for idx := range e.psi[c] {
+			i := idx / inner
+			e.psi[c][idx] *= complex(J[i], D[i])
+		}
+	}
+	en2 := e.evaluate()
+	if en2.Total < en.Total && !bad(en2) {
+		return en2, true
+	}
+	copy(e.psi[0], e.pk[0])
+	copy(e.psi[1], e.pk[1])
+	return e.evaluate(), false
 }
 
 func statusAt(en Energies, set Settings) Status {

@@ -84,6 +84,8 @@ type engine struct {
 
 	psi, hat, w, px, pk, gk [2][]complex128
 
+	phase []float64 // 3·N_x scratch of phaseStep (harmonic trap only)
+
 	acc   [][accN]float64
 	sum   [accN]float64
 	k2sum [9]float64 // the sums of the last opK2
@@ -157,6 +159,9 @@ func newEngine(g *Grid, m Model, pf perf) (*engine, error) {
 	sz := [2]float64{+1, -1} // σ_z of ↑, ↓
 	if m.Potential.Kind != NoPotential {
 		e.V = make([]float64, e.n)
+	}
+	if m.Potential.Kind == Harmonic {
+		e.phase = make([]float64, 3*g.N[0])
 	}
 	for idx := 0; idx < e.n; idx++ {
 		i, j, l := g.Coords(idx)

@@ -121,6 +121,18 @@ func TestZeroAllocs(t *testing.T) {
 			}
 			e.close()
 		}
+		// in a harmonic trap, with a phase step (phaseStep) after every iteration
+		p.Model.Potential = Potential{Kind: Harmonic, AngularFreq: [3]float64{0.05, 0.05}}
+		for _, mode := range []FFTMode{FFTSerial, FFTAuto} {
+			e := newTestEngine(t, p, Guess{Kind: GuessStripe, K: 0.9}, perf{fftMode: mode})
+			_ = e.normalize()
+			set := (&Settings{MaxIter: 3, Tol: 1e-300, PhaseEvery: 1}).withDefaults()
+			nop := func(Energies) {}
+			if a := minAllocs(func() { e.cg(set, nop) }); a != 0 {
+				t.Errorf("%v trapped, mode %v: finisher with phase steps allocates %v per 3 iterations", pts, mode, a)
+			}
+			e.close()
+		}
 	}
 }
 
