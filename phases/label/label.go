@@ -30,13 +30,18 @@ const (
 	UnderResolved Phase = 6
 	// Codes of the spin-1 (three-level) theory, after UnderResolved.
 	Stripe3           Phase = 7 // three momenta (three band minima), total density modulated
-	BrokenAxisymmetry Phase = 8 // three momenta, uniform total density, transverse magnetisation (Ω = 0 limit: Ho's broken-axisymmetry phase)
-	Antiferromagnetic Phase = 9 // two momenta, uniform total density (Ω = 0 limit: the ±1 mixture of an antiferromagnetic gas)
+	BrokenAxisymmetry Phase = 8 // two or three momenta, uniform total density, partial local order with a transverse part (Ω = 0 limit: Ho's broken-axisymmetry phase)
+	Antiferromagnetic Phase = 9 // two momenta, uniform total density, no local order beyond ⟨F⟩ = (0, 0, M) (Ω = 0 limit: the ±1 mixture of an antiferromagnetic gas)
+	// SpinHelix: two or more momenta, uniform total density, locally fully
+	// magnetised (|⟨F⟩| ≈ n everywhere) with order beyond a uniform
+	// longitudinal magnetisation: a ferromagnetic texture whose spin
+	// direction turns along x in the frame of the model (see Spin1Name).
+	SpinHelix Phase = 10
 )
 
 // Spin1Codes lists the codes only the three-level theory produces (kept out
 // of All so that the legends of pseudo-spin maps stay as they are).
-var Spin1Codes = []Phase{Stripe3, BrokenAxisymmetry, Antiferromagnetic}
+var Spin1Codes = []Phase{Stripe3, BrokenAxisymmetry, Antiferromagnetic, SpinHelix}
 
 // All lists every code in order, for legends.
 var All = []Phase{NotComputed, SingleMinimum, PlaneWave, Stripe, NotConverged, NoCoupling, UnderResolved}
@@ -64,6 +69,8 @@ func (p Phase) String() string {
 		return "broken-axisymmetry"
 	case Antiferromagnetic:
 		return "antiferromagnetic"
+	case SpinHelix:
+		return "spin-helix"
 	}
 	return fmt.Sprintf("phase(%d)", int8(p))
 }
@@ -134,4 +141,69 @@ func Classify(f Features, t Thresholds) Phase {
 		return Stripe
 	}
 	return PlaneWave
+}
+
+// Spin1Order is the local spin order of a spin-1 state, from averages over
+// x (the whole period of a variational state, the central region of a
+// numerical one). Both quantities are unchanged by the gauge transformations
+// ψ_m → e^{iK_m x}ψ_m with K_m linear in m and by rotations about z.
+type Spin1Order struct {
+	// Local: L = ⟨|F|²⟩/⟨n²⟩, |F|² = F_x² + F_y² + F_z² of the local spin
+	// density F_α = ψ†F_αψ. 0 ≤ L ≤ 1; L = 1 exactly when |⟨F⟩| = n wherever
+	// n ≠ 0 (a locally ferromagnetic spinor), L = M² for the ±1 mixture of
+	// magnetisation M (F = (0, 0, M n) everywhere), L = 0 for a polar state.
+	Local float64
+	// Fz: ⟨F_z⟩/⟨n⟩, the longitudinal magnetisation per particle.
+	Fz float64
+}
+
+// Texture returns L − F_z², the local order not accounted for by a uniform
+// longitudinal magnetisation (0 for the ±1 mixture; 1 − F_z² for a helix of
+// full local order turning about z).
+func (o Spin1Order) Texture() float64 { return o.Local - o.Fz*o.Fz }
+
+// Thresholds of the spin-1 naming (choices of this project: common
+// practice, no source).
+const (
+	// Spin1FerroOrder: a state with L ≥ Spin1FerroOrder is locally
+	// ferromagnetic (rms |⟨F⟩|/n ≥ 0.995). Set close to 1 so that the
+	// broken-axisymmetry phase keeps its name down to q ≈ 0.2|c2|n at
+	// Ω = 0 (there L = 1 − (q/2|c2|n)², derived from ρ0 = 1/2 + q/(4|c2|n)).
+	Spin1FerroOrder = 0.99
+	// Spin1TextureOrder: a state whose order beyond the longitudinal
+	// magnetisation, L − F_z², is below this has F ≈ (0, 0, M) locally.
+	Spin1TextureOrder = 0.05
+)
+
+// Spin1Name names a spin-1 state of waves momenta (the waves or momentum
+// peaks that count, ≥ 1) from its density modulation and local spin order;
+// oneMinimum: the lowest band has a single minimum. The rule:
+//
+//   - one momentum: SingleMinimum when the band has one minimum, else
+//     PlaneWave;
+//   - density modulated (!uniform): Stripe (two momenta), Stripe3 (three);
+//   - uniform density, L ≥ Spin1FerroOrder and L − F_z² ≥
+//     Spin1TextureOrder: SpinHelix (a locally ferromagnetic texture: a
+//     uniform density with several momenta and |⟨F⟩| = n needs the spin
+//     direction to turn along x);
+//   - uniform density, two momenta, L − F_z² < Spin1TextureOrder:
+//     Antiferromagnetic (locally F = (0, 0, M), the ±1 mixture);
+//   - otherwise uniform: BrokenAxisymmetry (partial local order with a
+//     transverse part).
+func Spin1Name(waves int, oneMinimum, uniform bool, o Spin1Order) Phase {
+	switch {
+	case waves <= 1 && oneMinimum:
+		return SingleMinimum
+	case waves <= 1:
+		return PlaneWave
+	case !uniform && waves == 2:
+		return Stripe
+	case !uniform:
+		return Stripe3
+	case o.Local >= Spin1FerroOrder && o.Texture() >= Spin1TextureOrder:
+		return SpinHelix
+	case waves == 2 && o.Texture() < Spin1TextureOrder:
+		return Antiferromagnetic
+	}
+	return BrokenAxisymmetry
 }

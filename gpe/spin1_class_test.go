@@ -1,0 +1,103 @@
+package gpe
+
+import (
+	"math"
+	"math/cmplx"
+	"testing"
+
+	"socmap/dispersion"
+	"socmap/phases/label"
+)
+
+// Spin1Observe names hand-built states by their density modulation and
+// local spin order (label.Spin1Name), in a periodic box and in a harmonic
+// trap (central region). The states, derived here from F_z = |ψ₊₁|² −
+// |ψ₋₁|², F_+ = √2(ψ₊₁*ψ₀ + ψ₀*ψ₋₁):
+//
+//   - helix: the ferromagnetic spinor ζ = (cos²(β/2), sin β/√2, sin²(β/2))
+//     (|F| = 1, F_z = cos β; T.-L. Ho, Phys. Rev. Lett. 81, 742 (1998))
+//     rotated about z along x, ψ_m = ζ_m e^{ik_m x}: |F| = n everywhere,
+//     uniform density;
+//   - the ±1 mixture of magnetisation M, ψ₊₁ ∝ √((1+M)/2) e^{ik₊x},
+//     ψ₋₁ ∝ √((1−M)/2) e^{ik₋x}: F = (0, 0, M) n (the antiferromagnetic gas
+//     at fixed M, D. M. Stamper-Kurn and M. Ueda, Rev. Mod. Phys. 85, 1191
+//     (2013));
+//   - a density stripe, ψ₀ ∝ e^{ik₁x} + e^{ik₂x}, contrast 1.
+//
+// In the trap each is multiplied by a Gaussian envelope; before the rule
+// used the local order, every trapped state of two momenta was a stripe.
+func TestSpin1ObserveLocalOrder(t *testing.T) {
+	const beta, M = 1.0, 0.3
+	c, s := math.Cos(beta/2), math.Sin(beta/2)
+	zeta := [3]float64{c * c, math.Sin(beta) / math.Sqrt2, s * s}
+	ks := [3]float64{-1, 0.5, 2}
+	helix := func(x float64) [3]complex128 {
+		var p [3]complex128
+		for m := range p {
+			p[m] = complex(zeta[m], 0) * cmplx.Exp(complex(0, ks[m]*x))
+		}
+		return p
+	}
+	mixture := func(x float64) [3]complex128 {
+		return [3]complex128{complex(math.Sqrt((1+M)/2), 0) * cmplx.Exp(complex(0, ks[0]*x)), 0,
+			complex(math.Sqrt((1-M)/2), 0) * cmplx.Exp(complex(0, ks[2]*x))}
+	}
+	stripe := func(x float64) [3]complex128 {
+		return [3]complex128{0, (cmplx.Exp(complex(0, ks[0]*x)) + cmplx.Exp(complex(0, ks[2]*x))) / complex(math.Sqrt2, 0), 0}
+	}
+	d := dispersion.RamanSpin1(0.2, 0, 0) // three minima
+	states := []struct {
+		name       string
+		psi        func(float64) [3]complex128
+		box, trap  label.Phase
+		wantL, wFz float64
+	}{
+		{"helix", helix, label.SpinHelix, label.SpinHelix, 1, math.Cos(beta)},
+		{"±1 mixture", mixture, label.Antiferromagnetic, label.Antiferromagnetic, M * M, M},
+		{"stripe", stripe, label.Stripe, label.Stripe, 0, 0},
+	}
+	for _, trapped := range []bool{false, true} {
+		var g *Grid
+		var p Spin1Problem
+		const sigma = 15.0
+		if trapped {
+			g = MustGrid([]int{512}, []float64{64 * math.Pi}) // Δk = 1/32 k_R
+			m := Spin1FromDispersion(d)
+			m.C0, m.C2, m.Norm = 1, -0.1, 1
+			m.Potential = Potential{Kind: Harmonic, AngularFreq: [3]float64{0.01}}
+			p = Spin1Problem{Grid: g, Model: m}
+		} else {
+			g = MustGrid([]int{128}, []float64{8 * math.Pi}) // Δk = 1/4 k_R
+			p = Spin1Problem{Grid: g, Model: Spin1UniformBox(g, d, 1, -0.1)}
+		}
+		for _, c := range states {
+			st := NewSpin1State(g)
+			for i, x := range g.X[0] {
+				env := 1.0
+				if trapped {
+					env = math.Exp(-x * x / (2 * sigma * sigma))
+				}
+				v := c.psi(x)
+				for m := range v {
+					st.Psi[m][i] = complex(env, 0) * v[m]
+				}
+			}
+			ob, err := Spin1Observe(p, &Spin1Result{Status: Converged, State: st}, d, label.DefaultThresholds)
+			if err != nil {
+				t.Fatal(err)
+			}
+			want := c.box
+			if trapped {
+				want = c.trap
+			}
+			t.Logf("trapped %v, %s: %v, L = %.12f, F_z = %.12f, contrast %.3g, density rms %.3g, peaks %.3g at %.3g",
+				trapped, c.name, ob.Phase, ob.LocalOrder, ob.CentralFz, ob.Contrast, ob.DensityRMS, ob.PeakWeight, ob.PeakK)
+			if ob.Phase != want {
+				t.Errorf("trapped %v, %s: %v, want %v", trapped, c.name, ob.Phase, want)
+			}
+			if c.name != "stripe" && (math.Abs(ob.LocalOrder-c.wantL) > 1e-9 || math.Abs(ob.CentralFz-c.wFz) > 1e-9) {
+				t.Errorf("trapped %v, %s: L %.12g F_z %.12g, want %.12g, %.12g", trapped, c.name, ob.LocalOrder, ob.CentralFz, c.wantL, c.wFz)
+			}
+		}
+	}
+}
