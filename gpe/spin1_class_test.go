@@ -22,7 +22,10 @@ import (
 //     ψ₋₁ ∝ √((1−M)/2) e^{ik₋x}: F = (0, 0, M) n (the antiferromagnetic gas
 //     at fixed M, D. M. Stamper-Kurn and M. Ueda, Rev. Mod. Phys. 85, 1191
 //     (2013));
-//   - a density stripe, ψ₀ ∝ e^{ik₁x} + e^{ik₂x}, contrast 1.
+//   - a density stripe, ψ₀ ∝ e^{ik₁x} + e^{ik₂x}, contrast 1;
+//   - domains: ψ₊₁ = √((1+f)/2) e^{ik₊x}, ψ₋₁ = √((1−f)/2) e^{ik₋x} with
+//     F_z/n = f(x) = −tanh(x/ξ) (trap) or tanh(4 cos(2πx/L)) (periodic box):
+//     F_+ = 0, F_z varying in space.
 //
 // In the trap each is multiplied by a Gaussian envelope; before the rule
 // used the local order, every trapped state of two momenta was a stripe.
@@ -45,6 +48,12 @@ func TestSpin1ObserveLocalOrder(t *testing.T) {
 	stripe := func(x float64) [3]complex128 {
 		return [3]complex128{0, (cmplx.Exp(complex(0, ks[0]*x)) + cmplx.Exp(complex(0, ks[2]*x))) / complex(math.Sqrt2, 0), 0}
 	}
+	var domainF func(float64) float64
+	domains := func(x float64) [3]complex128 {
+		f := domainF(x)
+		return [3]complex128{complex(math.Sqrt((1+f)/2), 0) * cmplx.Exp(complex(0, ks[0]*x)), 0,
+			complex(math.Sqrt((1-f)/2), 0) * cmplx.Exp(complex(0, ks[2]*x))}
+	}
 	d := dispersion.RamanSpin1(0.2, 0, 0) // three minima
 	states := []struct {
 		name       string
@@ -54,7 +63,8 @@ func TestSpin1ObserveLocalOrder(t *testing.T) {
 	}{
 		{"helix", helix, label.SpinHelix, label.SpinHelix, 1, math.Cos(beta)},
 		{"±1 mixture", mixture, label.Antiferromagnetic, label.Antiferromagnetic, M * M, M},
-		{"stripe", stripe, label.Stripe, label.Stripe, 0, 0},
+		{"stripe", stripe, label.Stripe, label.Stripe, -1, 0},
+		{"domains", domains, label.SpinDomains, label.SpinDomains, -1, 0},
 	}
 	for _, trapped := range []bool{false, true} {
 		var g *Grid
@@ -66,9 +76,11 @@ func TestSpin1ObserveLocalOrder(t *testing.T) {
 			m.C0, m.C2, m.Norm = 1, -0.1, 1
 			m.Potential = Potential{Kind: Harmonic, AngularFreq: [3]float64{0.01}}
 			p = Spin1Problem{Grid: g, Model: m}
+			domainF = func(x float64) float64 { return -math.Tanh(x / 3) }
 		} else {
 			g = MustGrid([]int{128}, []float64{8 * math.Pi}) // Δk = 1/4 k_R
 			p = Spin1Problem{Grid: g, Model: Spin1UniformBox(g, d, 1, -0.1)}
+			domainF = func(x float64) float64 { return math.Tanh(4 * math.Cos(2*math.Pi*x/g.L[0])) }
 		}
 		for _, c := range states {
 			st := NewSpin1State(g)
@@ -90,13 +102,13 @@ func TestSpin1ObserveLocalOrder(t *testing.T) {
 			if trapped {
 				want = c.trap
 			}
-			t.Logf("trapped %v, %s: %v, L = %.12f, F_z = %.12f, contrast %.3g, density rms %.3g, peaks %.3g at %.3g",
-				trapped, c.name, ob.Phase, ob.LocalOrder, ob.CentralFz, ob.Contrast, ob.DensityRMS, ob.PeakWeight, ob.PeakK)
+			t.Logf("trapped %v, %s: %v, L = %.12f, P = %.3g, F_z = %.12f, contrast %.3g, density rms %.3g, peaks %.3g at %.3g",
+				trapped, c.name, ob.Phase, ob.Order.Local, ob.Order.Transverse, ob.Order.Fz, ob.Contrast, ob.DensityRMS, ob.PeakWeight[:min(4, len(ob.PeakWeight))], ob.PeakK[:min(4, len(ob.PeakK))])
 			if ob.Phase != want {
 				t.Errorf("trapped %v, %s: %v, want %v", trapped, c.name, ob.Phase, want)
 			}
-			if c.name != "stripe" && (math.Abs(ob.LocalOrder-c.wantL) > 1e-9 || math.Abs(ob.CentralFz-c.wFz) > 1e-9) {
-				t.Errorf("trapped %v, %s: L %.12g F_z %.12g, want %.12g, %.12g", trapped, c.name, ob.LocalOrder, ob.CentralFz, c.wantL, c.wFz)
+			if c.wantL >= 0 && (math.Abs(ob.Order.Local-c.wantL) > 1e-9 || math.Abs(ob.Order.Fz-c.wFz) > 1e-9) {
+				t.Errorf("trapped %v, %s: L %.12g F_z %.12g, want %.12g, %.12g", trapped, c.name, ob.Order.Local, ob.Order.Fz, c.wantL, c.wFz)
 			}
 		}
 	}

@@ -149,11 +149,12 @@ type Spin1Observables struct {
 	// Peaks: the k_x of the local maxima of the total distribution with
 	// at least 1e-6 of the atoms, and their weights, largest first.
 	PeakK, PeakWeight []float64
-	// LocalOrder: the local spin order L = Σ|F|²/Σn² (label.Spin1Order)
-	// and CentralFz = ΣF_z/Σn, over the grid in a periodic box, over the
-	// central region (spin1CentralOrder) in a trap or hard box.
-	LocalOrder, CentralFz float64
-	Phase                 label.Phase
+	// Order: the local spin order L = Σ|F|²/Σn², its transverse part P =
+	// Σ|F_+|²/Σn² and F_z = ΣF_z/Σn (label.Spin1Order), over the grid in a
+	// periodic box, over the central region (spin1CentralOrder) in a trap
+	// or hard box.
+	Order label.Spin1Order
+	Phase label.Phase
 }
 
 // Thresholds of the density modulation in Spin1Observe (choices of this
@@ -167,19 +168,20 @@ const (
 	spin1UniformContrast = math.Sqrt2 * spin1UniformRMS
 )
 
-// spin1CentralOrder returns L = Σ|F|²/Σn² and ΣF_z/Σn of st, |F|² = F_z² +
-// |F_+|² of the local spin density, summed over every grid point, or with
+// spin1CentralOrder returns L = Σ|F|²/Σn², P = Σ|F_+|²/Σn² and ΣF_z/Σn of
+// st, |F|² = F_z² + |F_+|² of the local spin density, summed over every grid
+// point, or with
 // central over the central region of the cloud: the points whose total
 // density is at least half the largest (the Thomas–Fermi core, away from
 // the low-density edge where the spinor heals).
-func spin1CentralOrder(st *Spin1State, central bool) (local, fz float64) {
+func spin1CentralOrder(st *Spin1State, central bool) label.Spin1Order {
 	nmax := 0.0
 	if central {
 		for i := range st.Psi[0] {
 			nmax = math.Max(nmax, abs2(st.Psi[0][i])+abs2(st.Psi[1][i])+abs2(st.Psi[2][i]))
 		}
 	}
-	var f2, n1, n2, z float64
+	var f2, p2, n1, n2, z float64
 	for i := range st.Psi[0] {
 		a, b, c := st.Psi[0][i], st.Psi[1][i], st.Psi[2][i]
 		na, nb, nc := abs2(a), abs2(b), abs2(c)
@@ -189,14 +191,15 @@ func spin1CentralOrder(st *Spin1State, central bool) (local, fz float64) {
 		}
 		fp := complex(math.Sqrt2, 0) * (cmplx.Conj(a)*b + cmplx.Conj(b)*c)
 		f2 += (na-nc)*(na-nc) + abs2(fp)
+		p2 += abs2(fp)
 		z += na - nc
 		n1 += n
 		n2 += n * n
 	}
 	if !(n2 > 0) {
-		return 0, 0
+		return label.Spin1Order{}
 	}
-	return f2 / n2, z / n1
+	return label.Spin1Order{Local: f2 / n2, Transverse: p2 / n2, Fz: z / n1}
 }
 
 // Spin1Observe computes the observables of st and names its phase by the
@@ -209,10 +212,11 @@ func spin1CentralOrder(st *Spin1State, central bool) (local, fz float64) {
 // local spin order L = Σ|F|²/Σn² and F_z are grid sums, over the central
 // region of the cloud in a trap or hard box (n ≥ max n/2,
 // spin1CentralOrder). A uniform state of two or more peaks is then
-// spin-helix (L ≥ label.Spin1FerroOrder, L − F_z² ≥
-// label.Spin1TextureOrder), antiferromagnetic (two peaks, L − F_z² <
-// label.Spin1TextureOrder) or broken-axisymmetry; a modulated one stripe or
-// stripe-3. A state that did not converge is NotConverged.
+// spin-helix (L ≥ label.Spin1FerroOrder, P ≥ label.Spin1TextureOrder),
+// broken-axisymmetry (P ≥ label.Spin1TextureOrder), spin-domains (L − F_z²
+// ≥ label.Spin1TextureOrder: the phase separation of m = ±1),
+// antiferromagnetic (two peaks) or broken-axisymmetry (three); a modulated
+// one stripe or stripe-3. A state that did not converge is NotConverged.
 func Spin1Observe(p Spin1Problem, r *Spin1Result, d dispersion.Spin1Model, th label.Thresholds) (*Spin1Observables, error) {
 	g := p.Grid
 	st := r.State
@@ -332,8 +336,8 @@ func Spin1Observe(p Spin1Problem, r *Spin1Result, d dispersion.Spin1Model, th la
 	if info, err := d.Analyze3(); err == nil {
 		nm = len(info.Minima)
 	}
-	ob.LocalOrder, ob.CentralFz = spin1CentralOrder(st, p.Model.Potential.Kind != NoPotential)
-	ob.Phase = label.Spin1Name(count, nm == 1, uniform, label.Spin1Order{Local: ob.LocalOrder, Fz: ob.CentralFz})
+	ob.Order = spin1CentralOrder(st, p.Model.Potential.Kind != NoPotential)
+	ob.Phase = label.Spin1Name(count, nm == 1, uniform, ob.Order)
 	return ob, nil
 }
 

@@ -351,14 +351,16 @@ func Spin1Variational(u Spin1Uniform, s *Spin1Settings) (Spin1Result, error) {
 //  3. The waves that count have weight ≥ Thresholds.StripeMinority, or ≥
 //     spin1WeightFloor (1e-6) when the density is uniform (there the order
 //     parameter is the minority weight itself).
-//  4. The local spin order L = ⟨|F|²⟩/⟨n²⟩ and F_z from the exact
-//     x-averages (Averages: Σ_α⟨F_α²⟩/n̄² over ⟨n²⟩/n̄²).
+//  4. The local spin order L = ⟨|F|²⟩/⟨n²⟩, its transverse part P =
+//     ⟨F_x² + F_y²⟩/⟨n²⟩ and F_z from the exact x-averages (Averages:
+//     Σ_α⟨F_α²⟩/n̄² over ⟨n²⟩/n̄²).
 //  5. One wave: single-minimum (one band minimum) or plane-wave; density
-//     modulated: stripe (two waves) or stripe-3 (three); uniform with
-//     L ≥ label.Spin1FerroOrder (0.99) and L − F_z² ≥
-//     label.Spin1TextureOrder (0.05): spin-helix (a locally ferromagnetic
-//     texture); uniform, two waves, L − F_z² < 0.05: antiferromagnetic
-//     (locally F = (0, 0, M)); any other uniform state: broken-axisymmetry.
+//     modulated: stripe (two waves) or stripe-3 (three); uniform: spin-helix
+//     when L ≥ label.Spin1FerroOrder (0.99) and P ≥ label.Spin1TextureOrder
+//     (0.05) (a locally ferromagnetic texture), else broken-axisymmetry when
+//     P ≥ 0.05, else spin-domains when L − F_z² ≥ 0.05 (F_z varying in
+//     space), else antiferromagnetic for two waves (locally F = (0, 0, M))
+//     and broken-axisymmetry for three (label.Spin1Name).
 //
 // The spin-1 limits behind the rule: the ±1 mixture of an antiferromagnetic
 // gas at fixed M has F = (0, 0, M) locally (L = M², D. M. Stamper-Kurn and
@@ -418,7 +420,7 @@ func (u Spin1Uniform) classify(r *Spin1Result, st *Spin1Settings) (label.Phase, 
 		idx = append(idx, fmt.Sprint(g.min+1))
 	}
 	av := u.Averages(r.State)
-	order := label.Spin1Order{Local: (av.F2[0] + av.F2[1] + av.F2[2]) / av.N2, Fz: av.Fz}
+	order := label.Spin1Order{Local: (av.F2[0] + av.F2[1] + av.F2[2]) / av.N2, Transverse: (av.F2[0] + av.F2[1]) / av.N2, Fz: av.Fz}
 	ph := label.Spin1Name(len(keep), nm == 1, uniform, order)
 	join := ", "
 	if len(keep) == 2 {
@@ -436,6 +438,8 @@ func (u Spin1Uniform) classify(r *Spin1Result, st *Spin1Settings) (label.Phase, 
 		return ph, fmt.Sprintf("stripe-3 over minima %s (%s)", mins, waves)
 	case label.Antiferromagnetic:
 		return ph, fmt.Sprintf("antiferromagnetic: uniform density, local order ⟨|F|²⟩/⟨n²⟩ = %.3g, minima %s (%s)", order.Local, mins, waves)
+	case label.SpinDomains:
+		return ph, fmt.Sprintf("spin-domains: uniform density, local order ⟨|F|²⟩/⟨n²⟩ = %.4g, minima %s (%s)", order.Local, mins, waves)
 	case label.SpinHelix:
 		return ph, fmt.Sprintf("spin-helix: uniform density, local order ⟨|F|²⟩/⟨n²⟩ = %.4g, f_perp = %.3g, minima %s (%s)", order.Local, r.FPerp, mins, waves)
 	}

@@ -37,11 +37,16 @@ const (
 	// longitudinal magnetisation: a ferromagnetic texture whose spin
 	// direction turns along x in the frame of the model (see Spin1Name).
 	SpinHelix Phase = 10
+	// SpinDomains: two or more momenta, uniform total density, no
+	// transverse order, longitudinal order beyond the mean magnetisation
+	// (F_z varies in space): domains of opposite F_z, the phase separation
+	// of m = ±1 with c2 < 0, seen by the GPE (see Spin1Name).
+	SpinDomains Phase = 11
 )
 
 // Spin1Codes lists the codes only the three-level theory produces (kept out
 // of All so that the legends of pseudo-spin maps stay as they are).
-var Spin1Codes = []Phase{Stripe3, BrokenAxisymmetry, Antiferromagnetic, SpinHelix}
+var Spin1Codes = []Phase{Stripe3, BrokenAxisymmetry, Antiferromagnetic, SpinHelix, SpinDomains}
 
 // All lists every code in order, for legends.
 var All = []Phase{NotComputed, SingleMinimum, PlaneWave, Stripe, NotConverged, NoCoupling, UnderResolved}
@@ -71,6 +76,8 @@ func (p Phase) String() string {
 		return "antiferromagnetic"
 	case SpinHelix:
 		return "spin-helix"
+	case SpinDomains:
+		return "spin-domains"
 	}
 	return fmt.Sprintf("phase(%d)", int8(p))
 }
@@ -145,22 +152,24 @@ func Classify(f Features, t Thresholds) Phase {
 
 // Spin1Order is the local spin order of a spin-1 state, from averages over
 // x (the whole period of a variational state, the central region of a
-// numerical one). Both quantities are unchanged by the gauge transformations
-// ψ_m → e^{iK_m x}ψ_m with K_m linear in m and by rotations about z.
+// numerical one). All three are unchanged by rotations about z and by the
+// gauge transformations ψ_m → e^{iK_m x}ψ_m with K_m linear in m.
 type Spin1Order struct {
 	// Local: L = ⟨|F|²⟩/⟨n²⟩, |F|² = F_x² + F_y² + F_z² of the local spin
 	// density F_α = ψ†F_αψ. 0 ≤ L ≤ 1; L = 1 exactly when |⟨F⟩| = n wherever
 	// n ≠ 0 (a locally ferromagnetic spinor), L = M² for the ±1 mixture of
 	// magnetisation M (F = (0, 0, M n) everywhere), L = 0 for a polar state.
 	Local float64
+	// Transverse: P = ⟨|F_x + iF_y|²⟩/⟨n²⟩, the transverse part of Local.
+	Transverse float64
 	// Fz: ⟨F_z⟩/⟨n⟩, the longitudinal magnetisation per particle.
 	Fz float64
 }
 
-// Texture returns L − F_z², the local order not accounted for by a uniform
+// Beyond returns L − F_z², the local order not accounted for by a uniform
 // longitudinal magnetisation (0 for the ±1 mixture; 1 − F_z² for a helix of
-// full local order turning about z).
-func (o Spin1Order) Texture() float64 { return o.Local - o.Fz*o.Fz }
+// full local order turning about z, and for domains of F_z = ±n).
+func (o Spin1Order) Beyond() float64 { return o.Local - o.Fz*o.Fz }
 
 // Thresholds of the spin-1 naming (choices of this project: common
 // practice, no source).
@@ -170,26 +179,30 @@ const (
 	// broken-axisymmetry phase keeps its name down to q ≈ 0.2|c2|n at
 	// Ω = 0 (there L = 1 − (q/2|c2|n)², derived from ρ0 = 1/2 + q/(4|c2|n)).
 	Spin1FerroOrder = 0.99
-	// Spin1TextureOrder: a state whose order beyond the longitudinal
-	// magnetisation, L − F_z², is below this has F ≈ (0, 0, M) locally.
+	// Spin1TextureOrder: an order P or L − F_z² below this is absent (F ≈
+	// (0, 0, M) locally when L − F_z² is below it).
 	Spin1TextureOrder = 0.05
 )
 
 // Spin1Name names a spin-1 state of waves momenta (the waves or momentum
 // peaks that count, ≥ 1) from its density modulation and local spin order;
-// oneMinimum: the lowest band has a single minimum. The rule:
+// oneMinimum: the lowest band has a single minimum. The rule, in order:
 //
 //   - one momentum: SingleMinimum when the band has one minimum, else
 //     PlaneWave;
 //   - density modulated (!uniform): Stripe (two momenta), Stripe3 (three);
-//   - uniform density, L ≥ Spin1FerroOrder and L − F_z² ≥
-//     Spin1TextureOrder: SpinHelix (a locally ferromagnetic texture: a
-//     uniform density with several momenta and |⟨F⟩| = n needs the spin
-//     direction to turn along x);
-//   - uniform density, two momenta, L − F_z² < Spin1TextureOrder:
-//     Antiferromagnetic (locally F = (0, 0, M), the ±1 mixture);
-//   - otherwise uniform: BrokenAxisymmetry (partial local order with a
-//     transverse part).
+//   - uniform density from here on; L ≥ Spin1FerroOrder and P ≥
+//     Spin1TextureOrder: SpinHelix (locally ferromagnetic with a transverse
+//     part: a uniform density with several momenta and |⟨F⟩| = n needs the
+//     spin direction to turn along x);
+//   - P ≥ Spin1TextureOrder: BrokenAxisymmetry (partial local order with a
+//     transverse part);
+//   - L − F_z² ≥ Spin1TextureOrder: SpinDomains (longitudinal order only,
+//     F_z varying in space);
+//   - two momenta: Antiferromagnetic (locally F ≈ (0, 0, M): the ±1
+//     mixture);
+//   - three momenta: BrokenAxisymmetry (its transverse order vanishing at
+//     the polar boundary).
 func Spin1Name(waves int, oneMinimum, uniform bool, o Spin1Order) Phase {
 	switch {
 	case waves <= 1 && oneMinimum:
@@ -200,9 +213,13 @@ func Spin1Name(waves int, oneMinimum, uniform bool, o Spin1Order) Phase {
 		return Stripe
 	case !uniform:
 		return Stripe3
-	case o.Local >= Spin1FerroOrder && o.Texture() >= Spin1TextureOrder:
+	case o.Local >= Spin1FerroOrder && o.Transverse >= Spin1TextureOrder:
 		return SpinHelix
-	case waves == 2 && o.Texture() < Spin1TextureOrder:
+	case o.Transverse >= Spin1TextureOrder:
+		return BrokenAxisymmetry
+	case o.Beyond() >= Spin1TextureOrder:
+		return SpinDomains
+	case waves == 2:
 		return Antiferromagnetic
 	}
 	return BrokenAxisymmetry
