@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"socmap/dispersion"
+	"socmap/gpe"
 	"socmap/phases/label"
 )
 
@@ -137,4 +138,43 @@ func spin1Hand(u Spin1Uniform, st Spin1State, info dispersion.BandInfo3) Spin1Re
 	st2 := (&Spin1Settings{}).withDefaults()
 	r.Phase, r.Name = u.classify(&r, &st2)
 	return r
+}
+
+// A trapped ⁸⁷Rb cloud (c2 < 0) at fixed M = 0.4 with q < 0 (ε = −0.3 E_R,
+// weak Raman coupling): m = ±1 are immiscible for ferromagnetic
+// interactions (their cross coupling c0 − c2 exceeds c0 + c2;
+// Stamper-Kurn & Ueda, Rev. Mod. Phys. 85, 1191 (2013)) and the GPE cloud
+// separates into an m = +1 and an m = −1 domain with a smooth total
+// density. The central region (n ≥ n_max/2) has no transverse order and
+// longitudinal order beyond M²: spin-domains (before the local-order rule
+// the trapped state of two momenta was named stripe).
+func TestSpin1GroundTrapDomains(t *testing.T) {
+	if testing.Short() {
+		t.Skip("a trapped multi-start (≈ 15 s)")
+	}
+	m, c := rb87Spin1Trap(t, 500, -0.3)
+	p := Spin1GroundProblem{Model: m, Trap: &Spin1Trap{Atoms: 1e4, FreqHz: [3]float64{40, 400, 400}, Couplings: c},
+		FixMagnetization: true, Magnetization: 0.4, Points: []int{512}}
+	r, err := Spin1Ground(p, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ob := r.Observed
+	st := r.Multi.Best.State
+	// F_z/n at the two quarter points of the cloud: opposite signs, near ±1
+	g := r.Problem.Grid
+	at := func(x float64) float64 {
+		i := int(math.Round((x - g.X[0][0]) / g.Dx[0]))
+		a, b, cc := st.Psi[0][i], st.Psi[1][i], st.Psi[2][i]
+		na, nb, nc := real(a*cmplx.Conj(a)), real(b*cmplx.Conj(b)), real(cc*cmplx.Conj(cc))
+		return (na - nc) / (na + nb + nc)
+	}
+	fl, fr := at(-g.L[0]/5), at(g.L[0]/5)
+	t.Logf("%v: %v, order %+v, contrast %.3g, F_z/n at ∓L/5: %.4f, %.4f", r.Status, ob.Phase, ob.Order, ob.Contrast, fl, fr)
+	if r.Status != gpe.Converged || fl*fr > 0 || math.Min(math.Abs(fl), math.Abs(fr)) < 0.9 {
+		t.Fatalf("not two domains: %v, F_z/n %g and %g", r.Status, fl, fr)
+	}
+	if ob.Phase != label.SpinDomains {
+		t.Errorf("trapped domains named %v, want spin-domains", ob.Phase)
+	}
 }
