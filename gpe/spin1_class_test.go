@@ -61,7 +61,7 @@ func TestSpin1ObserveLocalOrder(t *testing.T) {
 		box, trap  label.Phase
 		wantL, wFz float64
 	}{
-		{"helix", helix, label.SpinHelix, label.SpinHelix, 1, math.Cos(beta)},
+		{"helix", helix, label.BrokenAxisymmetry, label.BrokenAxisymmetry, 1, math.Cos(beta)},
 		{"±1 mixture", mixture, label.Antiferromagnetic, label.Antiferromagnetic, M * M, M},
 		{"stripe", stripe, label.Stripe, label.Stripe, -1, 0},
 		{"domains", domains, label.SpinDomains, label.SpinDomains, -1, 0},

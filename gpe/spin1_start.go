@@ -212,7 +212,6 @@ func spin1CentralOrder(st *Spin1State, central bool) label.Spin1Order {
 // local spin order L = Σ|F|²/Σn² and F_z are grid sums, over the central
 // region of the cloud in a trap or hard box (n ≥ max n/2,
 // spin1CentralOrder). A uniform state of two or more peaks is then
-// spin-helix (L ≥ label.Spin1FerroOrder, P ≥ label.Spin1TextureOrder),
 // broken-axisymmetry (P ≥ label.Spin1TextureOrder), spin-domains (L − F_z²
 // ≥ label.Spin1TextureOrder: the phase separation of m = ±1),
 // antiferromagnetic (two peaks) or broken-axisymmetry (three); a modulated

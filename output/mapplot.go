@@ -35,7 +35,6 @@ var phaseColors = map[label.Phase]color.Color{
 	label.Stripe3:           color.RGBA{120, 30, 80, 255},   // dark magenta
 	label.BrokenAxisymmetry: color.RGBA{60, 120, 200, 255},  // teal blue
 	label.Antiferromagnetic: color.RGBA{160, 120, 210, 255}, // violet
-	label.SpinHelix:         color.RGBA{150, 190, 40, 255},  // lime olive
 	label.SpinDomains:       color.RGBA{40, 150, 150, 255},  // dark cyan
 }
 

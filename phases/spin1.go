@@ -355,10 +355,9 @@ func Spin1Variational(u Spin1Uniform, s *Spin1Settings) (Spin1Result, error) {
 //     ⟨F_x² + F_y²⟩/⟨n²⟩ and F_z from the exact x-averages (Averages:
 //     Σ_α⟨F_α²⟩/n̄² over ⟨n²⟩/n̄²).
 //  5. One wave: single-minimum (one band minimum) or plane-wave; density
-//     modulated: stripe (two waves) or stripe-3 (three); uniform: spin-helix
-//     when L ≥ label.Spin1FerroOrder (0.99) and P ≥ label.Spin1TextureOrder
-//     (0.05) (a locally ferromagnetic texture), else broken-axisymmetry when
-//     P ≥ 0.05, else spin-domains when L − F_z² ≥ 0.05 (F_z varying in
+//     modulated: stripe (two waves) or stripe-3 (three); uniform:
+//     broken-axisymmetry when P ≥ label.Spin1TextureOrder (0.05), else
+//     spin-domains when L − F_z² ≥ 0.05 (F_z varying in
 //     space), else antiferromagnetic for two waves (locally F = (0, 0, M))
 //     and broken-axisymmetry for three (label.Spin1Name).
 //
@@ -367,7 +366,8 @@ func Spin1Variational(u Spin1Uniform, s *Spin1Settings) (Spin1Result, error) {
 // M. Ueda, Rev. Mod. Phys. 85, 1191 (2013)); a ferromagnetic gas has |F| = n
 // (L = 1, T.-L. Ho, Phys. Rev. Lett. 81, 742 (1998)); a uniform state of
 // two or more momenta and L = 1 is a texture whose spin direction turns
-// along x (L − F_z² = 1 − F_z² for a helix about z).
+// along x in the model's frame, the ferromagnetic limit of the
+// broken-axisymmetry phase (see label.Spin1Name).
 func (u Spin1Uniform) classify(r *Spin1Result, st *Spin1Settings) (label.Phase, string) {
 	type grp struct {
 		k, w, fz float64
@@ -440,8 +440,6 @@ func (u Spin1Uniform) classify(r *Spin1Result, st *Spin1Settings) (label.Phase, 
 		return ph, fmt.Sprintf("antiferromagnetic: uniform density, local order ⟨|F|²⟩/⟨n²⟩ = %.3g, minima %s (%s)", order.Local, mins, waves)
 	case label.SpinDomains:
 		return ph, fmt.Sprintf("spin-domains: uniform density, local order ⟨|F|²⟩/⟨n²⟩ = %.4g, minima %s (%s)", order.Local, mins, waves)
-	case label.SpinHelix:
-		return ph, fmt.Sprintf("spin-helix: uniform density, local order ⟨|F|²⟩/⟨n²⟩ = %.4g, f_perp = %.3g, minima %s (%s)", order.Local, r.FPerp, mins, waves)
 	}
 	return ph, fmt.Sprintf("broken-axisymmetry: uniform density, f_perp = %.3g, local order ⟨|F|²⟩/⟨n²⟩ = %.3g, minima %s (%s)", r.FPerp, order.Local, mins, waves)
 }

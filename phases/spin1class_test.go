@@ -104,8 +104,10 @@ func TestSpin1LocalOrderNaming(t *testing.T) {
 		if math.Abs(fmin-1) > 1e-12 || math.Abs(fmax-1) > 1e-12 || nmax-nmin > 1e-12 {
 			t.Fatalf("the hand-built state is not a helix: |F|/n ∈ [%g, %g], n ∈ [%g, %g]", fmin, fmax, nmin, nmax)
 		}
-		if r.Phase != label.SpinHelix {
-			t.Errorf("hand-built helix β = %g: %v, want spin-helix", beta, r.Phase)
+		// Full local order with a transverse part: broken-axisymmetry (the
+		// phase reaches L = 1 only in its ferromagnetic limit; label.Spin1Name).
+		if r.Phase != label.BrokenAxisymmetry {
+			t.Errorf("hand-built helix β = %g: %v, want broken-axisymmetry", beta, r.Phase)
 		}
 	}
 	// (d) The same waves with the spinors of the ±1 mixture (no m = 0

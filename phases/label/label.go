@@ -32,21 +32,16 @@ const (
 	Stripe3           Phase = 7 // three momenta (three band minima), total density modulated
 	BrokenAxisymmetry Phase = 8 // two or three momenta, uniform total density, partial local order with a transverse part (Ω = 0 limit: Ho's broken-axisymmetry phase)
 	Antiferromagnetic Phase = 9 // two momenta, uniform total density, no local order beyond ⟨F⟩ = (0, 0, M) (Ω = 0 limit: the ±1 mixture of an antiferromagnetic gas)
-	// SpinHelix: two or more momenta, uniform total density, locally fully
-	// magnetised (|⟨F⟩| ≈ n everywhere) with order beyond a uniform
-	// longitudinal magnetisation: a ferromagnetic texture whose spin
-	// direction turns along x in the frame of the model (see Spin1Name).
-	SpinHelix Phase = 10
 	// SpinDomains: two or more momenta, uniform total density, no
 	// transverse order, longitudinal order beyond the mean magnetisation
 	// (F_z varies in space): domains of opposite F_z, the phase separation
 	// of m = ±1 with c2 < 0, seen by the GPE (see Spin1Name).
-	SpinDomains Phase = 11
+	SpinDomains Phase = 10
 )
 
 // Spin1Codes lists the codes only the three-level theory produces (kept out
 // of All so that the legends of pseudo-spin maps stay as they are).
-var Spin1Codes = []Phase{Stripe3, BrokenAxisymmetry, Antiferromagnetic, SpinHelix, SpinDomains}
+var Spin1Codes = []Phase{Stripe3, BrokenAxisymmetry, Antiferromagnetic, SpinDomains}
 
 // All lists every code in order, for legends.
 var All = []Phase{NotComputed, SingleMinimum, PlaneWave, Stripe, NotConverged, NoCoupling, UnderResolved}
@@ -74,8 +69,6 @@ func (p Phase) String() string {
 		return "broken-axisymmetry"
 	case Antiferromagnetic:
 		return "antiferromagnetic"
-	case SpinHelix:
-		return "spin-helix"
 	case SpinDomains:
 		return "spin-domains"
 	}
@@ -171,18 +164,10 @@ type Spin1Order struct {
 // full local order turning about z, and for domains of F_z = ±n).
 func (o Spin1Order) Beyond() float64 { return o.Local - o.Fz*o.Fz }
 
-// Thresholds of the spin-1 naming (choices of this project: common
-// practice, no source).
-const (
-	// Spin1FerroOrder: a state with L ≥ Spin1FerroOrder is locally
-	// ferromagnetic (rms |⟨F⟩|/n ≥ 0.995). Set close to 1 so that the
-	// broken-axisymmetry phase keeps its name down to q ≈ 0.2|c2|n at
-	// Ω = 0 (there L = 1 − (q/2|c2|n)², derived from ρ0 = 1/2 + q/(4|c2|n)).
-	Spin1FerroOrder = 0.99
-	// Spin1TextureOrder: an order P or L − F_z² below this is absent (F ≈
-	// (0, 0, M) locally when L − F_z² is below it).
-	Spin1TextureOrder = 0.05
-)
+// Spin1TextureOrder: an order P or L − F_z² below this is absent (F ≈
+// (0, 0, M) locally when L − F_z² is below it). A choice of this project
+// (common practice, no source).
+const Spin1TextureOrder = 0.05
 
 // Spin1Name names a spin-1 state of waves momenta (the waves or momentum
 // peaks that count, ≥ 1) from its density modulation and local spin order;
@@ -191,12 +176,13 @@ const (
 //   - one momentum: SingleMinimum when the band has one minimum, else
 //     PlaneWave;
 //   - density modulated (!uniform): Stripe (two momenta), Stripe3 (three);
-//   - uniform density from here on; L ≥ Spin1FerroOrder and P ≥
-//     Spin1TextureOrder: SpinHelix (locally ferromagnetic with a transverse
-//     part: a uniform density with several momenta and |⟨F⟩| = n needs the
-//     spin direction to turn along x);
-//   - P ≥ Spin1TextureOrder: BrokenAxisymmetry (partial local order with a
-//     transverse part);
+//   - uniform density from here on; P ≥ Spin1TextureOrder:
+//     BrokenAxisymmetry (local order with a transverse part, up to full
+//     local order L = 1: at Ω = 0 Ho's broken-axisymmetry phase has
+//     L = 1 − (q/2|c2|n)², which reaches the ferromagnet's L = 1 only at
+//     q = 0, so no threshold in L separates a phase of its own; a locally
+//     ferromagnetic texture whose spin turns along x in the model's frame
+//     is the uniform transverse ferromagnet of the lab frame);
 //   - L − F_z² ≥ Spin1TextureOrder: SpinDomains (longitudinal order only,
 //     F_z varying in space);
 //   - two momenta: Antiferromagnetic (locally F ≈ (0, 0, M): the ±1
@@ -213,8 +199,6 @@ func Spin1Name(waves int, oneMinimum, uniform bool, o Spin1Order) Phase {
 		return Stripe
 	case !uniform:
 		return Stripe3
-	case o.Local >= Spin1FerroOrder && o.Transverse >= Spin1TextureOrder:
-		return SpinHelix
 	case o.Transverse >= Spin1TextureOrder:
 		return BrokenAxisymmetry
 	case o.Beyond() >= Spin1TextureOrder:

@@ -65,11 +65,11 @@ func TestSpin1Name(t *testing.T) {
 		{"one wave", 1, false, true, Spin1Order{Local: 1, Fz: 0.2}, PlaneWave},
 		{"±1 mixture M = 0.3", 2, false, true, Spin1Order{Local: 0.09, Fz: 0.3}, Antiferromagnetic},
 		{"±1 mixture M = 0.998", 2, false, true, Spin1Order{Local: 0.998 * 0.998, Fz: 0.998}, Antiferromagnetic},
-		{"helix F_z = 0.6, third wave below the floor", 2, false, true, Spin1Order{Local: 1, Transverse: 0.64, Fz: 0.6}, SpinHelix},
-		{"three-wave helix F_z = 0", 3, false, true, Spin1Order{Local: 1, Transverse: 1}, SpinHelix},
+		{"helix F_z = 0.6, third wave below the floor", 2, false, true, Spin1Order{Local: 1, Transverse: 0.64, Fz: 0.6}, BrokenAxisymmetry},
+		{"three-wave helix F_z = 0", 3, false, true, Spin1Order{Local: 1, Transverse: 1}, BrokenAxisymmetry},
 		{"BA ρ0 = 0.575", 3, false, true, ba(0.575), BrokenAxisymmetry},
 		{"BA ρ0 = 0.75", 3, false, true, ba(0.75), BrokenAxisymmetry},
-		{"BA ρ0 = 0.52", 3, false, true, ba(0.52), SpinHelix}, // L = 0.9984: locally ferromagnetic
+		{"BA ρ0 = 0.52", 3, false, true, ba(0.52), BrokenAxisymmetry}, // L = 0.9984: the same phase as ρ0 = 0.75
 		{"(a, b e^{iqx}, 0), |a|² = 1/2", 2, false, true, Spin1Order{Local: 0.75, Transverse: 0.5, Fz: 0.5}, BrokenAxisymmetry},
 		{"domains of F_z = ±n, M = 0.4", 2, false, true, Spin1Order{Local: 1, Fz: 0.4}, SpinDomains},
 		{"domains with a wide wall", 2, false, true, Spin1Order{Local: 0.8, Transverse: 0.001, Fz: 0.45}, SpinDomains},
@@ -87,7 +87,7 @@ func TestSpin1Name(t *testing.T) {
 			t.Errorf("%v: %v %v", p, q, err)
 		}
 	}
-	if SpinHelix != 10 || SpinHelix.String() != "spin-helix" || SpinDomains != 11 || SpinDomains.String() != "spin-domains" {
-		t.Errorf("new codes %d %q, %d %q", int8(SpinHelix), SpinHelix, int8(SpinDomains), SpinDomains)
+	if SpinDomains != 10 || SpinDomains.String() != "spin-domains" {
+		t.Errorf("new code %d %q", int8(SpinDomains), SpinDomains)
 	}
 }
