@@ -149,16 +149,73 @@ type Spin1Observables struct {
 	// Peaks: the k_x of the local maxima of the total distribution with
 	// at least 1e-6 of the atoms, and their weights, largest first.
 	PeakK, PeakWeight []float64
-	Phase             label.Phase
+	// Order: the local spin order L = Σ|F|²/Σn², its transverse part P =
+	// Σ|F_+|²/Σn² and F_z = ΣF_z/Σn (label.Spin1Order), over the grid in a
+	// periodic box, over the central region (spin1CentralOrder) in a trap
+	// or hard box.
+	Order label.Spin1Order
+	Phase label.Phase
 }
 
-// Spin1Observe computes the observables of st; the phase follows the rule
-// of phases.Spin1Variational on the momentum peaks: peaks of weight ≥
-// th.StripeMinority count (≥ 1e-6 when the density is uniform to 1 % rms in
-// a box); one is single-minimum when d has one minimum, else plane-wave; two
-// a stripe (antiferromagnetic if uniform); three stripe-3
-// (broken-axisymmetry if uniform). A state that did not converge is
-// NotConverged.
+// Thresholds of the density modulation in Spin1Observe (choices of this
+// project: common practice, no source): in a periodic box the rms
+// modulation √(⟨n²⟩/⟨n⟩² − 1) below spin1UniformRMS (the variational
+// default Spin1Settings.UniformRMS); in a trap or hard box the Contrast
+// below spin1UniformContrast = √2·spin1UniformRMS, the amplitude C of
+// n̄(1 + C cos qx), whose rms is C/√2.
+const (
+	spin1UniformRMS      = 0.01
+	spin1UniformContrast = math.Sqrt2 * spin1UniformRMS
+)
+
+// spin1CentralOrder returns L = Σ|F|²/Σn², P = Σ|F_+|²/Σn² and ΣF_z/Σn of
+// st, |F|² = F_z² + |F_+|² of the local spin density, summed over every grid
+// point, or with
+// central over the central region of the cloud: the points whose total
+// density is at least half the largest (the Thomas–Fermi core, away from
+// the low-density edge where the spinor heals).
+func spin1CentralOrder(st *Spin1State, central bool) label.Spin1Order {
+	nmax := 0.0
+	if central {
+		for i := range st.Psi[0] {
+			nmax = math.Max(nmax, abs2(st.Psi[0][i])+abs2(st.Psi[1][i])+abs2(st.Psi[2][i]))
+		}
+	}
+	var f2, p2, n1, n2, z float64
+	for i := range st.Psi[0] {
+		a, b, c := st.Psi[0][i], st.Psi[1][i], st.Psi[2][i]
+		na, nb, nc := abs2(a), abs2(b), abs2(c)
+		n := na + nb + nc
+		if central && n < nmax/2 {
+			continue
+		}
+		fp := complex(math.Sqrt2, 0) * (cmplx.Conj(a)*b + cmplx.Conj(b)*c)
+		f2 += (na-nc)*(na-nc) + abs2(fp)
+		p2 += abs2(fp)
+		z += na - nc
+		n1 += n
+		n2 += n * n
+	}
+	if !(n2 > 0) {
+		return label.Spin1Order{}
+	}
+	return label.Spin1Order{Local: f2 / n2, Transverse: p2 / n2, Fz: z / n1}
+}
+
+// Spin1Observe computes the observables of st and names its phase by the
+// rule of phases.Spin1Variational (label.Spin1Name) with the grid's
+// quantities: the momentum peaks of weight ≥ th.StripeMinority count (≥ 1e-6
+// when the density is uniform in a periodic box); the density is uniform
+// when its rms modulation is below 1 % in a periodic box, and in a trap or
+// hard box when the Contrast (the trapped demodulated amplitude, the
+// central half of a hard box) is below √2 % (spin1UniformContrast); the
+// local spin order L = Σ|F|²/Σn² and F_z are grid sums, over the central
+// region of the cloud in a trap or hard box (n ≥ max n/2,
+// spin1CentralOrder). A uniform state of two or more peaks is then
+// broken-axisymmetry (P ≥ label.Spin1TextureOrder), spin-domains (L − F_z²
+// ≥ label.Spin1TextureOrder: the phase separation of m = ±1),
+// antiferromagnetic (two peaks) or broken-axisymmetry (three); a modulated
+// one stripe or stripe-3. A state that did not converge is NotConverged.
 func Spin1Observe(p Spin1Problem, r *Spin1Result, d dispersion.Spin1Model, th label.Thresholds) (*Spin1Observables, error) {
 	g := p.Grid
 	st := r.State
@@ -257,9 +314,15 @@ func Spin1Observe(p Spin1Problem, r *Spin1Result, d dispersion.Spin1Model, th la
 		ob.Phase = label.NotConverged
 		return ob, nil
 	}
-	uniform := p.Model.Potential.Kind == NoPotential && ob.DensityRMS < 0.01
+	var uniform bool
+	switch p.Model.Potential.Kind {
+	case NoPotential:
+		uniform = ob.DensityRMS < spin1UniformRMS
+	default:
+		uniform = ob.Contrast < spin1UniformContrast
+	}
 	floor := th.StripeMinority
-	if uniform {
+	if uniform && p.Model.Potential.Kind == NoPotential {
 		floor = 1e-6
 	}
 	count := 0
@@ -272,20 +335,8 @@ func Spin1Observe(p Spin1Problem, r *Spin1Result, d dispersion.Spin1Model, th la
 	if info, err := d.Analyze3(); err == nil {
 		nm = len(info.Minima)
 	}
-	switch {
-	case count <= 1 && nm == 1:
-		ob.Phase = label.SingleMinimum
-	case count <= 1:
-		ob.Phase = label.PlaneWave
-	case count == 2 && uniform:
-		ob.Phase = label.Antiferromagnetic
-	case count == 2:
-		ob.Phase = label.Stripe
-	case uniform:
-		ob.Phase = label.BrokenAxisymmetry
-	default:
-		ob.Phase = label.Stripe3
-	}
+	ob.Order = spin1CentralOrder(st, p.Model.Potential.Kind != NoPotential)
+	ob.Phase = label.Spin1Name(count, nm == 1, uniform, ob.Order)
 	return ob, nil
 }
 

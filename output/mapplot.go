@@ -35,6 +35,7 @@ var phaseColors = map[label.Phase]color.Color{
 	label.Stripe3:           color.RGBA{120, 30, 80, 255},   // dark magenta
 	label.BrokenAxisymmetry: color.RGBA{60, 120, 200, 255},  // teal blue
 	label.Antiferromagnetic: color.RGBA{160, 120, 210, 255}, // violet
+	label.SpinDomains:       color.RGBA{40, 150, 150, 255},  // dark cyan
 }
 
 // mapPhases are the codes a map can hold: label.All and the spin-1 codes.

@@ -259,11 +259,7 @@ type Spin1Result struct {
 // gradients) over momenta, weights and phase, with ⟨F_z⟩ = M imposed by an
 // augmented Lagrangian when Settings.FixMagnetization. The lowest converged
 // family wins (ties: fewer waves first). The phase comes from the winner's
-// waves of weight ≥ StripeMinority, merged when closer than
-// SingleMinimumK: one wave is single-minimum when the band has one minimum
-// and plane-wave otherwise; two are a stripe (antiferromagnetic when the
-// total density is uniform); three are stripe-3 (broken-axisymmetry when the
-// total density is uniform).
+// waves, its density modulation and its local spin order (see classify).
 func Spin1Variational(u Spin1Uniform, s *Spin1Settings) (Spin1Result, error) {
 	res := Spin1Result{Phase: label.NotConverged, Status: NotConverged}
 	if err := u.Model.Validate(); err != nil {
@@ -346,7 +342,32 @@ func Spin1Variational(u Spin1Uniform, s *Spin1Settings) (Spin1Result, error) {
 	return res, nil
 }
 
-// classify names the winner (see Spin1Variational).
+// classify names the winner of Spin1Variational by its number of waves,
+// its density modulation and its local spin order, with label.Spin1Name:
+//
+//  1. Waves closer than Thresholds.SingleMinimumK in momentum are one.
+//  2. uniform: the total density has rms modulation DensityRMS =
+//     √(⟨n²⟩/n̄² − 1) < Settings.UniformRMS (default 0.01).
+//  3. The waves that count have weight ≥ Thresholds.StripeMinority, or ≥
+//     spin1WeightFloor (1e-6) when the density is uniform (there the order
+//     parameter is the minority weight itself).
+//  4. The local spin order L = ⟨|F|²⟩/⟨n²⟩, its transverse part P =
+//     ⟨F_x² + F_y²⟩/⟨n²⟩ and F_z from the exact x-averages (Averages:
+//     Σ_α⟨F_α²⟩/n̄² over ⟨n²⟩/n̄²).
+//  5. One wave: single-minimum (one band minimum) or plane-wave; density
+//     modulated: stripe (two waves) or stripe-3 (three); uniform:
+//     broken-axisymmetry when P ≥ label.Spin1TextureOrder (0.05), else
+//     spin-domains when L − F_z² ≥ 0.05 (F_z varying in
+//     space), else antiferromagnetic for two waves (locally F = (0, 0, M))
+//     and broken-axisymmetry for three (label.Spin1Name).
+//
+// The spin-1 limits behind the rule: the ±1 mixture of an antiferromagnetic
+// gas at fixed M has F = (0, 0, M) locally (L = M², D. M. Stamper-Kurn and
+// M. Ueda, Rev. Mod. Phys. 85, 1191 (2013)); a ferromagnetic gas has |F| = n
+// (L = 1, T.-L. Ho, Phys. Rev. Lett. 81, 742 (1998)); a uniform state of
+// two or more momenta and L = 1 is a texture whose spin direction turns
+// along x in the model's frame, the ferromagnetic limit of the
+// broken-axisymmetry phase (see label.Spin1Name).
 func (u Spin1Uniform) classify(r *Spin1Result, st *Spin1Settings) (label.Phase, string) {
 	type grp struct {
 		k, w, fz float64
@@ -398,23 +419,29 @@ func (u Spin1Uniform) classify(r *Spin1Result, st *Spin1Settings) (label.Phase, 
 		parts = append(parts, desc(g))
 		idx = append(idx, fmt.Sprint(g.min+1))
 	}
-	switch len(keep) {
-	case 1:
-		if nm == 1 {
-			return label.SingleMinimum, fmt.Sprintf("single-minimum (%s)", parts[0])
-		}
-		return label.PlaneWave, fmt.Sprintf("plane-wave at minimum %s of %d (%s)", idx[0], nm, parts[0])
-	case 2:
-		if uniform {
-			return label.Antiferromagnetic, fmt.Sprintf("antiferromagnetic: uniform density, minima %s (%s)", strings.Join(idx, " and "), strings.Join(parts, "; "))
-		}
-		return label.Stripe, fmt.Sprintf("stripe between minima %s (%s)", strings.Join(idx, " and "), strings.Join(parts, "; "))
-	default:
-		if uniform {
-			return label.BrokenAxisymmetry, fmt.Sprintf("broken-axisymmetry: uniform density, f_perp = %.3g, minima %s (%s)", r.FPerp, strings.Join(idx, ", "), strings.Join(parts, "; "))
-		}
-		return label.Stripe3, fmt.Sprintf("stripe-3 over minima %s (%s)", strings.Join(idx, ", "), strings.Join(parts, "; "))
+	av := u.Averages(r.State)
+	order := label.Spin1Order{Local: (av.F2[0] + av.F2[1] + av.F2[2]) / av.N2, Transverse: (av.F2[0] + av.F2[1]) / av.N2, Fz: av.Fz}
+	ph := label.Spin1Name(len(keep), nm == 1, uniform, order)
+	join := ", "
+	if len(keep) == 2 {
+		join = " and "
 	}
+	mins, waves := strings.Join(idx, join), strings.Join(parts, "; ")
+	switch ph {
+	case label.SingleMinimum:
+		return ph, fmt.Sprintf("single-minimum (%s)", waves)
+	case label.PlaneWave:
+		return ph, fmt.Sprintf("plane-wave at minimum %s of %d (%s)", mins, nm, waves)
+	case label.Stripe:
+		return ph, fmt.Sprintf("stripe between minima %s (%s)", mins, waves)
+	case label.Stripe3:
+		return ph, fmt.Sprintf("stripe-3 over minima %s (%s)", mins, waves)
+	case label.Antiferromagnetic:
+		return ph, fmt.Sprintf("antiferromagnetic: uniform density, local order ⟨|F|²⟩/⟨n²⟩ = %.3g, minima %s (%s)", order.Local, mins, waves)
+	case label.SpinDomains:
+		return ph, fmt.Sprintf("spin-domains: uniform density, local order ⟨|F|²⟩/⟨n²⟩ = %.4g, minima %s (%s)", order.Local, mins, waves)
+	}
+	return ph, fmt.Sprintf("broken-axisymmetry: uniform density, f_perp = %.3g, local order ⟨|F|²⟩/⟨n²⟩ = %.3g, minima %s (%s)", r.FPerp, order.Local, mins, waves)
 }
 
 // spin1WeightFloor is the smallest weight of a wave that counts in a state of

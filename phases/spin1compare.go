@@ -22,13 +22,13 @@ const Spin1MattersFraction = 0.05
 
 // IsSpin1Stripe reports whether p is a phase of two or three momenta of the
 // three-level theory: stripe, stripe-3, and the uniform-density
-// antiferromagnetic and broken-axisymmetry states (at small Ω a stripe's
+// antiferromagnetic, broken-axisymmetry and spin-domains states (at small Ω a stripe's
 // contrast falls below Spin1Settings.UniformRMS and it is named by its
 // uniform density; the pseudo-spin window counts it, since its criterion is
 // the minority weight).
 func IsSpin1Stripe(p label.Phase) bool {
 	switch p {
-	case label.Stripe, label.Stripe3, label.Antiferromagnetic, label.BrokenAxisymmetry:
+	case label.Stripe, label.Stripe3, label.Antiferromagnetic, label.BrokenAxisymmetry, label.SpinDomains:
 		return true
 	}
 	return false

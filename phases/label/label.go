@@ -30,13 +30,18 @@ const (
 	UnderResolved Phase = 6
 	// Codes of the spin-1 (three-level) theory, after UnderResolved.
 	Stripe3           Phase = 7 // three momenta (three band minima), total density modulated
-	BrokenAxisymmetry Phase = 8 // three momenta, uniform total density, transverse magnetisation (Ω = 0 limit: Ho's broken-axisymmetry phase)
-	Antiferromagnetic Phase = 9 // two momenta, uniform total density (Ω = 0 limit: the ±1 mixture of an antiferromagnetic gas)
+	BrokenAxisymmetry Phase = 8 // two or three momenta, uniform total density, partial local order with a transverse part (Ω = 0 limit: Ho's broken-axisymmetry phase)
+	Antiferromagnetic Phase = 9 // two momenta, uniform total density, no local order beyond ⟨F⟩ = (0, 0, M) (Ω = 0 limit: the ±1 mixture of an antiferromagnetic gas)
+	// SpinDomains: two or more momenta, uniform total density, no
+	// transverse order, longitudinal order beyond the mean magnetisation
+	// (F_z varies in space): domains of opposite F_z, the phase separation
+	// of m = ±1 with c2 < 0, seen by the GPE (see Spin1Name).
+	SpinDomains Phase = 10
 )
 
 // Spin1Codes lists the codes only the three-level theory produces (kept out
 // of All so that the legends of pseudo-spin maps stay as they are).
-var Spin1Codes = []Phase{Stripe3, BrokenAxisymmetry, Antiferromagnetic}
+var Spin1Codes = []Phase{Stripe3, BrokenAxisymmetry, Antiferromagnetic, SpinDomains}
 
 // All lists every code in order, for legends.
 var All = []Phase{NotComputed, SingleMinimum, PlaneWave, Stripe, NotConverged, NoCoupling, UnderResolved}
@@ -64,6 +69,8 @@ func (p Phase) String() string {
 		return "broken-axisymmetry"
 	case Antiferromagnetic:
 		return "antiferromagnetic"
+	case SpinDomains:
+		return "spin-domains"
 	}
 	return fmt.Sprintf("phase(%d)", int8(p))
 }
@@ -134,4 +141,70 @@ func Classify(f Features, t Thresholds) Phase {
 		return Stripe
 	}
 	return PlaneWave
+}
+
+// Spin1Order is the local spin order of a spin-1 state, from averages over
+// x (the whole period of a variational state, the central region of a
+// numerical one). All three are unchanged by rotations about z and by the
+// gauge transformations ψ_m → e^{iK_m x}ψ_m with K_m linear in m.
+type Spin1Order struct {
+	// Local: L = ⟨|F|²⟩/⟨n²⟩, |F|² = F_x² + F_y² + F_z² of the local spin
+	// density F_α = ψ†F_αψ. 0 ≤ L ≤ 1; L = 1 exactly when |⟨F⟩| = n wherever
+	// n ≠ 0 (a locally ferromagnetic spinor), L = M² for the ±1 mixture of
+	// magnetisation M (F = (0, 0, M n) everywhere), L = 0 for a polar state.
+	Local float64
+	// Transverse: P = ⟨|F_x + iF_y|²⟩/⟨n²⟩, the transverse part of Local.
+	Transverse float64
+	// Fz: ⟨F_z⟩/⟨n⟩, the longitudinal magnetisation per particle.
+	Fz float64
+}
+
+// Beyond returns L − F_z², the local order not accounted for by a uniform
+// longitudinal magnetisation (0 for the ±1 mixture; 1 − F_z² for a helix of
+// full local order turning about z, and for domains of F_z = ±n).
+func (o Spin1Order) Beyond() float64 { return o.Local - o.Fz*o.Fz }
+
+// Spin1TextureOrder: an order P or L − F_z² below this is absent (F ≈
+// (0, 0, M) locally when L − F_z² is below it). A choice of this project
+// (common practice, no source).
+const Spin1TextureOrder = 0.05
+
+// Spin1Name names a spin-1 state of waves momenta (the waves or momentum
+// peaks that count, ≥ 1) from its density modulation and local spin order;
+// oneMinimum: the lowest band has a single minimum. The rule, in order:
+//
+//   - one momentum: SingleMinimum when the band has one minimum, else
+//     PlaneWave;
+//   - density modulated (!uniform): Stripe (two momenta), Stripe3 (three);
+//   - uniform density from here on; P ≥ Spin1TextureOrder:
+//     BrokenAxisymmetry (local order with a transverse part, up to full
+//     local order L = 1: at Ω = 0 Ho's broken-axisymmetry phase has
+//     L = 1 − (q/2|c2|n)², which reaches the ferromagnet's L = 1 only at
+//     q = 0, so no threshold in L separates a phase of its own; a locally
+//     ferromagnetic texture whose spin turns along x in the model's frame
+//     is the uniform transverse ferromagnet of the lab frame);
+//   - L − F_z² ≥ Spin1TextureOrder: SpinDomains (longitudinal order only,
+//     F_z varying in space);
+//   - two momenta: Antiferromagnetic (locally F ≈ (0, 0, M): the ±1
+//     mixture);
+//   - three momenta: BrokenAxisymmetry (its transverse order vanishing at
+//     the polar boundary).
+func Spin1Name(waves int, oneMinimum, uniform bool, o Spin1Order) Phase {
+	switch {
+	case waves <= 1 && oneMinimum:
+		return SingleMinimum
+	case waves <= 1:
+		return PlaneWave
+	case !uniform && waves == 2:
+		return Stripe
+	case !uniform:
+		return Stripe3
+	case o.Transverse >= Spin1TextureOrder:
+		return BrokenAxisymmetry
+	case o.Beyond() >= Spin1TextureOrder:
+		return SpinDomains
+	case waves == 2:
+		return Antiferromagnetic
+	}
+	return BrokenAxisymmetry
 }
