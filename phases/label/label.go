@@ -89,7 +89,7 @@ func Parse(s string) (Phase, error) {
 // for the attribute stored beside a phase dataset.
 func Legend() string {
 	s := ""
-	for i, p := range All {
+	for i, p := range append(append([]Phase{}, All...), Spin1Codes...) {
 		if i > 0 {
 			s += ", "
 		}

@@ -36,7 +36,7 @@ func TestNamesRoundTrip(t *testing.T) {
 	if _, err := Parse("supersolid"); err == nil {
 		t.Error("unknown name parsed")
 	}
-	if Legend() != "0=not-computed, 1=single-minimum, 2=plane-wave, 3=stripe, 4=not-converged, 5=no-coupling, 6=under-resolved" {
+	if Legend() != "0=not-computed, 1=single-minimum, 2=plane-wave, 3=stripe, 4=not-converged, 5=no-coupling, 6=under-resolved, 7=stripe-3, 8=broken-axisymmetry, 9=antiferromagnetic, 10=spin-domains" {
 		t.Errorf("legend %q", Legend())
 	}
 }
