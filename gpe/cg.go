@@ -152,13 +152,38 @@ func (e *engine) phaseStep(en Energies) (Energies, bool) {
 	clear(J)
 	clear(D)
 	for c := 0; c < 2; c++ {
-		for idx, p := range e.psi[c] {
-			q := e.px[c][idx]
-			i := idx / inner
-			J[i] += real(p)*real(q) + imag(p)*imag(q)
-			D[i] += abs2(p)
-		}
+		addCurrent(J, D, e.psi[c], e.px[c], inner)
 	}
+	phaseProfile(J, D, P, g.Dx[0])
+	for c := 0; c < 2; c++ {
+		applyPhase(e.psi[c], e.pk[c], J, D, inner)
+	}
+	en2 := e.evaluate()
+	if en2.Total < en.Total && !bad(en2) {
+		return en2, true
+	}
+	copy(e.psi[0], e.pk[0])
+	copy(e.psi[1], e.pk[1])
+	return e.evaluate(), false
+}
+
+// addCurrent adds to J[i] and D[i] the sums over the points of slab x_i
+// (inner consecutive points) of Re ψ*·dψ and |ψ|², dψ = (−i∂_x − K)ψ: the
+// transverse integrals (without dV) of one component's current j_x and
+// density n, for phaseStep and the spin-1 phase step.
+func addCurrent(J, D []float64, psi, dpsi []complex128, inner int) {
+	for idx, p := range psi {
+		q := dpsi[idx]
+		i := idx / inner
+		J[i] += real(p)*real(q) + imag(p)*imag(q)
+		D[i] += abs2(p)
+	}
+}
+
+// phaseProfile integrates φ'(x) = −J(x)/D(x) (D regularised by 1e-8 of
+// its maximum) by the trapezoid rule on the x grid of spacing dx, from
+// φ(x_0) = 0, into P, and overwrites J and D with cos φ and sin φ.
+func phaseProfile(J, D, P []float64, dx float64) {
 	dmax := 0.0
 	for _, d := range D {
 		dmax = math.Max(dmax, d)
@@ -169,27 +194,23 @@ func (e *engine) phaseStep(en Energies) (Energies, bool) {
 		if i == 0 {
 			P[0] = 0
 		} else {
-			P[i] = P[i-1] + g.Dx[0]*(d+prev)/2
+			P[i] = P[i-1] + dx*(d+prev)/2
 		}
 		prev = d
 	}
 	for i, ph := range P {
 		J[i], D[i] = math.Cos(ph), math.Sin(ph)
 	}
-	for c := 0; c < 2; c++ {
-		copy(e.pk[c], e.psi[c])
-		for idx := range e.psi[c] {
-			i := idx / inner
-			e.psi[c][idx] *= complex(J[i], D[i])
-		}
+}
+
+// applyPhase copies psi into save and multiplies psi by e^{iφ(x_i)} =
+// cos[i] + i sin[i] on slab x_i (inner consecutive points).
+func applyPhase(psi, save []complex128, cos, sin []float64, inner int) {
+	copy(save, psi)
+	for idx := range psi {
+		i := idx / inner
+		psi[idx] *= complex(cos[i], sin[i])
 	}
-	en2 := e.evaluate()
-	if en2.Total < en.Total && !bad(en2) {
-		return en2, true
-	}
-	copy(e.psi[0], e.pk[0])
-	copy(e.psi[1], e.pk[1])
-	return e.evaluate(), false
 }
 
 func statusAt(en Energies, set Settings) Status {

@@ -172,6 +172,8 @@ type spin1Engine struct {
 	// fixM: hold ∫F_z = mag·Norm (Spin1Problem.FixMagnetization).
 	fixM bool
 	mag  float64
+
+	phase []float64 // 3·N_x scratch of phaseStep (harmonic trap only)
 }
 
 func newSpin1Engine(g *Grid, m Spin1Model, b fft.Backend) (*spin1Engine, error) {
@@ -190,6 +192,9 @@ func newSpin1Engine(g *Grid, m Spin1Model, b fft.Backend) (*spin1Engine, error) 
 	}
 	if m.Potential.Kind != NoPotential {
 		e.V = make([]float64, e.n)
+	}
+	if m.Potential.Kind == Harmonic {
+		e.phase = make([]float64, 3*g.N[0])
 	}
 	for idx := 0; idx < e.n; idx++ {
 		i, j, l := g.Coords(idx)
@@ -587,7 +592,11 @@ func reDot(a, b *[3][]complex128) float64 {
 // c²T_ψψ + 2cs T_ψq + s²T_qq (three numbers from one transform of q); the
 // local energy change is evaluated pointwise for each trial θ (no
 // transforms, see lineSearch), and θ is found by a geometric scan and
-// golden-section refinement in (0, π/2].
+// golden-section refinement in (0, π/2]. In a harmonic trap it takes a
+// phase step (phaseStep) every Settings.PhaseEvery iterations while that
+// lowers the energy, restarting the recursion after each, as the
+// two-component finisher does (see cg in cg.go for the conditioning of the
+// phase modes of a Thomas–Fermi cloud).
 func (e *spin1Engine) cg(set Settings, hist func(Spin1Energies)) (int, Status) {
 	en := e.evaluate()
 	if spin1Bad(en) {
@@ -605,6 +614,7 @@ func (e *spin1Engine) cg(set Settings, hist func(Spin1Energies)) (int, Status) {
 		}
 	}
 	pre := func(c, i int) float64 { return 1 / (e.alpha + e.kin[c][i]) }
+	phaseOn := e.phase != nil && set.PhaseEvery > 0
 	for it := 1; it <= set.MaxIter; it++ {
 		if set.isCanceled() {
 			return it - 1, canceled
@@ -700,8 +710,62 @@ func (e *spin1Engine) cg(set Settings, hist func(Spin1Energies)) (int, Status) {
 			return it, Converged
 		}
 		prevE = en.Total
+		if phaseOn && it%set.PhaseEvery == 0 {
+			var lower bool
+			en, lower = e.phaseStep(en)
+			phaseOn = lower
+			prevE = en.Total
+			restart = true
+		}
 	}
 	return set.MaxIter, MaxIterations
+}
+
+// phaseStep (harmonic trap; between finisher iterations) multiplies every
+// component by one phase, ψ_m → e^{iφ(x)}ψ_m. That leaves |ψ_m|² and every
+// local term unchanged: n, F_z, F_+ = √2(ψ₊₁*ψ₀ + ψ₀*ψ₋₁), the Ω coupling
+// and the spin-changing term ψ₊₁*ψ₋₁*ψ₀² are invariant, so are the norm and
+// ∫F_z (the step keeps a fixed magnetisation exactly, and E − λ∫F_z
+// changes as E does). The kinetic energy Σ_m∫|(−i∇ − K_m x̂)ψ_m|² changes
+// exactly by ∫(2∇φ·j + n|∇φ|²), j = Σ_m Re ψ_m*(−i∇ − K_m x̂)ψ_m (expand
+// |e^{iφ}(∇φ + (−i∇ − K_m x̂))ψ_m|²), minimal over φ(x) of x alone at
+// φ'(x) = −J(x)/D(x), J and D the transverse integrals of j_x and n: the
+// two-component phaseStep with σ_z replaced by K_m, sharing its
+// integration (addCurrent, phaseProfile, applyPhase). (−i∂_x − K_m)ψ_m is
+// the spectral derivative, φ the trapezoid integral, so the step is kept
+// only if the energy falls (else ψ is restored). Costs three FFT pairs and
+// one evaluation (two when it is not kept); serial, no allocation. Our own
+// construction. Uses tmp and q as scratch: the caller restarts the
+// recursion.
+func (e *spin1Engine) phaseStep(en Spin1Energies) (Spin1Energies, bool) {
+	g := e.g
+	nx := g.N[0]
+	inner := e.n / nx
+	inv := 1 / float64(e.n)
+	J, D, P := e.phase[:nx], e.phase[nx:2*nx], e.phase[2*nx:]
+	clear(J)
+	clear(D)
+	for c := 0; c < 3; c++ {
+		copy(e.tmp[c], e.psi[c])
+		e.tr.Forward(e.tmp[c])
+		for idx := range e.tmp[c] {
+			e.tmp[c][idx] *= complex((g.K[0][idx/inner]-e.m.K[c])*inv, 0)
+		}
+		e.tr.Backward(e.tmp[c])
+		addCurrent(J, D, e.psi[c], e.tmp[c], inner)
+	}
+	phaseProfile(J, D, P, g.Dx[0])
+	for c := 0; c < 3; c++ {
+		applyPhase(e.psi[c], e.q[c], J, D, inner)
+	}
+	en2 := e.evaluate()
+	if en2.Total < en.Total && !spin1Bad(en2) {
+		return en2, true
+	}
+	for c := 0; c < 3; c++ {
+		copy(e.psi[c], e.q[c])
+	}
+	return e.evaluate(), false
 }
 
 // spin1Fz is F_z on the components m = +1, 0, −1.
