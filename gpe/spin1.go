@@ -918,10 +918,11 @@ func (e *spin1Engine) lineSearch(lambda float64) (float64, float64) {
 // first), in the stages of Solve: split-step imaginary time with Δτ lowered as
 // the energy settles (Settings.Dtau, DtauFactor, DtauLevels, CheckEvery,
 // SplitEnergyTol, MaxSplitSteps), then the conjugate-gradient finisher
-// (MaxIter), unless Settings.Method says otherwise. Converged means residual
-// ≤ Tol and energy change ≤ EnergyTol, confirmed by a fresh evaluation. The
-// local split step is the exact exponential of the 3×3 local operator
-// (expHerm3), spin-mixing term included. Settings.Threads, FFTMode and
+// (MaxIter; in a harmonic trap with a common-phase step every PhaseEvery
+// iterations, see phaseStep), unless Settings.Method says otherwise.
+// Converged means residual ≤ Tol and energy change ≤ EnergyTol, confirmed
+// by a fresh evaluation. The local split step is the exact exponential of
+// the 3×3 local operator (expHerm3), spin-mixing term included. Settings.Threads, FFTMode and
 // Progress are not used (one goroutine).
 //
 // With p.FixMagnetization the flow holds ∫F_z = M·Norm too: every

@@ -33,7 +33,7 @@ func rb87Spin1Trap(t *testing.T, rabiHz, eps float64) (dispersion.Spin1Model, di
 // The kinetic energy makes both larger, by ≈ 1e-5 at this μ/ħω ≈ 450.
 func TestSpin1GroundTrapThomasFermi(t *testing.T) {
 	if testing.Short() {
-		t.Skip("a 1024-point trapped multi-start (≈ 1 min; minutes under -race)")
+		t.Skip("a 3456-point trapped multi-start (≈ 25 s; minutes under -race)")
 	}
 	m, c := rb87Spin1Trap(t, 0, 5)
 	p := Spin1GroundProblem{Model: m, Trap: &Spin1Trap{Atoms: 2e5, FreqHz: [3]float64{20, 400, 400}, Couplings: c}}
@@ -69,7 +69,7 @@ func TestSpin1GroundTrapThomasFermi(t *testing.T) {
 // ⟨F_z⟩ = M to 1e-8 (the constraint is exact; the state is the GPE's).
 func TestSpin1GroundTrapMagnetization(t *testing.T) {
 	if testing.Short() {
-		t.Skip("a trapped multi-start (≈ 40 s; minutes under -race)")
+		t.Skip("a trapped multi-start (≈ 15 s; minutes under -race)")
 	}
 	m, c := rb87Spin1Trap(t, 2000, 0.5)
 	p := Spin1GroundProblem{Model: m, Trap: &Spin1Trap{Atoms: 1e4, FreqHz: [3]float64{40, 400, 400}, Couplings: c},
