@@ -147,8 +147,13 @@ type DLineShift struct {
 	// (Ω²/4I)(Γ₁/(3Δ₁²) + 2Γ₂/(3Δ₂²)), each line with its own Γ), the
 	// earlier model, kept for comparison.
 	ScalarRWA, VectorRWA, ScatterRWA float64
-	// RabiSqPerIntensity: Ω²/I = 6πc²Γ̄/(ħω̄³) of the doublet, (rad/s)² per W/m².
+	// RabiSqPerIntensity: Ω̄²/I = 6πc²Γ̄/(ħω̄³) of the doublet (the
+	// normalisation: Ω̄² = Σ_e |⟨e|d·ε|g⟩|²ℰ²/ħ² summed over both lines),
+	// (rad/s)² per W/m².
 	RabiSqPerIntensity float64
+	// WeightD1, WeightD2: each line's strength relative to the doublet's,
+	// x_J' = (Γ_J'/ω_J'³)/(Γ̄/ω̄³) (x₁ + 2x₂ = 3; 1 for one radial element).
+	WeightD1, WeightD2 float64
 	// FineStructureHz: Δ_FS/2π = ν_D2 − ν_D1, Hz.
 	FineStructureHz float64
 	// GammaHz: Γ(ω)/2π = (Γ̄/ω̄³)ω³/2π, the doublet's emission rate at the
@@ -196,8 +201,12 @@ func (s Species) DLineLightShift(wavelength, groundJ float64) (DLineShift, error
 	d.CentreHz = (nu1 + 2*nu2) / 3
 	w1, w2 := 2*math.Pi*nu1, 2*math.Pi*nu2
 	g1, g2 := 2*math.Pi*d1.GammaHz, 2*math.Pi*d2.GammaHz
-	// Γ̄/ω̄³: the 1 : 2 weighted mean of the lines' Γ/ω³.
-	strength := (g1/(w1*w1*w1) + 2*g2/(w2*w2*w2)) / 3
+	// Each line's strength X_J' ∝ Γ_J'/ω_J'³; Γ̄/ω̄³ is their 1 : 2 mean
+	// (the normalisation of Ω̄), x_J' = X_J'/X̄ (x₁ + 2x₂ = 3).
+	k1, k2 := g1/(w1*w1*w1), g2/(w2*w2*w2)
+	strength := (k1 + 2*k2) / 3
+	x1, x2 := k1/strength, k2/strength
+	d.WeightD1, d.WeightD2 = x1, x2
 	w := 2 * math.Pi * nu
 	d.GammaHz = strength * w * w * w / (2 * math.Pi)
 	d.RabiSqPerIntensity = 6 * math.Pi * SpeedOfLight * SpeedOfLight * strength / Hbar
@@ -205,14 +214,14 @@ func (s Species) DLineLightShift(wavelength, groundJ float64) (DLineShift, error
 	C1, C2 := 2*math.Pi*d.CounterD1Hz, 2*math.Pi*d.CounterD2Hz
 	q := Hbar * d.RabiSqPerIntensity / 4
 	// a_s, a_v: the rank-0 and rank-1 amplitudes, both orderings.
-	as := ((1/D1 + 1/C1) + 2*(1/D2+1/C2)) / 3
-	av := ((1/D1 - 1/C1) - (1/D2 - 1/C2)) / 3
+	as := (x1*(1/D1+1/C1) + 2*x2*(1/D2+1/C2)) / 3
+	av := (x1*(1/D1-1/C1) - x2*(1/D2-1/C2)) / 3
 	d.Scalar = q * as
 	d.Vector = q * av
 	d.Scatter = d.RabiSqPerIntensity / 4 * (2 * math.Pi * d.GammaHz) * (as*as + 2*av*av)
-	d.ScalarRWA = q * (1/(3*D1) + 2/(3*D2))
-	d.VectorRWA = q * (1/D1 - 1/D2) / 3
-	d.ScatterRWA = d.RabiSqPerIntensity / 4 * (g1/(3*D1*D1) + 2*g2/(3*D2*D2))
+	d.ScalarRWA = q * (x1/D1 + 2*x2/D2) / 3
+	d.VectorRWA = q * (x1/D1 - x2/D2) / 3
+	d.ScatterRWA = d.RabiSqPerIntensity / 4 * (x1*g1/(3*D1*D1) + 2*x2*g2/(3*D2*D2))
 	return d, nil
 }
 

@@ -191,9 +191,11 @@ func (p Raman) Evaluate() (RamanResult, error) {
 		r.BeamIntensityRWA = Hbar * omega / (2 * math.Abs(d.VectorRWA) * s)
 		r.ScatterPerRabiRWA = 2 * d.ScatterRWA * Hbar / (2 * math.Abs(d.VectorRWA) * s)
 		d1, d2, _ := sp.lines()
-		// 3Γ(ω)(ω̄/ω)/(s Δ_FS) = 3Γ̄(ω/ω̄)²/(s Δ_FS).
+		// 3Γ(ω)(ω̄/ω)/(s Δ′_FS) = 3Γ̄(ω/ω̄)²/(s Δ′_FS), Δ′_FS = Δ_FS + η(ω̄² − ω²)/(2ω̄).
 		nu := SpeedOfLight / p.Wavelength
-		r.FineStructureLimit = 3 * d.GammaHz * d.CentreHz / nu / (s * math.Abs(d.FineStructureHz))
+		eta := d.WeightD1 - d.WeightD2
+		fsEff := d.FineStructureHz + eta*(d.CentreHz*d.CentreHz-nu*nu)/(2*d.CentreHz)
+		r.FineStructureLimit = 3 * d.GammaHz * d.CentreHz / nu / (s * math.Abs(fsEff))
 		r.ScatterPerER = Hbar * r.ScatterRate / eR
 		kL := 2 * math.Pi / p.Wavelength
 		eRec := Hbar * Hbar * kL * kL / (2 * m)
