@@ -240,7 +240,8 @@ func TestDLineLightShiftGrimm(t *testing.T) {
 // 3Γ̄(ω/ω̄)²/(s|Δ′_FS|), Δ′_FS = Δ_FS + η(ω̄² − ω²)/(2ω̄) with η = x₁ − x₂ the
 // lines' strength difference, in the RWA (x₁Γ₁ + 2x₂Γ₂)/(s|Δ_FS − η(ω − ω̄)|):
 // the vector coupling nearly cancels between the lines while the scattering
-// does not. The η part is 2 %–14 % here, more than the tolerance at 40 Δ_FS.
+// does not. The η part of Δ′_FS is 2.4 %–14 % here; the result must also
+// differ from the equal-strength value by more than half of it.
 func TestRamanScatteringLimits(t *testing.T) {
 	sp := rb87(t)
 	d1, d2, _ := sp.lines()
@@ -499,13 +500,15 @@ func TestRFPairRefused(t *testing.T) {
 // one: the scalar shift by O(|Δ|/ω) (one line: 1 + Δ̃⁻¹/Δ⁻¹ = 1 − Δ/(2ω₀ + Δ)),
 // the vector part only by O(|Δ₁Δ₂|/ω²) (the counter-rotating difference of
 // the lines, Δ_FS/Δ̃², against Δ_FS/Δ²), the scattering by the (ω/ω̄)³ of the
-// emission rate and the amplitudes, 3|Δ|/ω + |Δ|/ω, plus the 0.3 % between
-// the lines' own Γ (RWA) and the one-dipole Γ(ω). Far from the lines (1064,
-// 1560 nm) the full/RWA ratios follow the closed forms for |Δ| ≫ Δ_FS
-// (derived in dlines.go and raman.go, ω₀ = ω̄): scalar 2ω₀/(ω₀ + ω), vector
-// 1 − ((ω − ω₀)/(ω + ω₀))², scattering (ω/ω₀)³(2ω₀/(ω₀ + ω))², Γ_sc/Ω
-// (ω/ω₀)², each to 5e-3 (corrections (Δ_FS/Δ)²-small, and the 0.3 % of the
-// Γ convention in the scattering).
+// emission rate and the amplitudes, 3|Δ|/ω + |Δ|/ω (with each line's own
+// strength x_J'Γ(ω_J') = Γ_J', so the RWA's per-line Γ_J' adds nothing;
+// 3e-3 allowed beside). Far from the lines (1064, 1560 nm) the full/RWA
+// ratios follow the closed forms for |Δ| ≫ Δ_FS (derived in dlines.go and
+// raman.go, ω₀ = ω̄, η = x₁ − x₂): scalar 2ω₀/(ω₀ + ω), vector
+// (2ω/(ω + ω₀))(η − 2ω₀Δ_FS/(ω² − ω₀²))/(η − Δ_FS/(ω − ω₀)) (for η = 0
+// 1 − ((ω − ω₀)/(ω + ω₀))²), scattering (ω/ω₀)³(2ω₀/(ω₀ + ω))², Γ_sc/Ω and
+// the intensity from these, each to 5e-3 (corrections (Δ_FS/Δ)²-small and
+// O(ηΔ_FS/Δ)).
 func TestRamanRWALimit(t *testing.T) {
 	sp := rb87(t)
 	up, down := Sublevel{1, 0}, Sublevel{1, -1}
