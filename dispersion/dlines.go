@@ -43,9 +43,9 @@ import "math"
 // The second operator is op_J'(ε₁, ε₂*) = (1/3)[c₀(ε₂*·ε₁) − c₁ i(ε₂*×ε₁)·σ]
 // (c₀, c₁ = 1, +1 for D1 and 2, −1 for D2): swapping the two polarisations
 // leaves the rank-0 part and reverses the rank-1 part, since ε₁×ε₂* = −ε₂*×ε₁.
-// Hence
+// Hence, with x_J' = X_J'/X̄ (below),
 //
-//	V_21 = (ħΩ₁Ω₂/4) Σ_J' (1/3)[c₀(ε₂*·ε₁)(1/Δ_J' + 1/Δ̃_J') + c₁ i(ε₂*×ε₁)·σ (1/Δ_J' − 1/Δ̃_J')]:
+//	V_21 = (ħΩ₁Ω₂/4) Σ_J' (x_J'/3)[c₀(ε₂*·ε₁)(1/Δ_J' + 1/Δ̃_J') + c₁ i(ε₂*×ε₁)·σ (1/Δ_J' − 1/Δ̃_J')]:
 //
 // the scalar part adds the two orderings, the vector part takes their
 // difference. Red of a line both 1/Δ and 1/Δ̃ are negative, so the
