@@ -58,9 +58,12 @@ type RamanResult struct {
 	// ScatterPerRabi: Γ_sc/Ω (Ω in rad/s), independent of the intensity.
 	ScatterPerRabi float64
 	// FineStructureLimit: Γ_sc/Ω for |Δ| ≫ Δ_FS at this wavelength,
-	// 3Γ̄(ω/ω̄)²/(s·Δ_FS) with Γ̄ = Γ(ω̄) ≈ (Γ₁ + 2Γ₂)/3 (the vector coupling
-	// cancels between the lines); in the RWA the constant (Γ₁ + 2Γ₂)/(s·Δ_FS),
-	// the floor no detuning near the lines goes below.
+	// 3Γ̄(ω/ω̄)²/(s·|Δ′_FS|) with Γ̄ = Γ(ω̄) ≈ (Γ₁ + 2Γ₂)/3 and Δ′_FS = Δ_FS +
+	// η(ω̄² − ω²)/(2ω̄), η = x₁ − x₂ the lines' strength difference (the vector
+	// coupling nearly cancels between the lines). Not a floor: far into the
+	// red it falls as (ω/ω̄)² (and with η, for 87Rb, a little faster); in the
+	// RWA (x₁Γ₁ + 2x₂Γ₂)/(s|Δ_FS − ηΔ|), Δ = ω − ω̄ (for η = 0 the constant
+	// (Γ₁ + 2Γ₂)/(s·Δ_FS)).
 	FineStructureLimit float64
 	ScatterPerER       float64 // ħΓ_sc/E_R: scattering events per ħ/E_R
 	// HeatingER: heating 2E_rec per scattered photon, E_rec = ħ²(2π/λ)²/2m
@@ -69,7 +72,7 @@ type RamanResult struct {
 	// BeamIntensityRWA, ScatterPerRabiRWA: BeamIntensity and ScatterPerRabi
 	// in the rotating-wave approximation (DLineShift.VectorRWA, ScatterRWA),
 	// for comparison; near the lines they differ from the full values by
-	// O(|Δ|/ω), at 1064 nm for 87Rb by −2 % and +84 %.
+	// O(|Δ|/ω), at 1064 nm for 87Rb by −2.7 % and +83 %.
 	BeamIntensityRWA, ScatterPerRabiRWA float64
 	// TwoPhotonHz: |f₀| = |E↓ − E↑|/h at the bias (Breit–Rabi), the beams'
 	// frequency difference at two-photon resonance, Hz (NaN without a pair).
@@ -110,17 +113,22 @@ type RamanResult struct {
 // The estimate takes |n| = 1 (orthogonal polarisations, the best geometry:
 // any other needs more intensity) and equal intensities (the least
 // scattering for a given Ω₁Ω₂). With a_s, a_v the rank-0 and rank-1
-// amplitudes of DLineLightShift (a_v = (1/3)[(1/Δ₁ − 1/Δ̃₁) − (1/Δ₂ − 1/Δ̃₂)])
+// amplitudes of DLineLightShift (a_v = (1/3)[x₁(1/Δ₁ − 1/Δ̃₁) − x₂(1/Δ₂ − 1/Δ̃₂)],
+// x_J' each line's own strength relative to the doublet's)
 //
 //	Ω = (Ω_b²/2) s |a_v|,   Γ_sc = (Ω_b²/2) Γ(ω)(a_s² + 2a_v²),
 //	Γ_sc/Ω = Γ(ω)(a_s² + 2a_v²) / (s |a_v|)
 //
-// (all angular frequencies). In the RWA (1/Δ̃ dropped, each line with its
-// own Γ) Γ_sc/Ω = (Γ₁/Δ₁² + 2Γ₂/Δ₂²) / (s |1/Δ₁ − 1/Δ₂|): near one line
-// 2Γ/(s|Δ|) (D2) or Γ/(s|Δ|) (D1). Far from both lines (|Δ| ≫ Δ_FS),
-// a_v ≈ (Δ_FS/3)|1/Δ² − 1/Δ̃²| and a_s ≈ 1/Δ + 1/Δ̃, so Γ_sc/Ω → 3Γ(ω)/(sΔ_FS)
-// · |Δ + Δ̃|/|Δ − Δ̃| = 3Γ̄(ω/ω̄)²/(sΔ_FS) (Δ + Δ̃ = −2ω̄, Δ − Δ̃ = 2ω): the RWA
-// floor (Γ₁ + 2Γ₂)/(sΔ_FS) times (ω/ω̄)², 0.54 at 1064 nm for 87Rb. Warnings:
+// (all angular frequencies). In the RWA (1/Δ̃ dropped, each line decaying
+// with its own Γ) Γ_sc/Ω = (x₁Γ₁/Δ₁² + 2x₂Γ₂/Δ₂²) / (s |x₁/Δ₁ − x₂/Δ₂|):
+// near one line 2Γ/(s|Δ|) (D2) or Γ/(s|Δ|) (D1). Far from both lines (|Δ| ≫
+// Δ_FS; Δ + Δ̃ = −2ω̄, Δ − Δ̃ = 2ω, Δ̄ = ω − ω̄), a_s ≈ 1/Δ + 1/Δ̃ = 2ω̄/(ω² − ω̄²)
+// and (DLineLightShift) a_v ≈ (1/3)(2ω/|ω² − ω̄²|)·Δ′_FS·2ω̄/|ω̄² − ω²|, with
+// Δ′_FS = Δ_FS + η(ω̄² − ω²)/(2ω̄) and η = x₁ − x₂, so Γ_sc/Ω → Γ(ω)a_s²/(s a_v)
+// = 3Γ̄(ω/ω̄)²/(s|Δ′_FS|): for η = 0 the RWA's constant (Γ₁ + 2Γ₂)/(sΔ_FS)
+// times (ω/ω̄)², 0.54 at 1064 nm for 87Rb; η (0.0025 for 87Rb) makes Δ′_FS
+// 3.1 % larger than Δ_FS at 1064 nm, 5.1 % at 1560 nm (in the RWA Δ_FS −
+// ηΔ̄). Warnings:
 // WarnNearResonant when either |Δ_J'| is below NearResonanceLinewidths·Γ_J'
 // or NearResonanceHFS times the hyperfine structure the model leaves out.
 func (p Raman) Evaluate() (RamanResult, error) {
@@ -191,9 +199,11 @@ func (p Raman) Evaluate() (RamanResult, error) {
 		r.BeamIntensityRWA = Hbar * omega / (2 * math.Abs(d.VectorRWA) * s)
 		r.ScatterPerRabiRWA = 2 * d.ScatterRWA * Hbar / (2 * math.Abs(d.VectorRWA) * s)
 		d1, d2, _ := sp.lines()
-		// 3Γ(ω)(ω̄/ω)/(s Δ_FS) = 3Γ̄(ω/ω̄)²/(s Δ_FS).
+		// 3Γ(ω)(ω̄/ω)/(s Δ′_FS) = 3Γ̄(ω/ω̄)²/(s Δ′_FS), Δ′_FS = Δ_FS + η(ω̄² − ω²)/(2ω̄).
 		nu := SpeedOfLight / p.Wavelength
-		r.FineStructureLimit = 3 * d.GammaHz * d.CentreHz / nu / (s * math.Abs(d.FineStructureHz))
+		eta := d.WeightD1 - d.WeightD2
+		fsEff := d.FineStructureHz + eta*(d.CentreHz*d.CentreHz-nu*nu)/(2*d.CentreHz)
+		r.FineStructureLimit = 3 * d.GammaHz * d.CentreHz / nu / (s * math.Abs(fsEff))
 		r.ScatterPerER = Hbar * r.ScatterRate / eR
 		kL := 2 * math.Pi / p.Wavelength
 		eRec := Hbar * Hbar * kL * kL / (2 * m)

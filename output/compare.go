@@ -58,7 +58,7 @@ func (r *CompareReport) RamanLimitTexts() []string {
 	var out []string
 	l := r.RamanLimits
 	if s := l.Scattering; s != nil {
-		out = append(out, fmt.Sprintf("photon scattering ≈ %s /s at mid-window coupling (far-detuned D1 + D2: %s and %s GHz from ↑; each beam %s W/cm²; Γ_sc/Ω = %s, far-detuned floor %s): heating ≈ %s E_R/s",
+		out = append(out, fmt.Sprintf("photon scattering ≈ %s /s at mid-window coupling (far-detuned D1 + D2: %s and %s GHz from ↑; each beam %s W/cm²; Γ_sc/Ω = %s, far from both lines %s): heating ≈ %s E_R/s",
 			Num(s.Rate, 3), Num(s.DetuningD1Hz/1e9, 5), Num(s.DetuningD2Hz/1e9, 5), Num(s.BeamIntensity*1e-4, 3),
 			Num(s.PerRabi, 3), Num(s.FarDetunedPerRabi, 3), Num(s.HeatingER, 3)))
 	}

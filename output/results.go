@@ -150,7 +150,7 @@ func (w *Writer) WriteRaman(p dispersion.Raman, r dispersion.RamanResult) {
 	w.Scalar(o+"beam_rabi", r.BeamRabiHz, "Hz", "single-beam Rabi frequency on the D-line doublet")
 	w.Scalar(o+"scattering_rate", r.ScatterRate, "1/s", "photon scattering rate of both beams, far-detuned D1 + D2 (weights 1/3, 2/3), both time orderings (no RWA)")
 	w.Scalar(o+"scattering_per_rabi", r.ScatterPerRabi, "dimensionless", "Γ_sc/Ω (Ω in rad/s)")
-	w.Scalar(o+"scattering_per_rabi_far_detuned", r.FineStructureLimit, "dimensionless", "Γ_sc/Ω for detuning ≫ fine structure at this wavelength, 3Γ̄(ω/ω̄)²/(s Δ_FS) (RWA: (Γ1 + 2Γ2)/(s Δ_FS))")
+	w.Scalar(o+"scattering_per_rabi_far_detuned", r.FineStructureLimit, "dimensionless", "Γ_sc/Ω for detuning ≫ fine structure at this wavelength, 3Γ̄(ω/ω̄)²/(s Δ′_FS), Δ′_FS = Δ_FS + (x1 − x2)(ω̄² − ω²)/(2ω̄) with x_J' each line's own strength")
 	w.Scalar(o+"heating", r.HeatingER, "E_R/s", "heating rate estimate, 2E_rec per scattered photon")
 	w.writeWarnings("/results", r.Warnings)
 }

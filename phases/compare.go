@@ -231,8 +231,9 @@ type ScatteringLimit struct {
 	DetuningD1Hz, DetuningD2Hz float64
 	// BeamIntensity: intensity of each beam for RabiHz, W/m².
 	BeamIntensity float64
-	// PerRabi: Γ_sc/Ω; FarDetunedPerRabi: its floor for detunings ≫ the
-	// fine-structure splitting.
+	// PerRabi: Γ_sc/Ω; FarDetunedPerRabi: its value for detunings ≫ the
+	// fine-structure splitting (dispersion.RamanResult.FineStructureLimit;
+	// not a floor: far into the red it falls as (ω/ω̄)²).
 	PerRabi, FarDetunedPerRabi float64
 }
 

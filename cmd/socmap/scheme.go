@@ -288,7 +288,7 @@ func ramanTable(p dispersion.Raman, r dispersion.RamanResult, info dispersion.Ba
 	t.RowNote("intensity of each beam", N(r.BeamIntensity*1e-4, 4), "W/cm²", "(equal beams, orthogonal linear polarisations)")
 	t.Row("single-beam Rabi frequency", N(r.BeamRabiHz/1e6, 4), "MHz")
 	t.Row("scattering rate Γ_sc (both beams)", N(r.ScatterRate, 3), "1/s")
-	t.RowNote("Γ_sc/Ω", N(r.ScatterPerRabi, 3), "", "far from both lines 3Γ̄(ω/ω̄)²/(s Δ_FS) = "+N(r.FineStructureLimit, 3))
+	t.RowNote("Γ_sc/Ω", N(r.ScatterPerRabi, 3), "", "far from both lines (|Δ| ≫ Δ_FS) "+N(r.FineStructureLimit, 3))
 	if c := r.ScatterPerRabi/r.ScatterPerRabiRWA - 1; math.Abs(c) >= 0.01 {
 		t.RowNote("… in the rotating-wave approximation", N(r.ScatterPerRabiRWA, 3), "", fmt.Sprintf("(each beam %s W/cm²; the counter-rotating terms change Γ_sc/Ω by %+.0f %%)", N(r.BeamIntensityRWA*1e-4, 4), 100*c))
 	}
