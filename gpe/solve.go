@@ -97,7 +97,9 @@ type Settings struct {
 	// the 3D 64³ benchmark cloud: less CPU time than without, or the same;
 	// fewer coarse and fine iterations except up to 20 % more fine ones at
 	// N = 2e6 matched after fewer coarse ones; 250 and 1000 no better;
-	// DEVELOPERS.md, "Convergence of large clouds"); negative: never.
+	// DEVELOPERS.md, "Convergence of large clouds"); negative: never. The
+	// spin-1 finisher (Spin1Solve, spin1Engine.phaseStep) takes the same
+	// step on its three components.
 	PhaseEvery int
 	// ContinueIter (MultiStart only): further finisher iterations given to a
 	// start that ended unconverged with an energy below the kept converged
