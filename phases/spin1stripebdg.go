@@ -409,18 +409,7 @@ func (ss *spin1StripeSpectrum) converge(st *ExcitationSettings) *spin1StripeSpec
 }
 
 func (ss *spin1StripeSpectrum) probe() []float64 {
-	var out []float64
-	for _, f := range []float64{0.125, 0.25, 0.5} {
-		ms, _, err := ss.modes(f*ss.K, QAlongX, false)
-		for b := 0; b < ss.bands; b++ {
-			if err != nil || b >= len(ms) {
-				out = append(out, math.NaN())
-				continue
-			}
-			out = append(out, ms[b].Omega)
-		}
-	}
-	return out
+	return latticeProbe(ss.modes, ss.K, ss.bands)
 }
 
 func (ss *spin1StripeSpectrum) gapless() int { return 2 }

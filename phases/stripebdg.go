@@ -435,18 +435,7 @@ func (ss *stripeSpectrum) finishState(set *ExcitationSettings) {
 // probe returns the lowest bands at q = K/8, K/4, K/2 (the convergence
 // test of the basis).
 func (ss *stripeSpectrum) probe() []float64 {
-	var out []float64
-	for _, f := range []float64{0.125, 0.25, 0.5} {
-		ms, _, err := ss.modes(f*ss.K, QAlongX, false)
-		for b := 0; b < ss.bands; b++ {
-			if err != nil || b >= len(ms) {
-				out = append(out, math.NaN())
-				continue
-			}
-			out = append(out, ms[b].Omega)
-		}
-	}
-	return out
+	return latticeProbe(ss.modes, ss.K, ss.bands)
 }
 
 func (ss *stripeSpectrum) state() CondensateState { return ss.st }
@@ -578,4 +567,21 @@ func latticeSound(all latticeAll, h float64) (cpx, cmx, cy []float64) {
 		}
 	}
 	return soundSlope(along(QAlongX, 1), h, 2), soundSlope(along(QAlongX, -1), h, 2), soundSlope(along(QAlongY, 1), h, 2)
+}
+
+// latticeProbe returns the lowest bands of modes at q = K/8, K/4, K/2 (the
+// convergence test of a plane-wave basis; NaN where a band is missing).
+func latticeProbe(modes latticeAll, K float64, bands int) []float64 {
+	var out []float64
+	for _, f := range []float64{0.125, 0.25, 0.5} {
+		ms, _, err := modes(f*K, QAlongX, false)
+		for b := 0; b < bands; b++ {
+			if err != nil || b >= len(ms) {
+				out = append(out, math.NaN())
+				continue
+			}
+			out = append(out, ms[b].Omega)
+		}
+	}
+	return out
 }
