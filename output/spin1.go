@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"socmap/dispersion"
+	"socmap/gpe"
 	"socmap/output/h5"
 	"socmap/phases"
 )
@@ -125,7 +126,16 @@ type Spin1Ground struct {
 	*phases.Spin1GroundResult
 }
 
-// JSON: populations (m = +1, 0, −1 fractions), fz, f_perp, phase, energies,
+// orderWhere says where the local spin order of r is taken (Spin1Observe).
+func orderWhere(r Spin1Ground) string {
+	if r.Problem.Model.Potential.Kind != gpe.NoPotential { // trap or hard box
+		return "central region n ≥ n_max/2"
+	}
+	return "whole box"
+}
+
+// JSON: populations (m = +1, 0, −1 fractions), fz, f_perp, local_spin_order
+// (L), local_transverse_order (P), phase, energies,
 // residual, status, the variational answer and the two-level comparison.
 func (r Spin1Ground) JSON() map[string]any {
 	b := r.Multi.Best
@@ -142,6 +152,8 @@ func (r Spin1Ground) JSON() map[string]any {
 		"populations":                         map[string]any{"m+1": ob.Populations[0], "m0": ob.Populations[1], "m-1": ob.Populations[2]},
 		"fz":                                  ob.Fz,
 		"f_perp":                              ob.FPerp,
+		"local_spin_order":                    ob.Order.Local,
+		"local_transverse_order":              ob.Order.Transverse,
 		"density_rms":                         ob.DensityRMS,
 		"energy_per_particle_over_ER":         b.Energies.Total,
 		"mu_over_ER":                          b.Energies.Mu,
@@ -235,6 +247,7 @@ func (r Spin1Ground) Table() *Table {
 	t.Row("populations m = +1, 0, −1", fmt.Sprintf("%s, %s, %s", N(ob.Populations[0], 6), N(ob.Populations[1], 6), N(ob.Populations[2], 6)), "")
 	t.Row("⟨F_z⟩ per particle", N(ob.Fz, 6), "")
 	t.Row("f_perp (rms |F_x + iF_y|)", N(ob.FPerp, 6), "")
+	t.RowNote("local spin order L, transverse P", N(ob.Order.Local, 6)+", "+N(ob.Order.Transverse, 6), "", orderWhere(r))
 	t.Section("Variational theory (" + r.VariationalWhere + ")")
 	t.RowNote("phase", r.Variational.Phase.String(), "", r.Variational.Name)
 	t.Row("energy per particle", N(r.Variational.Energy, 10), "E_R")
@@ -301,6 +314,8 @@ func (r Spin1Ground) WriteH5(w *Writer) {
 	w.Array("/observables/populations", append([]float64(nil), ob.Populations[:]...), nil, "dimensionless", "fractions in m = +1, 0, −1")
 	w.Scalar("/observables/fz", ob.Fz, "dimensionless", "⟨F_z⟩ per particle")
 	w.Scalar("/observables/f_perp", ob.FPerp, "dimensionless", "rms |F_x + iF_y| per particle")
+	w.Scalar("/observables/local_spin_order", ob.Order.Local, "dimensionless", "L = Σ|F|²/Σn² ("+orderWhere(r)+"): 1 locally ferromagnetic, M² for the ±1 mixture, 0 polar")
+	w.Scalar("/observables/local_transverse_order", ob.Order.Transverse, "dimensionless", "P = Σ|F_x + iF_y|²/Σn² ("+orderWhere(r)+")")
 	w.Scalar("/observables/energy_per_particle", r.Multi.Best.Energies.Total, "E_R", "energy per particle")
 	w.Scalar("/observables/residual", r.Multi.Best.Residual, "E_R", "‖Hψ − μψ‖")
 	w.Attr("/observables", "phase", ob.Phase.String())

@@ -35,6 +35,11 @@ func TestLevels3Commands(t *testing.T) {
 	if math.Abs(pops["m0"].(float64)-0.75) > 1e-6 || doc["phase"] != "broken-axisymmetry" {
 		t.Errorf("populations %v phase %v", pops, doc["phase"])
 	}
+	// its local spin order: F_z = 0 and |F_⊥|² = 4ρ0(1 − ρ0) everywhere, so
+	// L = P = 1 − (q/2|c2|n)² = 0.75 (derived from the single-mode spinor).
+	if l, p := doc["local_spin_order"].(float64), doc["local_transverse_order"].(float64); math.Abs(l-0.75) > 1e-6 || math.Abs(p-0.75) > 1e-6 {
+		t.Errorf("local spin order L %v, P %v, want 0.75", l, p)
+	}
 	if _, err := os.Stat(filepath.Join(dir, "g.h5")); err != nil {
 		t.Error(err)
 	}
