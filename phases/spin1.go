@@ -246,6 +246,10 @@ type Spin1Result struct {
 	FPerp float64
 	// DensityRMS: √(⟨n²⟩/n̄² − 1), the rms modulation of the total density.
 	DensityRMS float64
+	// Order: the local spin order L = ⟨|F|²⟩/⟨n²⟩, its transverse part P
+	// and F_z from the exact x-averages (what the naming reads; see
+	// classify).
+	Order label.Spin1Order
 	// MinimumOf[i]: index into Bands.Minima of the minimum nearest to wave i.
 	MinimumOf  []int
 	Candidates []Spin1Candidate
@@ -421,6 +425,7 @@ func (u Spin1Uniform) classify(r *Spin1Result, st *Spin1Settings) (label.Phase, 
 	}
 	av := u.Averages(r.State)
 	order := label.Spin1Order{Local: (av.F2[0] + av.F2[1] + av.F2[2]) / av.N2, Transverse: (av.F2[0] + av.F2[1]) / av.N2, Fz: av.Fz}
+	r.Order = order
 	ph := label.Spin1Name(len(keep), nm == 1, uniform, order)
 	join := ", "
 	if len(keep) == 2 {

@@ -63,6 +63,8 @@ var Spin1GPEObservables = []Observable{
 	{Name: "box_length", Unit: "1/k_R", Description: "box length along x"},
 	{Name: "grid_points", Unit: "dimensionless", Description: "grid points along x"},
 	{Name: "spread", Unit: "E_R", Description: "energy spread among the converged starts"},
+	{Name: "local_order", Unit: "dimensionless", Description: "local spin order L = sum |F|^2 / sum n^2 of the kept state (1 locally ferromagnetic, M^2 for the +-1 mixture, 0 polar)"},
+	{Name: "transverse_order", Unit: "dimensionless", Description: "transverse part P = sum |F_x + iF_y|^2 / sum n^2 of the local spin order"},
 	{Name: "box_admits_waves", Unit: "dimensionless", Description: "1 when every wave momentum of the variational optimum lies on the box's momentum grid, else 0 (finite-box quantisation moves a wave: the GPE energy can lie above the variational one)"},
 }
 
@@ -125,7 +127,7 @@ func (p *MapProblem) Spin1GPEPoints() PointFunc {
 		}
 		if !su.Resolved {
 			return PointResult{Phase: label.UnderResolved, Values: []float64{
-				nan, nan, nan, nan, nan, nan, nan, nan, nan, nan, vr.Energy, float64(vr.Phase), lx, nx, nan, fits,
+				nan, nan, nan, nan, nan, nan, nan, nan, nan, nan, vr.Energy, float64(vr.Phase), lx, nx, nan, nan, nan, fits,
 			}}, nil
 		}
 		set := solver
@@ -149,7 +151,7 @@ func (p *MapProblem) Spin1GPEPoints() PointFunc {
 		pop := ob.Populations
 		return PointResult{Phase: ph, Values: []float64{
 			ob.Energies.Total, ob.Fz, ob.FPerp, pop[0], pop[1], pop[2], ob.Contrast, k1, period, mr.Best.Residual,
-			vr.Energy, float64(vr.Phase), lx, nx, mr.Spread, fits,
+			vr.Energy, float64(vr.Phase), lx, nx, mr.Spread, ob.Order.Local, ob.Order.Transverse, fits,
 		}}, nil
 	})
 }

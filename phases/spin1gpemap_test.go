@@ -113,6 +113,9 @@ func TestSpin1GPEMapPoints(t *testing.T) {
 			t.Errorf("Ω = 1: map %s = %.15g, Spin1Ground %.15g", Spin1GPEObservables[i].Name, pts[1].Values[i], w)
 		}
 	}
+	if spin1Obs(t, pts[1], "local_order") != o.Order.Local || spin1Obs(t, pts[1], "transverse_order") != o.Order.Transverse {
+		t.Errorf("Ω = 1: map L, P = %g, %g; Spin1Ground %g, %g", spin1Obs(t, pts[1], "local_order"), spin1Obs(t, pts[1], "transverse_order"), o.Order.Local, o.Order.Transverse)
+	}
 	if pts[1].Phase != o.Phase || spin1Obs(t, pts[1], "box_length") != g.Problem.Grid.L[0] || spin1Obs(t, pts[1], "energy_variational") != g.Variational.Energy {
 		t.Errorf("Ω = 1: map %v box %g E_var %g, Spin1Ground %v %g %g", pts[1].Phase, spin1Obs(t, pts[1], "box_length"),
 			spin1Obs(t, pts[1], "energy_variational"), o.Phase, g.Problem.Grid.L[0], g.Variational.Energy)

@@ -48,12 +48,15 @@ var Spin1Observables = []Observable{
 	{Name: "pop_m1", Unit: "dimensionless", Description: "fraction in m = -1"},
 	{Name: "density_rms", Unit: "dimensionless", Description: "rms modulation of the total density"},
 	{Name: "waves", Unit: "dimensionless", Description: "number of plane waves of the winning ansatz"},
+	{Name: "local_order", Unit: "dimensionless", Description: "local spin order L = <|F|^2>/<n^2> (1 locally ferromagnetic, M^2 for the +-1 mixture, 0 polar)"},
+	{Name: "transverse_order", Unit: "dimensionless", Description: "transverse part P = <|F_x + iF_y|^2>/<n^2> of the local spin order"},
 }
 
 // Point converts a spin-1 result to a map point with Spin1Observables.
 func (r Spin1Result) Point() PointResult {
 	return PointResult{Phase: r.Phase, Values: []float64{r.Energy, r.Fz, r.FPerp,
-		r.Populations[0], r.Populations[1], r.Populations[2], r.DensityRMS, float64(len(r.State.Waves))}}
+		r.Populations[0], r.Populations[1], r.Populations[2], r.DensityRMS, float64(len(r.State.Waves)),
+		r.Order.Local, r.Order.Transverse}}
 }
 
 // spin1Axes: the axes that only set pseudo-spin interactions have no
