@@ -22,8 +22,7 @@ const defaultBraggDuration = 25.0
 func newExcitationsCmd() *cobra.Command {
 	var mf modelFlags
 	var inf interFlags
-	var qText, axis, branch, braggQ, braggDur string
-	var bands, harmonics int
+	var ef excitationFlags
 	var outs []string
 	var lf levelFlags
 	c := &cobra.Command{
@@ -60,7 +59,7 @@ of h − λF_z.`,
 				return err
 			}
 			if lf.levels == 3 {
-				return runExcitations3(cmd, &mf, &lf, &inf, excitationFlags{q: qText, axis: axis, branch: branch, braggQ: braggQ, braggDur: braggDur, bands: bands, harmonics: harmonics}, outs)
+				return runExcitations3(cmd, &mf, &lf, &inf, ef, outs)
 			}
 			lab, err := mf.lab()
 			if err != nil {
@@ -73,51 +72,17 @@ of h − λF_z.`,
 			if err != nil {
 				return usagef("%v", err)
 			}
-			p := phases.ExcitationProblem{Uniform: u}
-			if p.Branch, err = phases.ParseBranch(branch); err != nil {
-				return usagef("--branch %q: allowed: ground, plane-wave, stripe", branch)
-			}
-			switch axis {
-			case "x":
-				p.Axis = phases.QAlongX
-			case "y":
-				p.Axis = phases.QAlongY
-			case "z":
-				p.Axis = phases.QAlongZ
-			default:
-				return usagef("--q-axis %q: allowed: x, y, z", axis)
-			}
-			kR := math.Abs(model.KR)
-			if p.Q, err = parseQGrid(qText, kR); err != nil {
+			sp, err := ef.parse(model)
+			if err != nil {
 				return err
 			}
-			if bands < 1 || bands > 64 {
-				return usagef("--bands %d: allowed 1 … 64", bands)
-			}
-			if harmonics < 0 || harmonics > 96 || harmonics%2 == 1 {
-				return usagef("--harmonics %d: an even number of plane waves 2 … 96, or 0 (from convergence)", harmonics)
-			}
-			if braggQ != "" {
-				q, err := parseMomentum("bragg-q", braggQ, kR)
-				if err != nil {
-					return err
-				}
-				tau := defaultBraggDuration
-				if braggDur != "" {
-					if tau, err = parseDuration(braggDur, model.TimeUnit(), model.ER > 0); err != nil {
-						return err
-					}
-				}
-				p.Bragg = &phases.BraggProblem{Q: q, Duration: tau}
-			} else if braggDur != "" {
-				return usagef("--bragg-duration %q: needs --bragg-q", braggDur)
-			}
-			res, err := phases.Excitations(p, &phases.ExcitationSettings{Bands: bands, Harmonics: harmonics})
+			p := phases.ExcitationProblem{Uniform: u, Branch: sp.branch, Axis: sp.axis, Q: sp.q, Bragg: sp.bragg}
+			res, err := phases.Excitations(p, &phases.ExcitationSettings{Bands: ef.bands, Harmonics: ef.harmonics})
 			switch {
 			case errors.Is(err, phases.ErrNotStripe):
 				return usagef("--branch stripe: no stripe state at Ω = %.4g E_R, δ = %.4g E_R, n g = (%.4g, %.4g, %.4g) E_R", u.Omega, u.Delta, u.Guu, u.Gdd, u.Gud)
 			case errors.Is(err, phases.ErrBadMomenta):
-				return usagef("--q %q: the momentum grid is empty or not finite", qText)
+				return usagef("--q %q: the momentum grid is empty or not finite", ef.q)
 			case err != nil:
 				return fmt.Errorf("excitations: %w", err)
 			}
@@ -129,13 +94,13 @@ of h − λF_z.`,
 	mf.add(fs)
 	inf.add(fs)
 	lf.add(fs, true)
-	fs.StringVar(&qText, "q", "-3:3:241", `excitation momenta LO:HI:N, in k_R or with a unit ("-2 1/um:2 1/um:101")`)
-	fs.StringVar(&axis, "q-axis", "x", "direction of the momenta: x (along the coupling; extended zones for a stripe), y or z")
-	fs.StringVar(&branch, "branch", "ground", "state: ground (the lower of plane wave and stripe), plane-wave, stripe")
-	fs.StringVar(&braggQ, "bragg-q", "", `Bragg momentum along x, in k_R or with a unit ("3 1/um"): adds the Bragg spectrum`)
-	fs.StringVar(&braggDur, "bragg-duration", "", `rectangular Bragg pulse duration, in ħ/E_R or with a unit ("2 ms"); default 25 ħ/E_R`)
-	fs.IntVar(&bands, "bands", 6, "stripe bands reported per momentum")
-	fs.IntVar(&harmonics, "harmonics", 0, "plane waves of the stripe basis (even); 0: raised until the bands converge to 1e-9 E_R")
+	fs.StringVar(&ef.q, "q", "-3:3:241", `excitation momenta LO:HI:N, in k_R or with a unit ("-2 1/um:2 1/um:101")`)
+	fs.StringVar(&ef.axis, "q-axis", "x", "direction of the momenta: x (along the coupling; extended zones for a stripe), y or z")
+	fs.StringVar(&ef.branch, "branch", "ground", "state: ground (the lower of plane wave and stripe), plane-wave, stripe")
+	fs.StringVar(&ef.braggQ, "bragg-q", "", `Bragg momentum along x, in k_R or with a unit ("3 1/um"): adds the Bragg spectrum`)
+	fs.StringVar(&ef.braggDur, "bragg-duration", "", `rectangular Bragg pulse duration, in ħ/E_R or with a unit ("2 ms"); default 25 ħ/E_R`)
+	fs.IntVar(&ef.bands, "bands", 6, "stripe bands reported per momentum")
+	fs.IntVar(&ef.harmonics, "harmonics", 0, "plane waves of the stripe basis (even); 0: raised until the bands converge to 1e-9 E_R")
 	fs.StringSliceVar(&outs, "out", nil, "write FILE.h5, FILE.json, FILE.csv (modes per momentum), FILE.png, .svg or .pdf (spectrum; with --bragg-q also the Bragg spectrum) (repeatable)")
 	return c
 }
@@ -170,6 +135,62 @@ type excitationFlags struct {
 	bands, harmonics                  int
 }
 
+// excitationSpectrum is what excitationFlags.parse reads: the state, the
+// momentum grid and its direction, and the Bragg pulse (nil without
+// --bragg-q).
+type excitationSpectrum struct {
+	branch phases.Branch
+	axis   phases.QAxis
+	q      []float64
+	bragg  *phases.BraggProblem
+}
+
+// parse checks --bands and --harmonics and reads --branch, --q-axis, --q,
+// --bragg-q and --bragg-duration, with the units of model (k_R, ħ/E_R).
+func (ef excitationFlags) parse(model dispersion.Model) (excitationSpectrum, error) {
+	var sp excitationSpectrum
+	if ef.bands < 1 || ef.bands > 64 {
+		return sp, usagef("--bands %d: allowed 1 … 64", ef.bands)
+	}
+	if ef.harmonics < 0 || ef.harmonics > 96 || ef.harmonics%2 == 1 {
+		return sp, usagef("--harmonics %d: an even number of plane waves 2 … 96, or 0 (from convergence)", ef.harmonics)
+	}
+	var err error
+	if sp.branch, err = phases.ParseBranch(ef.branch); err != nil {
+		return sp, usagef("--branch %q: allowed: ground, plane-wave, stripe", ef.branch)
+	}
+	switch ef.axis {
+	case "x":
+		sp.axis = phases.QAlongX
+	case "y":
+		sp.axis = phases.QAlongY
+	case "z":
+		sp.axis = phases.QAlongZ
+	default:
+		return sp, usagef("--q-axis %q: allowed: x, y, z", ef.axis)
+	}
+	kR := math.Abs(model.KR)
+	if sp.q, err = parseQGrid(ef.q, kR); err != nil {
+		return sp, err
+	}
+	if ef.braggQ != "" {
+		q, err := parseMomentum("bragg-q", ef.braggQ, kR)
+		if err != nil {
+			return sp, err
+		}
+		tau := defaultBraggDuration
+		if ef.braggDur != "" {
+			if tau, err = parseDuration(ef.braggDur, model.TimeUnit(), model.ER > 0); err != nil {
+				return sp, err
+			}
+		}
+		sp.bragg = &phases.BraggProblem{Q: q, Duration: tau}
+	} else if ef.braggDur != "" {
+		return sp, usagef("--bragg-duration %q: needs --bragg-q", ef.braggDur)
+	}
+	return sp, nil
+}
+
 // runExcitations3 is `excitations --levels 3`: the spin-1 model and
 // interactions as `ground --levels 3` builds them for a uniform box, then
 // phases.Spin1Excitations. Two-level couplings and stripe-basis settings on
@@ -184,17 +205,7 @@ func runExcitations3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *in
 			return usagef("--%s %q: a two-level coupling; with --levels 3 give --nc0-er and --nc2-er, or --density (with --a0/--a2)", f.name, f.q.text)
 		}
 	}
-	if ef.bands < 1 || ef.bands > 64 {
-		return usagef("--bands %d: allowed 1 … 64", ef.bands)
-	}
-	if ef.harmonics < 0 || ef.harmonics > 96 || ef.harmonics%2 == 1 {
-		return usagef("--harmonics %d: an even number of plane waves 2 … 96, or 0 (from convergence)", ef.harmonics)
-	}
 	p := phases.Spin1ExcitationProblem{}
-	var err error
-	if p.Branch, err = phases.ParseBranch(ef.branch); err != nil {
-		return usagef("--branch %q: allowed: ground, plane-wave, stripe", ef.branch)
-	}
 	m, scheme, ws, err := lf.model(mf)
 	if err != nil {
 		return err
@@ -208,36 +219,12 @@ func runExcitations3(cmd *cobra.Command, mf *modelFlags, lf *levelFlags, inf *in
 	}
 	p.Uniform.Model = m
 	p.FixMagnetization, p.Magnetization = lf.fixedM()
-	switch ef.axis {
-	case "x":
-		p.Axis = phases.QAlongX
-	case "y":
-		p.Axis = phases.QAlongY
-	case "z":
-		p.Axis = phases.QAlongZ
-	default:
-		return usagef("--q-axis %q: allowed: x, y, z", ef.axis)
-	}
 	model := dispersion.Model{Mass: m.Mass, KR: m.KR, ER: m.ER, OmegaOverER: m.Omega, DeltaOverER: m.PairModel().Delta}
-	kR := math.Abs(m.KR)
-	if p.Q, err = parseQGrid(ef.q, kR); err != nil {
+	sp, err := ef.parse(model)
+	if err != nil {
 		return err
 	}
-	if ef.braggQ != "" {
-		q, err := parseMomentum("bragg-q", ef.braggQ, kR)
-		if err != nil {
-			return err
-		}
-		tau := defaultBraggDuration
-		if ef.braggDur != "" {
-			if tau, err = parseDuration(ef.braggDur, model.TimeUnit(), model.ER > 0); err != nil {
-				return err
-			}
-		}
-		p.Bragg = &phases.BraggProblem{Q: q, Duration: tau}
-	} else if ef.braggDur != "" {
-		return usagef("--bragg-duration %q: needs --bragg-q", ef.braggDur)
-	}
+	p.Branch, p.Axis, p.Q, p.Bragg = sp.branch, sp.axis, sp.q, sp.bragg
 	res, err := phases.Spin1Excitations(p, &phases.ExcitationSettings{Bands: ef.bands, Harmonics: ef.harmonics})
 	switch {
 	case errors.Is(err, phases.ErrNotStripe):
